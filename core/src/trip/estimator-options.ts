@@ -1,0 +1,28 @@
+/**
+ * Validity rules of the k estimator: which samples say something about the radiator, and how they are
+ * averaged. Defaults defined once here; each says why.
+ */
+export const ESTIMATOR_DEFAULTS = {
+  /** s, 60: averaging window. Long enough that the storage slope C·dT/dt is measured well under
+   *  0.1–0.3 K sensor noise (σ_slope ≈ σ·√12 / T^1.5 ≈ 0.004 K/s at 0.2 K), short enough to stay in one band. */
+  window_s: 60,
+  /** s, 30: a window cut short by leaving the band is kept if at least this long. */
+  min_window_s: 30,
+  /** s, 10: a larger gap between samples ends a window; the estimator never averages across a gap. */
+  max_step_s: 10,
+  /** K, 10: minimum ITD, so a 0.5 K sensor error stays within 5 % of k. */
+  min_itd_k: 10,
+  /** –, 0.05: minimum heat rejected as a share of the design heat load (and at least min_heat_kw);
+   *  below it the radiator is barely working and k is dominated by errors of the heat estimate. */
+  min_heat_share_of_design: 0.05,
+  /** kW, 2: absolute floor of the heat rejected in a window. */
+  min_heat_kw: 2,
+  /** –, 0.5: near-steady rule without a flow meter: |C·dT/dt| at most this share of the heat generated,
+   *  so an error in the thermal mass C cannot dominate the heat rejected. */
+  max_storage_share: 0.5,
+  /** –, 6: windows needed for a band estimate; the smallest count whose order-statistic 95 %
+   *  interval for the median exists within the data. */
+  min_windows: 6,
+} as const;
+
+export type EstimatorOptions = { -readonly [K in keyof typeof ESTIMATOR_DEFAULTS]: number };

@@ -1,0 +1,50 @@
+import { writeFileSync } from 'node:fs';
+import { parseArgs } from 'node:util';
+import { InputError } from '@thermargin/shared';
+import { tripsCsv } from '../output/trips-csv.ts';
+import { textSummary } from '../output/text-summary.ts';
+import { analyzeData } from './analyze-data.ts';
+import { buildReport } from './report.ts';
+
+export const ANALYZE_USAGE = `thermargin analyze --fleet FLEET.json --data PATH [--out FILE] [--format json|csv|text]
+  --fleet   fleet file (JSON): the vehicles, their cooling packages and design points
+  --data    a CSV file, or a folder of CSV files, in the import format
+  --out     write the result here instead of to standard output
+  --format  json (default: the full result), csv (one row per trip) or text (one line per vehicle)`;
+
+const FORMATS = ['json', 'csv', 'text'] as const;
+
+export async function analyzeCommand(argv: string[], log: (line: string) => void): Promise<void> {
+  const { values } = parseArgs({
+    args: argv,
+    options: {
+      fleet: { type: 'string' },
+      data: { type: 'string' },
+      out: { type: 'string' },
+      format: { type: 'string' },
+    },
+    strict: true,
+  });
+  const format = (values.format ?? 'json') as (typeof FORMATS)[number];
+  const problems = [
+    ...(values.fleet ? [] : [{ where: '--fleet', rule: 'required' }]),
+    ...(values.data ? [] : [{ where: '--data', rule: 'required' }]),
+    ...(FORMATS.includes(format)
+      ? []
+      : [{ where: '--format', rule: `must be one of ${FORMATS.join(', ')}` }]),
+  ];
+  if (problems.length) throw new InputError(problems, `usage:\n${ANALYZE_USAGE}\n`);
+  const data = await analyzeData(values.fleet!, values.data!, log);
+  const report = buildReport(data);
+  const text =
+    format === 'csv'
+      ? tripsCsv(report)
+      : format === 'text'
+        ? textSummary(report)
+        : `${JSON.stringify(report, null, 1)}\n`;
+  if (values.out) writeFileSync(values.out, text);
+  else process.stdout.write(text);
+  log(
+    `analysed ${data.rows.toLocaleString('en-US')} rows of ${data.vehicles.length} vehicles; ${report.rejected.total} rejected`,
+  );
+}

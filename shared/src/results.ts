@@ -1,0 +1,85 @@
+import { z } from 'zod';
+
+/** Why a band has no k on a trip, in words a practitioner can act on. */
+const reason = z.string();
+const ci95 = z.tuple([z.number(), z.number()]);
+const nullableNumber = z.number().nullable();
+
+export const STATUSES = ['ok', 'watch', 'inspect'] as const;
+export type Status = (typeof STATUSES)[number];
+export const CAUSES = ['none', 'fouling', 'fan', 'coolant_flow', 'sensor'] as const;
+export type Cause = (typeof CAUSES)[number];
+
+/** Per-trip result of the core computation (see core/trip/analyze-trip.ts). */
+export const tripResultSchema = z.object({
+  trip: z.string(),
+  start: z.string(),
+  end: z.string(),
+  samples: z.number().int(),
+  rejected: z.number().int(),
+  distance_km: z.number(),
+  k_ram_w_m2k: nullableNumber,
+  k_ram_ci95: ci95.nullable(),
+  n_ram: z.number().int(),
+  k_ram_reason: reason.nullable(),
+  k_fan_w_m2k: nullableNumber,
+  k_fan_ci95: ci95.nullable(),
+  n_fan: z.number().int(),
+  k_fan_reason: reason.nullable(),
+  heat_kw_mean: z.number(),
+  heat_kw_p95: z.number(),
+  heat_kw_max: z.number(),
+  heat_kwh: z.number(),
+  derate_s: z.number(),
+  coolant_max_c: z.number(),
+  ambient_max_c: z.number(),
+  margin_pct: nullableNumber,
+  limiting_ambient_c: nullableNumber,
+  margin_basis: z.enum(['ram', 'fan']).nullable(),
+  /** Evidence the health module reads (see core/trip/evidence.ts). */
+  ambient_mean_c: z.number(),
+  /** K: coolant_in − ambient at key-on after a stop of ≥ 6 h (a soaked loop reads ambient); null otherwise. */
+  soak_offset_k: nullableNumber,
+  /** Share (0–1) of the trip's time with the fan at ≥ 95 % duty. */
+  fan_saturated_share: z.number(),
+  /** K/kW: median radiator temperature drop per kW rejected over valid windows; null without an outlet sensor. */
+  coolant_dt_per_kw: nullableNumber,
+  /** Signals that looked stuck or spiky on this trip, in words (e.g. "coolant_in_c stuck at 81.0 for 42 min"). */
+  sensor_flags: z.array(z.string()),
+  health_ram: nullableNumber.optional(),
+  health_fan: nullableNumber.optional(),
+  status: z.enum(STATUSES).optional(),
+});
+export type TripResult = z.infer<typeof tripResultSchema>;
+
+export const alertSchema = z.object({
+  time: z.string(),
+  status: z.enum(STATUSES),
+  cause: z.enum(CAUSES),
+  detail: z.string(),
+});
+export type Alert = z.infer<typeof alertSchema>;
+
+export const vehicleResultSchema = z.object({
+  id: z.string(),
+  trips: z.array(tripResultSchema),
+  health: z.object({ ram: nullableNumber, fan: nullableNumber }).optional(),
+  status: z.enum(STATUSES).optional(),
+  cause: z.enum(CAUSES).optional(),
+  cause_evidence: z.string().optional(),
+  projected_inspect_date: z.string().nullable().optional(),
+  alerts: z.array(alertSchema).optional(),
+});
+export type VehicleResult = z.infer<typeof vehicleResultSchema>;
+
+export const rejectedSummarySchema = z.object({
+  total: z.number().int(),
+  by_reason: z.record(z.string(), z.number().int()),
+});
+export type RejectedSummary = z.infer<typeof rejectedSummarySchema>;
+
+export const analysisReportSchema = z.object({
+  vehicles: z.array(vehicleResultSchema),
+  rejected: rejectedSummarySchema,
+});
+export type AnalysisReport = z.infer<typeof analysisReportSchema>;

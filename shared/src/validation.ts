@@ -1,0 +1,36 @@
+import type { z } from 'zod';
+
+/** One broken rule: where (a file, line and/or field path) and which rule. */
+export interface Problem {
+  where: string;
+  rule: string;
+}
+
+/** Input that cannot be used; `problems` says what and where, one line each. */
+export class InputError extends Error {
+  constructor(
+    readonly problems: Problem[],
+    headline = 'invalid input',
+  ) {
+    super(`${headline}:\n${problems.map((p) => `  ${p.where}: ${p.rule}`).join('\n')}`);
+    this.name = 'InputError';
+  }
+}
+
+/** `vehicles[2].design.heat_kw` from a zod issue path. */
+export function formatPath(path: readonly PropertyKey[]): string {
+  let out = '';
+  for (const p of path) out += typeof p === 'number' ? `[${p}]` : `${out ? '.' : ''}${String(p)}`;
+  return out || '(root)';
+}
+
+export function zodProblems(source: string, error: z.ZodError): Problem[] {
+  return error.issues.map((i) => ({ where: `${source}: ${formatPath(i.path)}`, rule: i.message }));
+}
+
+/** Validates `data` against `schema`, or throws an InputError naming `source` and each field. */
+export function parseOrThrow<S extends z.ZodType>(schema: S, data: unknown, source: string): z.infer<S> {
+  const r = schema.safeParse(data);
+  if (r.success) return r.data;
+  throw new InputError(zodProblems(source, r.error), `${source} is not valid`);
+}

@@ -1,0 +1,117 @@
+/**
+ * `npm run bench:core`: throughput of the estimator and of `thermargin analyze` end to end, each beside
+ * a baseline measured in the same run on the same machine. Prints figures; asserts nothing.
+ */
+import { spawnSync } from 'node:child_process';
+import { createReadStream, createWriteStream, mkdtempSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { NUMERIC_COLUMNS } from '@thermargin/shared';
+import { analyzeVehicle } from '@thermargin/core/analyze';
+import { resolveVehicle } from '@thermargin/core/vehicle/resolve';
+import { BUS_CONFIG } from '../support/vehicle-fixture.ts';
+import { syntheticColumns } from './synthetic-trips.ts';
+
+const ESTIMATOR_SAMPLES = Number(process.env.BENCH_SAMPLES ?? 10_000_000);
+const CSV_ROWS = Number(process.env.BENCH_ROWS ?? 2_000_000);
+const fmt = (x: number) => Math.round(x).toLocaleString('en-US');
+
+function time<T>(f: () => T): { s: number; value: T } {
+  const t0 = process.hrtime.bigint();
+  const value = f();
+  return { s: Number(process.hrtime.bigint() - t0) / 1e9, value };
+}
+
+function estimator(): void {
+  const vehicle = resolveVehicle(BUS_CONFIG);
+  const cols = syntheticColumns(ESTIMATOR_SAMPLES);
+  // Baseline: one pass touching every numeric column once (the memory-bandwidth floor of any estimator).
+  const base = time(() => {
+    let acc = 0;
+    for (const name of NUMERIC_COLUMNS) {
+      const a = cols[name];
+      for (let i = 0; i < a.length; i++) acc += a[i]!;
+    }
+    return acc;
+  });
+  const run = time(() => analyzeVehicle(vehicle, cols));
+  const rate = ESTIMATOR_SAMPLES / run.s;
+  console.log(
+    `estimator: ${fmt(ESTIMATOR_SAMPLES)} samples, ${run.value.trips.length} trips in ${run.s.toFixed(2)} s`,
+  );
+  console.log(`  analyzeVehicle         ${fmt(rate)} samples/s   (target ≥ 5,000,000)`);
+  console.log(
+    `  baseline column scan   ${fmt(ESTIMATOR_SAMPLES / base.s)} samples/s   ratio ${(rate / (ESTIMATOR_SAMPLES / base.s)).toFixed(3)}`,
+  );
+}
+
+async function writeCsv(file: string, rows: number): Promise<void> {
+  const out = createWriteStream(file);
+  out.write(
+    'time,vehicle,trip,speed_kmh,power_kw,coolant_in_c,coolant_out_c,ambient_c,fan_pct,coolant_flow_lpm,derate\n',
+  );
+  const per = 250_000;
+  for (let from = 0; from < rows; from += per) {
+    const c = syntheticColumns(Math.min(per, rows - from), from + 1);
+    const lines: string[] = [];
+    for (let i = 0; i < c.n; i++) {
+      lines.push(
+        `${new Date(c.time_ms[i]! + from * 1000).toISOString()},bus-01,,${c.speed_kmh[i]!.toFixed(2)},${c.power_kw[i]!.toFixed(2)},${c.coolant_in_c[i]!.toFixed(3)},,${c.ambient_c[i]},${c.fan_pct[i]},,0`,
+      );
+    }
+    if (!out.write(`${lines.join('\n')}\n`)) await new Promise<void>((r) => out.once('drain', () => r()));
+  }
+  await new Promise<void>((r) => out.end(() => r()));
+}
+
+/** The CLI in a child process; returns seconds and its peak RSS in MB. */
+function runAnalyze(fleet: string, csv: string): { s: number; rss_mb: number; code: number } {
+  const script = `const { main } = await import(${JSON.stringify(join(import.meta.dirname, '../../services/cli/src/main.ts'))});
+const code = await main(['analyze', '--fleet', ${JSON.stringify(fleet)}, '--data', ${JSON.stringify(csv)}, '--out', '/dev/null']);
+process.stderr.write('\\nmaxrss_kb=' + process.resourceUsage().maxRSS + '\\n'); process.exitCode = code;`;
+  const t0 = process.hrtime.bigint();
+  const r = spawnSync(process.execPath, ['--import', 'tsx', '--input-type=module', '-e', script], {
+    encoding: 'utf8',
+  });
+  const s = Number(process.hrtime.bigint() - t0) / 1e9;
+  const rss = Number(/maxrss_kb=(\d+)/.exec(r.stderr)?.[1] ?? Number.NaN) / 1024;
+  return { s, rss_mb: rss, code: r.status ?? -1 };
+}
+
+async function endToEnd(): Promise<void> {
+  const dir = mkdtempSync(join(tmpdir(), 'thermargin-bench-'));
+  try {
+    const fleet = join(dir, 'fleet.json');
+    writeFileSync(fleet, JSON.stringify({ vehicles: [BUS_CONFIG] }));
+    const half = join(dir, 'half.csv');
+    const full = join(dir, 'full.csv');
+    await writeCsv(half, CSV_ROWS / 2);
+    await writeCsv(full, CSV_ROWS);
+    // Baseline: stream the same file and split it into lines, no parsing (the read ceiling).
+    const t0 = process.hrtime.bigint();
+    let lines = 0;
+    for await (const chunk of createReadStream(full, { encoding: 'utf8', highWaterMark: 1 << 20 }))
+      lines += (chunk as string).split('\n').length - 1;
+    const baseS = Number(process.hrtime.bigint() - t0) / 1e9;
+    const h = runAnalyze(fleet, half);
+    const f = runAnalyze(fleet, full);
+    const rate = CSV_ROWS / f.s;
+    console.log(
+      `thermargin analyze end to end: ${fmt(CSV_ROWS)} rows, ${(statSync(full).size / 1048576).toFixed(0)} MB CSV`,
+    );
+    console.log(
+      `  analyze (process start to exit)  ${fmt(rate)} rows/s in ${f.s.toFixed(2)} s   (target ≥ 500,000)  exit ${f.code}`,
+    );
+    console.log(
+      `  baseline read + split lines      ${fmt(lines / baseS)} rows/s   ratio ${(rate / (lines / baseS)).toFixed(3)}`,
+    );
+    console.log(
+      `  peak RSS: ${h.rss_mb.toFixed(0)} MB at ${fmt(CSV_ROWS / 2)} rows, ${f.rss_mb.toFixed(0)} MB at ${fmt(CSV_ROWS)} rows`,
+    );
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+estimator();
+await endToEnd();

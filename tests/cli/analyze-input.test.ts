@@ -1,0 +1,100 @@
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { runCli, tempFiles } from '../support/run-cli.ts';
+import { BUS_CONFIG } from '../support/vehicle-fixture.ts';
+
+const FLEET = JSON.stringify({ vehicles: [BUS_CONFIG] });
+const HEADER = 'time,vehicle,speed_kmh,power_kw,coolant_in_c,ambient_c,fan_pct';
+const row = (i: number, over = '') =>
+  over || `${new Date(Date.UTC(2026, 6, 1, 8) + i * 1000).toISOString()},bus-01,85,60,80,35,0`;
+
+function analyze(csv: string, format = 'json') {
+  const dir = tempFiles({ 'fleet.json': FLEET, 'data.csv': csv });
+  return runCli([
+    'analyze',
+    '--fleet',
+    join(dir, 'fleet.json'),
+    '--data',
+    join(dir, 'data.csv'),
+    '--format',
+    format,
+  ]);
+}
+
+describe('thermargin analyze on bad input', () => {
+  it('refuses an empty file with exit 2 and says which file', () => {
+    const r = analyze('');
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/data\.csv: empty file/);
+  });
+
+  it('refuses a header without the required columns, naming them and the line', () => {
+    const r = analyze('when,vehicle,speed\n1,bus-01,3\n');
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(
+      /data\.csv:1: missing column\(s\) time, speed_kmh, power_kw, coolant_in_c, ambient_c, fan_pct/,
+    );
+  });
+
+  it('skips and counts bad rows with file:line while keeping the good ones', () => {
+    const lines = [
+      HEADER,
+      row(0),
+      `${row(1).replace(',60,', ',sixty,')}`,
+      row(2).replace(',85,', ',NaN,'),
+      row(3),
+      'x,y',
+    ];
+    const r = analyze(`${lines.join('\n')}\n`);
+    expect(r.code).toBe(0);
+    expect(r.stderr).toMatch(/data\.csv:3: row skipped: csv_not_a_number:power_kw/);
+    expect(r.stderr).toMatch(/data\.csv:4: row skipped: csv_not_a_number:speed_kmh/);
+    expect(r.stderr).toMatch(/data\.csv:6: row skipped: csv_short_row/);
+    const out = JSON.parse(r.stdout);
+    expect(out.rejected.by_reason).toEqual({
+      'csv_not_a_number:power_kw': 1,
+      'csv_not_a_number:speed_kmh': 1,
+      csv_short_row: 1,
+    });
+    expect(out.vehicles[0].trips[0].samples).toBe(2);
+  });
+
+  it('counts huge values, unsorted and duplicated rows; a single-row trip gives nulls, not numbers', () => {
+    const lines = [HEADER, row(5), row(1), row(1), row(3).replace(',60,', ',1e300,'), row(2000)];
+    const r = analyze(`${lines.join('\n')}\n`);
+    expect(r.code).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(out.rejected.by_reason).toEqual({ duplicate_time: 1, power_kw_out_of_range: 1 });
+    const trips = out.vehicles[0].trips;
+    expect(trips.map((t: { samples: number }) => t.samples)).toEqual([2, 1]);
+    expect(trips[1].k_ram_w_m2k).toBeNull();
+    expect(trips[1].k_ram_reason).toMatch(/ram band/);
+    expect(trips[1].margin_pct).toBeNull();
+  });
+
+  it('fails with exit 2 when no row is usable, and on a fleet file that breaks the schema', () => {
+    expect(analyze(`${HEADER}\nfoo,bar,1,2,3,4,5\n`).code).toBe(2);
+    const dir = tempFiles({ 'fleet.json': '{"vehicles":[]}', 'data.csv': `${HEADER}\n${row(0)}\n` });
+    const r = runCli(['analyze', '--fleet', join(dir, 'fleet.json'), '--data', dir]);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/fleet\.json: vehicles: vehicles must list at least one vehicle/);
+  });
+
+  it('writes one CSV row per trip with the vehicle first', () => {
+    const r = analyze(`${[HEADER, row(0), row(1)].join('\n')}\n`, 'csv');
+    const [head, first] = r.stdout.trim().split('\n');
+    expect(
+      head!.startsWith('vehicle,trip,start,end,samples,rejected,distance_km,k_ram_w_m2k,k_ram_ci95_lo'),
+    ).toBe(true);
+    expect(first!.startsWith('bus-01,20260701T080000Z,2026-07-01T08:00:00Z,2026-07-01T08:00:01Z,2,0,')).toBe(
+      true,
+    );
+  });
+
+  it('answers an unknown command or option with usage and exit 2', () => {
+    expect(runCli(['frobnicate']).code).toBe(2);
+    const r = runCli(['analyze', '--colour', 'red']);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/usage/);
+  });
+});

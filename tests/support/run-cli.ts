@@ -1,0 +1,19 @@
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+
+const BIN = join(import.meta.dirname, '../../services/cli/bin/thermargin.mjs');
+
+/** Runs the real `thermargin` bin in a child process. */
+export function runCli(args: string[]): { code: number; stdout: string; stderr: string } {
+  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: 'utf8', maxBuffer: 256 << 20 });
+  return { code: r.status ?? -1, stdout: r.stdout, stderr: r.stderr };
+}
+
+/** A fresh temp folder with the given files written into it. */
+export function tempFiles(files: Record<string, string>): string {
+  const dir = mkdtempSync(join(tmpdir(), 'thermargin-test-'));
+  for (const [name, text] of Object.entries(files)) writeFileSync(join(dir, name), text);
+  return dir;
+}
