@@ -23,7 +23,9 @@ describe('parseFleetText', () => {
   });
 
   it('names the field path and the rule broken', () => {
-    const bad = { vehicles: [BUS_CONFIG, { ...BUS_CONFIG, id: 'bus-02', radiator_area_m2: -1, powertrain: 'steam' }] };
+    const bad = {
+      vehicles: [BUS_CONFIG, { ...BUS_CONFIG, id: 'bus-02', radiator_area_m2: -1, powertrain: 'steam' }],
+    };
     const ps = problems(JSON.stringify(bad));
     expect(ps).toContain('fleet.json: vehicles[1].radiator_area_m2: radiator_area_m2 must be > 0');
     expect(ps.some((p) => p.startsWith('fleet.json: vehicles[1].powertrain:'))).toBe(true);
@@ -33,7 +35,11 @@ describe('parseFleetText', () => {
     expect(problems(JSON.stringify({ vehicles: [BUS_CONFIG, BUS_CONFIG] }))).toEqual([
       'fleet.json: vehicles: vehicle ids must be unique',
     ]);
-    expect(problems(JSON.stringify({ vehicles: [{ ...BUS_CONFIG, colour: 'red' }] }))[0]).toMatch(/vehicles\[0\]/);
-    expect(problems(JSON.stringify({ vehicles: [{ ...BUS_CONFIG, id: "x' OR '1'='1" }] }))[0]).toMatch(/vehicles\[0\]\.id/);
+    expect(problems(JSON.stringify({ vehicles: [{ ...BUS_CONFIG, colour: 'red' }] }))[0]).toMatch(
+      /vehicles\[0\]/,
+    );
+    expect(problems(JSON.stringify({ vehicles: [{ ...BUS_CONFIG, id: "x' OR '1'='1" }] }))[0]).toMatch(
+      /vehicles\[0\]\.id/,
+    );
   });
 });

@@ -134,7 +134,8 @@ export function tripWindows(
   for (let i = from; i < to; i++) {
     const t = c.time_ms[i]!;
     const q = heatToCoolant_kw(c.power_kw[i]!, v.drivetrain_efficiency, v.coolant_heat_fraction);
-    qLag = i === from || lag_ms === 0 ? q : qLag + (q - qLag) * (1 - Math.exp(-(t - c.time_ms[i - 1]!) / lag_ms));
+    qLag =
+      i === from || lag_ms === 0 ? q : qLag + (q - qLag) * (1 - Math.exp(-(t - c.time_ms[i - 1]!) / lag_ms));
     const Tin = c.coolant_in_c[i]!;
     const itd = Tin - c.ambient_c[i]!;
     const speed = c.speed_kmh[i]!;

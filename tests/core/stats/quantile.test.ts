@@ -15,7 +15,10 @@ describe('quantiles against simple-statistics 7.12.1 (R type 7)', () => {
 
   it('agrees with simple-statistics on random data, sorted and by quickselect', () => {
     let seed = 7;
-    const rnd = () => ((seed = (seed * 48271) % 2147483647), seed / 2147483647);
+    const rnd = () => {
+      seed = (seed * 48271) % 2147483647;
+      return seed / 2147483647;
+    };
     for (let trial = 0; trial < 50; trial++) {
       const xs = Array.from({ length: 1 + Math.floor(rnd() * 300) }, () => rnd() * 100 - 20);
       for (const p of [0, 0.05, 0.5, 0.95, 1]) {

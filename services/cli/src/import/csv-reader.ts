@@ -120,10 +120,13 @@ class RowParser {
     if (quoted) {
       // Rare: rebuild the line unquoted, then read it like any other.
       const fields = splitCsvLine(text.slice(start, end));
-      if (fields.some((f) => f.includes(',')))
-        return this.sink.bad(`${this.file}:${this.line}`, 'csv_comma_in_field');
+      if (fields.some((f) => f.includes(','))) {
+        this.sink.bad(`${this.file}:${this.line}`, 'csv_comma_in_field');
+        return;
+      }
       const flat = fields.join(',');
-      return this.row(flat, fieldBounds(flat, 0, flat.length, this.from, this.to));
+      this.row(flat, fieldBounds(flat, 0, flat.length, this.from, this.to));
+      return;
     }
     this.row(text, fieldBounds(text, start, end, this.from, this.to));
   }
@@ -131,26 +134,40 @@ class RowParser {
   private row(text: string, fields: number): void {
     const l = this.layout!;
     const { from, to, values } = this;
-    if (fields < l.width) return this.bad('csv_short_row');
+    if (fields < l.width) {
+      this.bad('csv_short_row');
+      return;
+    }
     const vehicle = fieldText(text, from[l.vehicle]!, to[l.vehicle]!, this.vehicle);
-    if (vehicle !== this.vehicle && !isValidId(vehicle)) return this.bad('csv_bad_vehicle');
+    if (vehicle !== this.vehicle && !isValidId(vehicle)) {
+      this.bad('csv_bad_vehicle');
+      return;
+    }
     this.vehicle = vehicle;
     const tc = l.numeric[0]!;
     const time = fastTime_ms(text.slice(from[tc]!, to[tc]!).trim());
-    if (!Number.isFinite(time)) return this.bad('csv_bad_time');
+    if (!Number.isFinite(time)) {
+      this.bad('csv_bad_time');
+      return;
+    }
     values[0] = time;
     for (let k = 1; k < l.numeric.length; k++) {
       const col = l.numeric[k]!;
       const x = col < 0 ? undefined : readDecimal(text, from[col]!, to[col]!);
       if (x === undefined) values[k] = Number.NaN;
-      else if (Number.isNaN(x)) return this.bad(`csv_not_a_number:${NUMERIC_COLUMNS[k]}`);
-      else values[k] = x;
+      else if (Number.isNaN(x)) {
+        this.bad(`csv_not_a_number:${NUMERIC_COLUMNS[k]}`);
+        return;
+      } else values[k] = x;
     }
     let trip: string | undefined;
     if (l.trip >= 0) {
       this.trip = fieldText(text, from[l.trip]!, to[l.trip]!, this.trip);
       trip = this.trip || undefined;
-      if (trip !== undefined && !isValidId(trip)) return this.bad('csv_bad_trip');
+      if (trip !== undefined && !isValidId(trip)) {
+        this.bad('csv_bad_trip');
+        return;
+      }
     }
     this.rows++;
     this.sink.sample(this.vehicle, values, trip);
@@ -198,7 +215,8 @@ export function readCsvFile(file: string, sink: CsvSink, onBytes?: (n: number) =
   } finally {
     closeSync(fd);
   }
-  if (rest.trim() !== '') p.take(rest, 0, rest.endsWith('\r') ? rest.length - 1 : rest.length, rest.includes('"'));
+  if (rest.trim() !== '')
+    p.take(rest, 0, rest.endsWith('\r') ? rest.length - 1 : rest.length, rest.includes('"'));
   if (p.line === 0) throw new InputError([{ where: file, rule: 'empty file (no header row)' }]);
   return p.rows;
 }
