@@ -1,11 +1,13 @@
 import { InputError } from '@thermargin/shared';
 import { ANALYZE_USAGE, analyzeCommand } from './commands/analyze.ts';
+import { SIZING_USAGE, sizingCommand } from './commands/sizing.ts';
 
 const COMMANDS: Record<
   string,
   { usage: string; run: (argv: string[], log: (l: string) => void) => Promise<void> }
 > = {
   analyze: { usage: ANALYZE_USAGE, run: analyzeCommand },
+  sizing: { usage: SIZING_USAGE, run: sizingCommand },
 };
 
 const USAGE = `thermargin — per-trip heat load, in-service radiator k and cooling margin from fleet telemetry

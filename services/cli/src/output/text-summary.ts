@@ -18,7 +18,7 @@ export function textSummary(report: AnalysisReport): string {
         `cause ${v.cause ?? '—'}`.padEnd(20),
         `margin ${num(last?.margin_pct, '%')}`.padEnd(17),
         `limiting ambient ${num(last?.limiting_ambient_c, '°C')}`.padEnd(27),
-        `inspect by ${v.projected_inspect_date ?? '—'}`.padEnd(22),
+        `inspect by ${v.projected_inspect_date?.slice(0, 10) ?? '—'}`.padEnd(22),
         `${v.trips.length} trips`,
       ].join(' '),
     );

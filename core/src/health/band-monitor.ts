@@ -1,0 +1,226 @@
+import { median } from '../stats/quantile.ts';
+import { createCusum, type Cusum } from '../stats/cusum.ts';
+import { sigmaFromDifferences } from '../stats/diff-sigma.ts';
+import { createEwma, type Ewma } from '../stats/ewma.ts';
+import type { Band } from '../trip/bands.ts';
+import { currentLevel, type Level } from './level.ts';
+import type { HealthOptions } from './options.ts';
+
+export const DAY_MS = 86_400_000;
+
+/** One valid trip of a band. */
+export interface BandPoint {
+  /** Index of the trip in time order. */
+  trip: number;
+  t_ms: number;
+  k_w_m2k: number;
+  /** k ÷ baseline k; filled for the baseline trips once the baseline exists. */
+  health: number | null;
+  ewma: number | null;
+  lcl: number | null;
+  cusum: number | null;
+  /** Current level after this trip (health units), null while not judged. */
+  level: number | null;
+}
+
+export interface BaselinePeriod {
+  band: Band;
+  start_ms: number;
+  /** W/(m²·K): the health denominator; null while the first trips are still being collected. */
+  k_w_m2k: number | null;
+  source: 'bench' | 'trips';
+  /** Health units: the change detectors' in-control level (median health of the in-control trips so far). */
+  reference: number | null;
+}
+
+export interface ChangePoint {
+  band: Band;
+  /** Trip (time order) at which the detectors signalled, and the first trip of the estimated change. */
+  signal_trip: number;
+  signal_ms: number;
+  since_trip: number;
+  since_ms: number;
+  detector: 'cusum' | 'ewma';
+}
+
+/** What the rest of the assessment reads from a band after each trip. */
+export interface BandSummary {
+  band: Band;
+  valid_trips: number;
+  reference: number | null;
+  level: Level | null;
+  /** Health units: trip noise σ (robust, from successive differences). */
+  sigma: number;
+  /** EWMA or CUSUM signalling a fall now. */
+  alarm: boolean;
+  /** Fraction the level sits below the reference (negative when above). */
+  drop: number | null;
+  /** Epoch ms from which the current level is estimated (period start or last change). */
+  segment_start_ms: number;
+  period_start_ms: number;
+}
+
+interface Period {
+  start_ms: number;
+  record: BaselinePeriod;
+  points: BandPoint[];
+  ewma: Ewma | null;
+  cusum: Cusum | null;
+  segmentFrom: number;
+  alarmOn: boolean;
+  /** Health of the in-control trips the reference is the median of (self-starting, until the first signal). */
+  inControl: number[];
+  changesAtStart: number;
+}
+
+/**
+ * Follows one band trip by trip, using only the trips seen so far (so delays measured on it are real):
+ * baseline, health index, lower EWMA and CUSUM on the health, change points and the current level.
+ */
+export class BandMonitor {
+  readonly points: BandPoint[] = [];
+  readonly baselines: BaselinePeriod[] = [];
+  readonly changes: ChangePoint[] = [];
+  private readonly diffs: number[] = [];
+  private period: Period | null = null;
+  private next = 0;
+  private sigmaNow: number;
+  private level: Level | null = null;
+
+  constructor(
+    readonly band: Band,
+    private readonly bench_k: number | null,
+    private readonly rebaselines_ms: readonly number[],
+    private readonly o: HealthOptions,
+  ) {
+    this.sigmaNow = o.sigma_floor;
+  }
+
+  private openPeriod(start_ms: number): Period {
+    const record: BaselinePeriod = {
+      band: this.band,
+      start_ms,
+      k_w_m2k: this.bench_k,
+      source: this.bench_k === null ? 'trips' : 'bench',
+      reference: null,
+    };
+    this.baselines.push(record);
+    this.level = null;
+    return {
+      start_ms,
+      record,
+      points: [],
+      ewma: null,
+      cusum: null,
+      segmentFrom: 0,
+      alarmOn: false,
+      inControl: [],
+      changesAtStart: this.changes.length,
+    };
+  }
+
+  /** Advances to the trip at `t_ms`; `k` null when the trip gave this band no usable k. */
+  push(trip: number, t_ms: number, k: number | null): void {
+    let p = this.period ?? (this.period = this.openPeriod(t_ms));
+    while (this.next < this.rebaselines_ms.length && t_ms >= this.rebaselines_ms[this.next]!) {
+      p = this.period = this.openPeriod(this.rebaselines_ms[this.next++]!);
+    }
+    if (k === null) return;
+    const pt: BandPoint = {
+      trip,
+      t_ms,
+      k_w_m2k: k,
+      health: null,
+      ewma: null,
+      lcl: null,
+      cusum: null,
+      level: null,
+    };
+    p.points.push(pt);
+    this.points.push(pt);
+    const N = this.o.baseline_trips;
+    if (p.record.k_w_m2k === null && p.points.length === N)
+      p.record.k_w_m2k = median(p.points.map((q) => q.k_w_m2k));
+    const base = p.record.k_w_m2k;
+    if (base === null) return;
+    for (const q of p.points) if (q.health === null) this.addHealth(p, q, q.k_w_m2k / base);
+    if (p.record.reference === null) {
+      if (p.points.length < N) {
+        this.updateLevel(p);
+        return;
+      }
+      p.inControl = p.points.map((q) => q.health!);
+      p.record.reference = median(p.inControl);
+      const sigma = () => this.sigmaNow;
+      const ref = () => p.record.reference!;
+      p.ewma = createEwma({ lambda: this.o.ewma_lambda, L: this.o.ewma_L }, ref, sigma);
+      p.cusum = createCusum({ k: this.o.cusum_k, h: this.o.cusum_h }, ref, sigma);
+      this.updateLevel(p);
+      return;
+    }
+    const e = p.ewma!.push(pt.health!);
+    const c = p.cusum!.push(pt.health!);
+    pt.ewma = e.z;
+    pt.lcl = e.lower;
+    pt.cusum = c.s;
+    const alarm = e.signal === -1 || c.signal;
+    if (alarm && !p.alarmOn) {
+      const charted = p.points.length - N; // observations the charts have seen
+      const sinceObs = c.signal ? c.since : charted - 1;
+      const from = N + sinceObs;
+      const first = p.points[from]!;
+      this.changes.push({
+        band: this.band,
+        signal_trip: trip,
+        signal_ms: t_ms,
+        since_trip: first.trip,
+        since_ms: first.t_ms,
+        detector: c.signal ? 'cusum' : 'ewma',
+      });
+      p.segmentFrom = Math.max(p.segmentFrom, from);
+    }
+    p.alarmOn = alarm;
+    if (!alarm && this.changes.length === p.changesAtStart && p.inControl.length < this.o.reference_trips) {
+      p.inControl.push(pt.health!);
+      p.record.reference = median(p.inControl);
+    }
+    this.updateLevel(p);
+  }
+
+  private addHealth(p: Period, q: BandPoint, h: number): void {
+    q.health = h;
+    const i = p.points.indexOf(q);
+    const prev = i > 0 ? p.points[i - 1]!.health : null;
+    if (prev !== null) this.diffs.push(h - prev);
+    if (this.diffs.length >= 4)
+      this.sigmaNow = Math.max(this.o.sigma_floor, sigmaFromDifferences(this.diffs));
+  }
+
+  private updateLevel(p: Period): void {
+    const from = Math.max(p.segmentFrom, p.points.length - this.o.level_window_trips);
+    const seg = p.points.slice(from).filter((q) => q.health !== null);
+    if (seg.length < this.o.min_level_trips) return;
+    this.level = currentLevel(
+      seg.map((q) => q.t_ms / DAY_MS),
+      seg.map((q) => q.health!),
+    );
+    p.points[p.points.length - 1]!.level = this.level.value;
+  }
+
+  summary(): BandSummary {
+    const p = this.period;
+    const ref = p?.record.reference ?? null;
+    const level = this.level;
+    return {
+      band: this.band,
+      valid_trips: this.points.length,
+      reference: ref,
+      level,
+      sigma: this.sigmaNow,
+      alarm: p?.alarmOn ?? false,
+      drop: level && ref !== null ? (ref - level.value) / ref : null,
+      segment_start_ms: p ? (p.segmentFrom > 0 ? p.points[p.segmentFrom]!.t_ms : p.start_ms) : 0,
+      period_start_ms: p?.start_ms ?? 0,
+    };
+  }
+}

@@ -1,0 +1,152 @@
+import type { Cause } from '@thermargin/shared';
+import type { BandSummary } from './band-monitor.ts';
+import type { Evidence } from './evidence.ts';
+import type { HealthOptions } from './options.ts';
+
+export interface Candidate {
+  cause: Cause;
+  /** 0–1: how well the evidence fits this cause (our weighting, documented below). */
+  score: number;
+  evidence: string;
+}
+
+const pct = (x: number) => `${(100 * x).toFixed(0)} %`;
+
+/** z of a band's fall: (reference − level) / (σ · se factor). */
+export function fallZ(b: BandSummary): number {
+  if (!b.level || b.reference === null) return 0;
+  return (b.reference - b.level.value) / (b.sigma * b.level.se_per_sigma);
+}
+
+/** A band has fallen: by at least `minDrop` and beyond noise (a detector signals, or z ≥ 3). */
+function fell(b: BandSummary, minDrop: number): boolean {
+  return b.drop !== null && b.drop >= minDrop && (b.alarm || fallZ(b) >= 3);
+}
+
+function held(b: BandSummary, minDrop: number): boolean {
+  return b.drop !== null && b.drop < minDrop && !b.alarm;
+}
+
+function describe(b: BandSummary): string {
+  if (b.drop === null) return `${b.band}-band k not judged (${b.valid_trips} trips in the band)`;
+  const d = b.drop >= 0 ? `${pct(b.drop)} below` : `${pct(-b.drop)} above`;
+  return `${b.band}-band k ${d} its reference`;
+}
+
+/** Rising by a relative `rise` (null when either side is missing). */
+function rose(
+  s: { baseline: number | null; recent: number | null },
+  rise: number,
+  absolute: boolean,
+): boolean | null {
+  if (s.baseline === null || s.recent === null) return null;
+  return absolute ? s.recent - s.baseline >= rise : s.recent >= s.baseline * (1 + rise);
+}
+
+/**
+ * Ranks the causes the evidence supports (field notes, "How things go wrong"). Scores are our own
+ * weighting, meant only to order candidates: the main sign of a cause gives 0.5–0.6, each
+ * corroborating sign adds 0.15–0.3. A suspect sensor removes fouling and coolant flow from the list:
+ * a biased ambient or coolant reading moves k in both bands, and the radiator must not take the blame.
+ */
+export function rankCauses(
+  ram: BandSummary,
+  fan: BandSummary,
+  ev: Evidence,
+  o: HealthOptions,
+  minDrop: number,
+): Candidate[] {
+  const out: Candidate[] = [];
+  const sat = rose(ev.saturation, o.fan_saturation_rise, true);
+  const satText =
+    ev.saturation.recent !== null && ev.saturation.baseline !== null
+      ? `fan at full duty ${pct(ev.saturation.recent)} of the time against ${pct(ev.saturation.baseline)} before`
+      : 'fan duty history too short';
+  const dtRose = rose(ev.coolant_dt, o.coolant_dt_rise, false);
+
+  const sensorParts: string[] = [];
+  let sensor = 0;
+  if (ev.soak.hits >= o.soak_min_hits) {
+    sensor = 0.9;
+    const side = ev.soak.sign < 0 ? 'below' : 'above';
+    sensorParts.push(
+      `at key-on after a long stop the coolant read ${Math.abs(ev.soak.median_k ?? 0).toFixed(1)} K ${side} ambient on ${ev.soak.hits} of the last ${ev.soak.checks} cold starts (a soaked loop reads ambient within ${o.soak_tolerance_k} K)`,
+    );
+    if (ev.soak.sign < 0 && ((ram.drop ?? 0) < 0 || (fan.drop ?? 0) < 0)) {
+      sensorParts.push(
+        'k reads higher than its reference, as an ambient sensor reading high makes it (smaller ITD)',
+      );
+    }
+  }
+  if (ev.flags.trips > 0 && ev.flags.flagged / ev.flags.trips >= o.sensor_flag_share) {
+    sensor = Math.max(sensor, 0.7);
+    sensorParts.push(
+      `implausible signals on ${ev.flags.flagged} of the last ${ev.flags.trips} trips (${ev.flags.examples.join('; ')})`,
+    );
+  }
+  const sensorSuspect = sensor >= o.cause_min_score;
+  if (sensor > 0) {
+    if (sensorSuspect) sensorParts.push('radiator and coolant flow not judged while a sensor is suspect');
+    out.push({ cause: 'sensor', score: sensor, evidence: sensorParts.join('; ') });
+  }
+
+  if (fell(fan, minDrop)) {
+    let score: number;
+    let text: string;
+    if (held(ram, minDrop)) {
+      score = 0.6;
+      text = `${describe(fan)} while the ${describe(ram)}`;
+    } else if (ram.drop === null) {
+      score = 0.4;
+      text = `${describe(fan)}; the ram band was not reached lately, so fouling cannot be ruled out`;
+    } else if (fan.drop! > 2 * ram.drop + minDrop) {
+      score = 0.45;
+      text = `${describe(fan)}, far more than the ${describe(ram)}`;
+    } else {
+      score = 0;
+      text = '';
+    }
+    if (score > 0) {
+      if (sat) score += 0.3;
+      out.push({ cause: 'fan', score, evidence: `${text}; ${satText}` });
+    }
+  }
+
+  if (!sensorSuspect && fell(ram, minDrop)) {
+    let score = 0.5;
+    const parts = [describe(ram)];
+    if (fan.drop !== null && fan.drop >= 0.2 * ram.drop! && fan.drop <= 1.5 * ram.drop! + minDrop) {
+      score += 0.2;
+      parts.push(
+        `${describe(fan)}: both bands, ${fan.drop <= ram.drop! ? 'most in ram' : 'fan about as much'}`,
+      );
+    } else parts.push(describe(fan));
+    if (
+      ram.level?.slope_per_day !== null &&
+      ram.level?.slope_per_day !== undefined &&
+      ram.level.slope_per_day < 0
+    ) {
+      score += 0.15;
+      parts.push(`falling steadily (${(100 * ram.level.slope_per_day * 30).toFixed(1)} % per 30 days)`);
+    }
+    if (dtRose) score -= 0.3;
+    out.push({ cause: 'fouling', score, evidence: parts.join('; ') });
+  }
+
+  if (!sensorSuspect && dtRose) {
+    const both = fell(ram, minDrop) || fell(fan, minDrop);
+    const b = ev.coolant_dt.baseline!;
+    const r = ev.coolant_dt.recent!;
+    out.push({
+      cause: 'coolant_flow',
+      score: 0.5 + (both ? 0.3 : 0),
+      evidence: `radiator temperature drop per kW up ${pct(r / b - 1)} (${b.toFixed(3)} → ${r.toFixed(3)} K/kW) at the same heat${both ? `; ${describe(ram)}, ${describe(fan)}` : ''}`,
+    });
+  }
+
+  const top = Math.max(0, ...out.map((c) => c.score));
+  out.push({ cause: 'none', score: Math.max(0, 1 - top), evidence: 'no change beyond trip-to-trip noise' });
+  return out
+    .map((c) => ({ ...c, score: Math.min(1, Math.max(0, c.score)) }))
+    .sort((a, b) => b.score - a.score);
+}

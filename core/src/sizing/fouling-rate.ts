@@ -1,0 +1,162 @@
+import type { TripResult } from '@thermargin/shared';
+import { rebaselineTimes_ms } from '../health/rebaseline.ts';
+import { marginPct } from '../radiator/rating.ts';
+import { median } from '../stats/quantile.ts';
+import { theilSen } from '../stats/theil-sen.ts';
+import { type Band, BAND_NAMES } from '../trip/bands.ts';
+import { designKa_w_k } from '../trip/design-point.ts';
+import type { VehicleModel } from '../vehicle/resolve.ts';
+import type { SizingOptions } from './options.ts';
+import { tripK } from './trip-k.ts';
+
+const DAY_MS = 86_400_000;
+/** days: mean Gregorian month, 365.2425 / 12. */
+export const MONTH_DAYS = 30.436875;
+
+/** One interval between cleanings (or from the start of the data), fitted by Theil–Sen. */
+export interface FoulingSegment {
+  /** What the interval starts at: a maintenance entry that renews the band, or the first trip seen. */
+  starts_at: 'maintenance' | 'data';
+  start: string;
+  end: string;
+  trips: number;
+  km: number;
+  /** W/(m²·K): the line's k at the interval's start (the clean k when it starts at a cleaning). */
+  k0_w_m2k: number;
+  /** %/month of k0 lost (positive = fouling), with Sen's 95 % interval. */
+  loss_pct_per_month: number;
+  loss_pct_per_month_ci95: [number, number] | null;
+  /** % of k0 lost per 1000 km driven. */
+  loss_pct_per_1000km: number | null;
+}
+
+export interface BandFouling {
+  band: Band;
+  segments: FoulingSegment[];
+  /** Median over the fitted intervals; null when none could be fitted. */
+  loss_pct_per_month: number | null;
+  loss_pct_per_1000km: number | null;
+  /** W/(m²·K): clean k, the median k0 of intervals that start at maintenance (else of all intervals). */
+  k_clean_w_m2k: number | null;
+  /** –: k ÷ clean k at which the vehicle is due for inspection (health or margin rule, whichever first). */
+  inspect_ratio: number | null;
+  inspect_basis: 'health' | 'margin' | null;
+  /** Days and km from cleaning to the inspection threshold at the fitted rate; null when k does not fall. */
+  days_to_inspect: number | null;
+  km_to_inspect: number | null;
+  /** –: extra area so the radiator still meets its design point after `cleaning_interval_days`: L/(1 − L). */
+  fouling_allowance: number | null;
+}
+
+const r = (x: number, d: number) => Math.round(x * 10 ** d) / 10 ** d;
+
+interface Point {
+  t_ms: number;
+  km: number;
+  k: number;
+}
+
+/** Splits the band's valid trip k into intervals at the maintenance that renews the band. */
+function intervals(trips: readonly TripResult[], band: Band, renew_ms: readonly number[]) {
+  const out: { start_ms: number; starts_at: 'maintenance' | 'data'; points: Point[] }[] = [];
+  let km = 0;
+  let next = 0;
+  for (const t of trips) {
+    const t_ms = Date.parse(t.start);
+    let cur = out.at(-1);
+    while (next < renew_ms.length && t_ms >= renew_ms[next]!) {
+      cur = { start_ms: renew_ms[next++]!, starts_at: 'maintenance', points: [] };
+      out.push(cur);
+      km = 0;
+    }
+    if (!cur) out.push((cur = { start_ms: t_ms, starts_at: 'data', points: [] }));
+    const k = tripK(t, band);
+    if (k !== null) cur.points.push({ t_ms, km, k });
+    km += t.distance_km;
+  }
+  return out;
+}
+
+function fitSegment(seg: ReturnType<typeof intervals>[number], o: SizingOptions): FoulingSegment | null {
+  const pts = seg.points;
+  if (pts.length < o.min_fouling_trips) return null;
+  const days = pts.map((p) => (p.t_ms - seg.start_ms) / DAY_MS);
+  if (days.at(-1)! - days[0]! < o.min_fouling_span_days) return null;
+  const k = pts.map((p) => p.k);
+  const byDay = theilSen(days, k);
+  const k0 = byDay.intercept;
+  if (!(k0 > 0)) return null;
+  const pctMonth = (slope: number) => (-100 * slope * MONTH_DAYS) / k0;
+  const kms = pts.map((p) => p.km);
+  const byKm = kms.at(-1)! > kms[0]! ? theilSen(kms, k) : null;
+  const ci = byDay.slope_ci95;
+  return {
+    starts_at: seg.starts_at,
+    start: new Date(seg.start_ms).toISOString(),
+    end: new Date(pts.at(-1)!.t_ms).toISOString(),
+    trips: pts.length,
+    km: r(kms.at(-1)!, 1),
+    k0_w_m2k: r(k0, 1),
+    loss_pct_per_month: r(pctMonth(byDay.slope), 3),
+    loss_pct_per_month_ci95: ci ? [r(pctMonth(ci[1]), 3), r(pctMonth(ci[0]), 3)] : null,
+    loss_pct_per_1000km: byKm ? r((-100 * byKm.slope * 1000) / k0, 3) : null,
+  };
+}
+
+/**
+ * –: k ÷ clean k at which inspection is due: the policy's health ratio, or the ratio at which the
+ * design margin reaches the policy's inspect margin (margin scales with kA: (1 + m_thr)/(1 + m_clean)),
+ * whichever is reached first (the higher ratio).
+ */
+export function inspectRatio(
+  v: VehicleModel,
+  band: Band,
+  kClean: number,
+): { ratio: number; basis: 'health' | 'margin' } {
+  const ka = designKa_w_k(v, band, kClean);
+  const mClean = marginPct(ka, v.coolant_limit_c, v.design.ambient_c, v.design.heat_kw);
+  const byMargin = (1 + v.policy.inspect_margin_pct / 100) / (1 + mClean / 100);
+  const byHealth = v.policy.inspect_health_ratio;
+  return byMargin > byHealth ? { ratio: byMargin, basis: 'margin' } : { ratio: byHealth, basis: 'health' };
+}
+
+/**
+ * Fouling rate per band (field notes: "fouling rate per month or per 1000 km"): Theil–Sen lines of
+ * trip k against days and against km since each cleaning (robust to the odd bad trip; Theil 1950,
+ * Sen 1968), as a share of the interval's starting k. The straight line is the conservative reading of
+ * fouling that levels off (Kern & Seaton 1959) over the interval observed. Trips in time order.
+ */
+export function foulingRates(v: VehicleModel, trips: readonly TripResult[], o: SizingOptions): BandFouling[] {
+  return BAND_NAMES.map((band) => {
+    const segs = intervals(trips, band, rebaselineTimes_ms(v.maintenance, band))
+      .map((s) => fitSegment(s, o))
+      .filter((s): s is FoulingSegment => s !== null);
+    const med = (xs: (number | null)[]) => {
+      const ok = xs.filter((x): x is number => x !== null);
+      return ok.length ? r(median(ok), 3) : null;
+    };
+    const perMonth = med(segs.map((s) => s.loss_pct_per_month));
+    const perKm = med(segs.map((s) => s.loss_pct_per_1000km));
+    const cleanSegs = segs.filter((s) => s.starts_at === 'maintenance');
+    const kClean = med((cleanSegs.length ? cleanSegs : segs).map((s) => s.k0_w_m2k));
+    const thr = kClean !== null ? inspectRatio(v, band, kClean) : null;
+    const toGo = thr ? Math.max(0, 1 - thr.ratio) : null;
+    const span = (rate: number | null, unit: number) =>
+      toGo === null || rate === null || !(rate > 0) ? null : r((toGo * 100 * unit) / rate, 1);
+    const lossAtInterval =
+      perMonth !== null ? Math.max(0, (perMonth / 100) * (o.cleaning_interval_days / MONTH_DAYS)) : null;
+    return {
+      band,
+      segments: segs,
+      loss_pct_per_month: perMonth,
+      loss_pct_per_1000km: perKm,
+      k_clean_w_m2k: kClean,
+      inspect_ratio: thr ? r(thr.ratio, 4) : null,
+      inspect_basis: thr?.basis ?? null,
+      days_to_inspect: span(perMonth, MONTH_DAYS),
+      km_to_inspect: span(perKm, 1000),
+      fouling_allowance:
+        lossAtInterval === null || lossAtInterval >= 1 ? null : r(lossAtInterval / (1 - lossAtInterval), 4),
+    };
+  });
+}

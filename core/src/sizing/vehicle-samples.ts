@@ -1,0 +1,137 @@
+import type { SampleColumns, TripResult } from '@thermargin/shared';
+import { heatToCoolant_kw } from '../drivetrain/heat.ts';
+import { cleanSamples } from '../trip/clean.ts';
+import { ESTIMATOR_DEFAULTS } from '../trip/estimator-options.ts';
+import { splitTrips } from '../trip/split.ts';
+import type { VehicleModel } from '../vehicle/resolve.ts';
+import { DerateTally } from './derate-tally.ts';
+import { DutyHistograms } from './duty-cycle.ts';
+import { type BandK, fieldKaModel } from './field-ka.ts';
+import { LogHistogram } from './log-histogram.ts';
+import type { SizingOptions, WhatIfScenario } from './options.ts';
+import { LoopReplay } from './replay.ts';
+import { tripK } from './trip-k.ts';
+
+/** One scenario's replay of one vehicle. */
+export interface ScenarioReplay {
+  scenario: WhatIfScenario;
+  coolant_limit_c: number;
+  tally: DerateTally;
+  /** h of driving not replayed because no k was known (neither field nor bench). */
+  skipped_s: number;
+}
+
+/**
+ * A vehicle's sample-level sizing evidence, fed piece by piece with the raw columns that were analysed
+ * and the trips analyzeVehicle made of them (so each trip's own k drives the replay). Memory is fixed
+ * per vehicle (histograms and per-day tallies), whatever the number of samples.
+ *
+ * Recorded derates (derate = 1): events, hours, and the energy not delivered, estimated as
+ * ∫ max(P_demand − P, 0) dt over derated samples, with the demand P_demand the exponentially weighted
+ * mean traction power (time constant `demand_tau_s`) up to the event's start: the load that drove the
+ * loop to its limit, taken as what the driver kept asking for. The same mean, as heat, is the event's
+ * onset heat.
+ */
+export class VehicleSamples {
+  readonly duty: DutyHistograms;
+  readonly derate = new DerateTally();
+  /** Heat generated (kW) over derated time, time-weighted. */
+  readonly heatWhileDerated = new LogHistogram();
+  /** Heat (kW) of the demand mean at each recorded derate's onset, one count per event. */
+  readonly onsetHeat = new LogHistogram();
+  readonly replays: ScenarioReplay[];
+  samples = 0;
+  private last: BandK;
+  private readonly kaAt: ReturnType<typeof fieldKaModel>;
+  private readonly bench: BandK;
+
+  constructor(
+    readonly vehicle: VehicleModel,
+    private readonly o: SizingOptions,
+  ) {
+    this.duty = new DutyHistograms(o.speed_edges_kmh, o.ambient_edges_c);
+    this.kaAt = fieldKaModel(vehicle);
+    this.bench = { ram: vehicle.bench_k_w_m2k?.ram ?? null, fan: vehicle.bench_k_w_m2k?.fan ?? null };
+    this.last = { ram: null, fan: null };
+    this.replays = o.what_if.map((scenario) => {
+      const coolant_limit_c = vehicle.coolant_limit_c - scenario.limit_drop_k;
+      if (!(coolant_limit_c > vehicle.thermostat_open_c))
+        throw new RangeError(
+          `what-if limit drop ${scenario.limit_drop_k} K puts ${vehicle.id}'s limit (${coolant_limit_c} °C) at or below its thermostat opening (${vehicle.thermostat_open_c} °C)`,
+        );
+      return { scenario, coolant_limit_c, tally: new DerateTally(), skipped_s: 0 };
+    });
+  }
+
+  /** k of a trip per band: its own (unflagged), else the latest earlier trip's, else the bench k. */
+  private tripK(t: TripResult): BandK {
+    this.last.ram = tripK(t, 'ram') ?? this.last.ram;
+    this.last.fan = tripK(t, 'fan') ?? this.last.fan;
+    return { ram: this.last.ram ?? this.bench.ram, fan: this.last.fan ?? this.bench.fan };
+  }
+
+  /** `columns`: the raw piece given to analyzeVehicle; `trips`: what it returned, in order. */
+  add(columns: SampleColumns, trips: readonly TripResult[]): void {
+    const { columns: c } = cleanSamples(columns);
+    const spans = splitTrips(c);
+    if (c.n === 0) return;
+    if (spans.length !== trips.length)
+      throw new RangeError(
+        `VehicleSamples.add (${this.vehicle.id}): ${spans.length} trips in the samples but ${trips.length} trip results`,
+      );
+    spans.forEach((span, j) => {
+      this.addTrip(c, span.from, span.to, this.tripK(trips[j]!));
+    });
+  }
+
+  private addTrip(c: SampleColumns, from: number, to: number, k: BandK): void {
+    const v = this.vehicle;
+    const o = this.o;
+    const maxStep_ms = ESTIMATOR_DEFAULTS.max_step_s * 1000;
+    const loops = this.replays.map(
+      (r) =>
+        new LoopReplay({
+          thermal_mass_kj_per_k: v.thermal_mass_kj_per_k,
+          thermostat_open_c: v.thermostat_open_c,
+          coolant_limit_c: r.coolant_limit_c,
+          drivetrain_efficiency: v.drivetrain_efficiency,
+          coolant_heat_fraction: v.coolant_heat_fraction,
+          release_k: o.derate_release_k,
+        }),
+    );
+    const canReplay = this.kaAt(k, 0, 100) !== null;
+    for (const l of loops) l.start(c.coolant_in_c[from]!);
+    let demand_kw = Math.max(c.power_kw[from]!, 0);
+    for (let i = from; i < to; i++) {
+      const t = c.time_ms[i]!;
+      const dt_s = i + 1 < to ? Math.min(c.time_ms[i + 1]! - t, maxStep_ms) / 1000 : 0;
+      const p = Math.max(c.power_kw[i]!, 0);
+      const q = heatToCoolant_kw(p, v.drivetrain_efficiency, v.coolant_heat_fraction);
+      const speed = c.speed_kmh[i]!;
+      const amb = c.ambient_c[i]!;
+      this.samples++;
+      this.duty.add(q, speed, amb, dt_s);
+
+      const derated = c.derate[i] === 1;
+      const lost_kwh = derated ? (Math.max(demand_kw - p, 0) * dt_s) / 3600 : 0;
+      if (this.derate.add(t, dt_s, derated, lost_kwh))
+        this.onsetHeat.add(heatToCoolant_kw(demand_kw, v.drivetrain_efficiency, v.coolant_heat_fraction), 1);
+      if (derated) this.heatWhileDerated.add(q, dt_s);
+      else demand_kw += (p - demand_kw) * (1 - Math.exp(-dt_s / o.demand_tau_s));
+
+      this.replays.forEach((r, s) => {
+        if (!canReplay) {
+          r.skipped_s += dt_s;
+          return;
+        }
+        const loop = loops[s]!;
+        const fan = loop.temp_c >= r.coolant_limit_c - o.fan_full_within_k ? 100 : c.fan_pct[i]!;
+        const ambR = amb + r.scenario.ambient_rise_k;
+        const step = loop.step(q, this.kaAt(k, speed, fan)!, ambR, dt_s);
+        r.tally.add(t, dt_s, step.derated, step.not_delivered_kwh);
+      });
+    }
+    this.derate.endTrip();
+    for (const r of this.replays) r.tally.endTrip();
+  }
+}

@@ -1,0 +1,111 @@
+import { writeFileSync } from 'node:fs';
+import { parseArgs } from 'node:util';
+import { InputError, type Problem } from '@thermargin/shared';
+import { DEFAULT_DUTY, sizeFleet } from '@thermargin/core/sizing/fleet-sizing';
+import type { Duty } from '@thermargin/core/sizing/drivetrain-compare';
+import { resolveSizingOptions, SIZING_DEFAULTS, type WhatIfScenario } from '@thermargin/core/sizing/options';
+import { VehicleSamples } from '@thermargin/core/sizing/vehicle-samples';
+import { sizingHtml } from '../output/sizing-html.ts';
+import { analyzeData } from './analyze-data.ts';
+
+export const SIZING_USAGE = `thermargin sizing --fleet FLEET.json --data PATH [--out RESULT.json] [--html REPORT.html] [options]
+  --fleet      fleet file (JSON): the vehicles, their cooling packages and design points
+  --data       a CSV file, or a folder of CSV files, in the import format
+  --out        write the sizing result (JSON) here instead of to standard output
+  --html       also write a self-contained HTML report for a design review
+  --what-if R,D  replay with every ambient raised R K and the coolant limit lowered D K (repeatable;
+               default ${SIZING_DEFAULTS.what_if.map((s) => `${s.ambient_rise_k},${s.limit_drop_k}`).join(' and ')})
+  --cleaning-interval DAYS  planned cleaning interval the fouling allowance is worked out for (default ${SIZING_DEFAULTS.cleaning_interval_days})
+  --duty k=v,…  drivetrain comparison duty: mass_kg, cda_m2, crr, speed_kmh, grade_pct, ambient_c
+               (default ${Object.entries(DEFAULT_DUTY)
+                 .map(([k, v]) => `${k}=${v}`)
+                 .join(',')})`;
+
+const DUTY_KEYS = ['mass_kg', 'cda_m2', 'crr', 'speed_kmh', 'grade_pct', 'ambient_c'] as const;
+
+function parseWhatIf(text: string, problems: Problem[]): WhatIfScenario | null {
+  const m = /^\s*(-?[\d.]+)\s*,\s*(-?[\d.]+)\s*$/.exec(text);
+  if (!m) {
+    problems.push({ where: `--what-if ${text}`, rule: 'must be RISE,DROP in K, e.g. 5,0' });
+    return null;
+  }
+  return { ambient_rise_k: Number(m[1]), limit_drop_k: Number(m[2]) };
+}
+
+function parseDuty(text: string, problems: Problem[]): Duty {
+  const duty: Duty = { ...DEFAULT_DUTY };
+  for (const part of text.split(',')) {
+    const [key, value] = part.split('=').map((s) => s.trim());
+    const x = Number(value);
+    if (!DUTY_KEYS.includes(key as (typeof DUTY_KEYS)[number]) || value === undefined || !Number.isFinite(x))
+      problems.push({
+        where: `--duty ${part}`,
+        rule: `must be key=number with key one of ${DUTY_KEYS.join(', ')}`,
+      });
+    else duty[key as (typeof DUTY_KEYS)[number]] = x;
+  }
+  return duty;
+}
+
+export async function sizingCommand(argv: string[], log: (line: string) => void): Promise<void> {
+  const { values } = parseArgs({
+    args: argv,
+    options: {
+      fleet: { type: 'string' },
+      data: { type: 'string' },
+      out: { type: 'string' },
+      html: { type: 'string' },
+      'what-if': { type: 'string', multiple: true },
+      'cleaning-interval': { type: 'string' },
+      duty: { type: 'string' },
+    },
+    strict: true,
+  });
+  const problems: Problem[] = [];
+  if (!values.fleet) problems.push({ where: '--fleet', rule: 'required' });
+  if (!values.data) problems.push({ where: '--data', rule: 'required' });
+  const what_if = (values['what-if'] ?? [])
+    .map((t) => parseWhatIf(t, problems))
+    .filter((s): s is WhatIfScenario => s !== null);
+  const interval =
+    values['cleaning-interval'] === undefined ? undefined : Number(values['cleaning-interval']);
+  if (interval !== undefined && !(interval > 0))
+    problems.push({ where: '--cleaning-interval', rule: 'must be a number of days > 0' });
+  const duty = values.duty === undefined ? undefined : parseDuty(values.duty, problems);
+  if (problems.length) throw new InputError(problems, `usage:\n${SIZING_USAGE}\n`);
+
+  let options: ReturnType<typeof resolveSizingOptions>;
+  try {
+    options = resolveSizingOptions({
+      ...(what_if.length ? { what_if } : {}),
+      ...(interval !== undefined ? { cleaning_interval_days: interval } : {}),
+    });
+  } catch (e) {
+    throw new InputError([{ where: 'options', rule: (e as Error).message }]);
+  }
+  const samples = new Map<string, VehicleSamples>();
+  const data = await analyzeData(values.fleet!, values.data!, log, (v) => {
+    let acc: VehicleSamples;
+    try {
+      acc = new VehicleSamples(v, options);
+    } catch (e) {
+      throw new InputError([{ where: `--what-if (vehicle ${v.id})`, rule: (e as Error).message }]);
+    }
+    samples.set(v.id, acc);
+    return (columns, trips) => acc.add(columns, trips);
+  });
+  const trips = new Map(data.vehicles.map((v) => [v.id, data.streams.get(v.id)!.trips]));
+  const result = sizeFleet({ vehicles: data.vehicles, trips, samples, ...(duty ? { duty } : {}) }, options);
+  const json = `${JSON.stringify(result, null, 1)}\n`;
+  if (values.out) writeFileSync(values.out, json);
+  else process.stdout.write(json);
+  if (values.html)
+    writeFileSync(
+      values.html,
+      sizingHtml(result, { fleet: values.fleet!, data: values.data!, generated: new Date().toISOString() }),
+    );
+  log(
+    `sized ${data.vehicles.length} vehicles from ${data.rows.toLocaleString('en-US')} rows, ${result.period.trips} trips` +
+      (values.html ? `; report ${values.html}` : ''),
+  );
+}

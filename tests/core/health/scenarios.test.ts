@@ -1,0 +1,152 @@
+import { describe, expect, it } from 'vitest';
+import { assessVehicle } from '../../../core/src/health/assess.ts';
+import { generateScenario } from '../../support/health-fleet/generate.ts';
+import { firstDay, firstStatus, firstTrueStatus } from '../../support/health-fleet/metrics.ts';
+import { table } from '../../support/health-fleet/report.ts';
+import { type Run, type RunFigures, run } from '../../support/health-fleet/run.ts';
+import {
+  EVENT_DAY,
+  PARAMETER_SETS,
+  type ScenarioName,
+  type SetName,
+  scenarioParams,
+} from '../../support/health-fleet/scenarios.ts';
+
+/**
+ * Issue #3 acceptance on the seeded trip-level generator (tests/support/health-fleet): set A is what
+ * the defaults were tried on, set B (other vehicle type, noise, trip rate, τ, bench baseline) was not.
+ */
+const SETS = Object.keys(PARAMETER_SETS) as SetName[];
+const SEEDS = [1, 2, 3];
+const all: RunFigures[] = [];
+const runs = (scenario: ScenarioName): Run[] =>
+  SETS.flatMap((set) =>
+    SEEDS.map((seed) => {
+      const r = run(set, scenario, seed);
+      all.push(r.f);
+      return r;
+    }),
+  );
+const label = (r: Run) => `${r.f.set}/${r.f.scenario}/seed ${r.f.seed}`;
+
+describe('health assessment on generated fleets', () => {
+  it('healthy vehicles over 180 days: no inspect, at most one watch and it clears', () => {
+    for (const r of runs('healthy')) {
+      const statuses = r.a.trips.map((t) => t.status);
+      expect(statuses, label(r)).not.toContain('inspect');
+      const watches = statuses.filter((s, i) => s === 'watch' && statuses[i - 1] !== 'watch').length;
+      expect(watches, label(r)).toBeLessThanOrEqual(1);
+      expect(r.a.status, label(r)).toBe('ok');
+      expect(r.a.projected_inspect_date, label(r)).toBeNull();
+    }
+  });
+
+  it('asymptotic fouling: watch, then inspect with cause fouling, at most 5 trips after the true crossing', () => {
+    for (const r of runs('fouling')) {
+      const gw = firstStatus(r.a, 'watch')!;
+      const gi = firstStatus(r.a, 'inspect')!;
+      expect(gw, label(r)).toBeLessThan(gi);
+      expect(r.a.cause, label(r)).toBe('fouling');
+      expect(r.a.alerts.find((x) => x.status === 'inspect')?.cause, label(r)).toBe('fouling');
+      // Late by at most 5 trips; early (the safe side) by at most 10 days, and never while the truth is ok.
+      expect(r.f.delay_trips!, label(r)).toBeLessThanOrEqual(5);
+      expect(r.f.delay_days!, label(r)).toBeGreaterThanOrEqual(-10);
+      expect(gi, label(r)).toBeGreaterThanOrEqual(firstTrueStatus(r.s, 'watch')!);
+    }
+  });
+
+  it('part-way into fouling: a projected date never says "later" than the true crossing with confidence', () => {
+    let projected = 0;
+    for (const set of SETS) {
+      for (const seed of SEEDS) {
+        const p = scenarioParams(set, 'fouling', seed);
+        const crossDay = generateScenario(p).truth.find((t) => t.status === 'inspect')!.day;
+        for (const share of [0.5, 0.7]) {
+          const early = generateScenario({ ...p, days: Math.round(crossDay * share) });
+          const a = assessVehicle(early.vehicle, early.trips);
+          expect(a.status).not.toBe('inspect');
+          const iv = a.series.projection.interval;
+          if (a.projected_inspect_date === null) {
+            expect(a.series.projection.reason).toMatch(/cannot tell|no significant/);
+            continue;
+          }
+          projected++;
+          const lo = iv?.[0] ?? null;
+          expect(lo, `${set}/${seed}/${share}`).not.toBeNull();
+          expect((Date.parse(lo!) - Date.parse(early.trips[0]!.start)) / 864e5).toBeLessThanOrEqual(
+            crossDay + 1,
+          );
+        }
+      }
+    }
+    expect(projected).toBeGreaterThan(0);
+  });
+
+  it('fan losing 70 % airflow: cause fan within 5 fan-band trips, ram health unchanged', () => {
+    for (const r of runs('fan')) {
+      expect(r.f.delay_trips, label(r)).not.toBeNull();
+      expect(r.f.delay_trips!, label(r)).toBeLessThanOrEqual(5);
+      expect(r.a.cause, label(r)).toBe('fan');
+      expect(Math.abs(r.a.health.ram! - 1), label(r)).toBeLessThan(0.06);
+      expect(r.a.health.fan!, label(r)).toBeLessThan(0.7);
+    }
+  });
+
+  it('after a recorded cleaning the vehicle recovers to ok', () => {
+    for (const r of runs('cleaning')) {
+      const ev = firstDay(r.s, EVENT_DAY.cleaning)!;
+      expect(r.a.trips[ev - 1]!.status, label(r)).toBe('inspect');
+      expect(r.f.delay_trips, label(r)).not.toBeNull();
+      expect(r.f.delay_trips!, label(r)).toBeLessThanOrEqual(10);
+    }
+  });
+
+  it('ambient sensor 6 K high: sensor within 5 cold starts, radiator never blamed, improvement flagged', () => {
+    for (const r of runs('sensor')) {
+      expect(r.f.delay_trips!, label(r)).toBeLessThanOrEqual(5);
+      const ev = firstDay(r.s, EVENT_DAY.sensor)!;
+      expect(r.a.cause, label(r)).toBe('sensor');
+      expect(
+        r.a.alerts.map((a) => a.cause),
+        label(r),
+      ).not.toContain('fouling');
+      expect(
+        r.a.alerts.map((a) => a.cause),
+        label(r),
+      ).not.toContain('coolant_flow');
+      expect(
+        r.a.candidates.map((c) => c.cause),
+        label(r),
+      ).not.toContain('fouling');
+      const after = r.a.series.margin.level_pct.slice(ev).filter((m): m is number => m !== null);
+      const before = r.a.series.margin.level_pct[ev - 1]!;
+      if (Math.max(...after) > before + 2) {
+        expect(r.a.cause_evidence, label(r)).toMatch(/not credible/);
+        expect(r.a.notes.join(' '), label(r)).toMatch(/not credible/);
+        expect(
+          r.a.alerts.some((a) => /not credible/.test(a.detail)),
+          label(r),
+        ).toBe(true);
+      }
+    }
+  });
+
+  it('sparse data: says so instead of guessing', () => {
+    for (const r of runs('sparse')) {
+      expect(r.a.cause, label(r)).toBe('none');
+      expect(r.a.projected_inspect_date, label(r)).toBeNull();
+      if (r.a.health.fan === null) {
+        expect(r.a.notes.join(' '), label(r)).toMatch(
+          /fan band reached on \d+ of \d+ trips: fan health not judged/,
+        );
+        expect(r.a.cause_evidence, label(r)).toMatch(/not enough data/);
+      }
+    }
+    expect(all.filter((f) => f.scenario === 'sparse').length).toBeGreaterThan(0);
+  });
+
+  it('prints detection delays and false alarms for the closing note', () => {
+    console.log(`\n${table(all)}`);
+    expect(all.length).toBe(SETS.length * SEEDS.length * 6);
+  });
+});
