@@ -9,3 +9,4 @@ export * from './safety.ts';
 export * from './telemetry.ts';
 export * from './validation.ts';
 export * from './topics.ts';
+export * from './api.ts';

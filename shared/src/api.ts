@@ -1,0 +1,356 @@
+import { z } from 'zod';
+import { MAINTENANCE_ACTIONS, maintenanceEntrySchema, vehicleConfigSchema } from './fleet.ts';
+import { idSchema } from './ids.ts';
+import { CAUSES, STATUSES, tripResultSchema } from './results.ts';
+
+/**
+ * The HTTP API's contract (services/api): every request and response body as a zod schema, shared by the
+ * server (which validates requests with them and generates its OpenAPI document from them) and the
+ * dashboard. Paths are under `/api`; times are ISO 8601 UTC text unless a name ends in `_ms`.
+ * Stable: fields are added, never renamed.
+ */
+
+export const API_ROLES = ['viewer', 'engineer', 'admin'] as const;
+export type ApiRole = (typeof API_ROLES)[number];
+
+const num = z.number().nullable();
+const status = z.enum(STATUSES);
+const cause = z.enum(CAUSES);
+const iso = z.string();
+
+/** Every 4xx/5xx body. `problems` lists each field and the rule it broke (400). */
+export const apiErrorSchema = z.object({
+  error: z.object({
+    /** 'bad_request' | 'unauthorized' | 'forbidden' | 'not_found' | 'too_many_requests' | 'too_large' | 'conflict' | 'internal' */
+    code: z.string(),
+    message: z.string(),
+    problems: z.array(z.object({ where: z.string(), rule: z.string() })).optional(),
+  }),
+});
+export type ApiError = z.infer<typeof apiErrorSchema>;
+
+// ---- GET /api/health (no token): liveness, the benchmark's baseline
+export const healthResponseSchema = z.object({ ok: z.boolean(), time: iso });
+export type HealthResponse = z.infer<typeof healthResponseSchema>;
+
+// ---- GET /api/status (viewer): ingest and analyzer health
+export const statusResponseSchema = z.object({
+  time: iso,
+  store: z.object({ kind: z.string(), up: z.boolean(), error: z.string().nullable() }),
+  ingest: z.object({
+    vehicles: z.number().int(),
+    samples: z.number().int(),
+    /** Newest sample of any vehicle. */
+    last_sample: iso.nullable(),
+    /** s: now − newest sample; null without samples. */
+    lag_s: num,
+    dead_letters: z.number().int(),
+  }),
+  analyzer: z.object({
+    running: z.boolean(),
+    runs: z.number().int(),
+    last_run: iso.nullable(),
+    last_error: z.string().nullable(),
+    trips_analysed: z.number().int(),
+    samples_analysed: z.number().int(),
+    /** Vehicles with samples newer than their watermark. */
+    backlog_vehicles: z.number().int(),
+    watermarks: z.array(z.object({ vehicle: z.string(), analysed_to: iso.nullable() })),
+  }),
+});
+export type StatusResponse = z.infer<typeof statusResponseSchema>;
+
+// ---- GET /api/fleet (viewer): one row per vehicle of the fleet file
+export const TRENDS = ['falling', 'steady', 'rising'] as const;
+export type Trend = (typeof TRENDS)[number];
+
+export const vehicleSummarySchema = z.object({
+  id: z.string(),
+  type: z.string(),
+  powertrain: z.string(),
+  /** null until the vehicle has been assessed (no trips yet). */
+  status: status.nullable(),
+  cause: cause.nullable(),
+  health: z.object({ ram: num, fan: num }),
+  /** %: current margin level at the design point (the health module's level, not one trip's). */
+  margin_pct: num,
+  /** °C: limiting ambient temperature at the current margin level. */
+  limiting_ambient_c: num,
+  margin_basis: z.enum(['ram', 'fan']).nullable(),
+  projected_inspect_date: iso.nullable(),
+  /** Newest sample received. */
+  last_seen: iso.nullable(),
+  last_trip_end: iso.nullable(),
+  /** Direction of the margin level over the latest trips; null when too few. */
+  trend: z.enum(TRENDS).nullable(),
+  trips: z.number().int(),
+  /** Alerts at watch or inspect not yet closed. */
+  open_alerts: z.number().int(),
+});
+export type VehicleSummary = z.infer<typeof vehicleSummarySchema>;
+
+export const fleetResponseSchema = z.object({
+  time: iso,
+  counts: z.object({
+    ok: z.number().int(),
+    watch: z.number().int(),
+    inspect: z.number().int(),
+    unassessed: z.number().int(),
+  }),
+  vehicles: z.array(vehicleSummarySchema),
+  safety_caution: z.string(),
+});
+export type FleetResponse = z.infer<typeof fleetResponseSchema>;
+
+// ---- GET /api/vehicles/{id} (viewer)
+export const ALERT_STATES = ['open', 'acknowledged', 'closed'] as const;
+export type AlertState = (typeof ALERT_STATES)[number];
+
+const actionStamp = z.object({ by: z.string(), at: iso, note: z.string() });
+export const alertViewSchema = z.object({
+  /** Stable across re-analysis: the alert's time (compact) and status, e.g. `20260701T081500Z-watch`. */
+  id: z.string(),
+  vehicle: z.string(),
+  time: iso,
+  status,
+  cause,
+  detail: z.string(),
+  state: z.enum(ALERT_STATES),
+  acknowledged: actionStamp.nullable(),
+  closed: actionStamp.nullable(),
+});
+export type AlertView = z.infer<typeof alertViewSchema>;
+
+export const maintenanceViewSchema = z.object({
+  /** `fleet-<n>` for fleet-file entries, `api-<n>` for entries added through the API. */
+  id: z.string(),
+  source: z.enum(['fleet', 'api']),
+  date: z.string(),
+  action: z.enum(MAINTENANCE_ACTIONS),
+  note: z.string().nullable(),
+  by: z.string().nullable(),
+  /** When it was added through the API; null for fleet-file entries. */
+  recorded_at: iso.nullable(),
+});
+export type MaintenanceView = z.infer<typeof maintenanceViewSchema>;
+
+const col = z.array(num);
+export const bandSeriesSchema = z.object({
+  health: col,
+  level: col,
+  ewma: col,
+  ewma_lcl: col,
+  cusum: col,
+  cusum_h: z.number(),
+  change_points: z.array(z.object({ signal: iso, since: iso, detector: z.enum(['cusum', 'ewma']) })),
+  baselines: z.array(
+    z.object({
+      start: iso,
+      k_w_m2k: num,
+      source: z.enum(['bench', 'trips']),
+      reference: num,
+    }),
+  ),
+});
+
+/** Chart data of the health module (core/health/series.ts): one entry per trip, by `time_ms`. */
+export const healthSeriesSchema = z.object({
+  time_ms: z.array(z.number()),
+  ram: bandSeriesSchema,
+  fan: bandSeriesSchema,
+  margin: z.object({
+    basis: z.enum(['ram', 'fan']),
+    pct: col,
+    level_pct: col,
+    lat_c: col,
+    lat_level_c: col,
+    inspect_below_pct: z.number(),
+    watch_below_pct: z.number(),
+  }),
+  projection: z.object({
+    method: z.enum(['kern-seaton', 'theil-sen']).nullable(),
+    threshold_pct: z.number(),
+    date: iso.nullable(),
+    interval: z.tuple([iso.nullable(), iso.nullable()]).nullable(),
+    curve: z.object({
+      time_ms: z.array(z.number()),
+      margin_pct: z.array(z.number()),
+      lat_c: z.array(z.number()),
+    }),
+    reason: z.string().nullable(),
+  }),
+});
+export type HealthSeriesView = z.infer<typeof healthSeriesSchema>;
+
+/** Trips shown on the vehicle page, newest first; the rest through the trips route. */
+export const VEHICLE_RECENT_TRIPS = 20;
+
+export const vehicleResponseSchema = z.object({
+  id: z.string(),
+  /** The vehicle's entry in the fleet file. */
+  config: vehicleConfigSchema,
+  summary: vehicleSummarySchema,
+  cause_evidence: z.string().nullable(),
+  notes: z.array(z.string()),
+  candidates: z.array(z.object({ cause, score: z.number(), evidence: z.string() })),
+  series: healthSeriesSchema.nullable(),
+  alerts: z.array(alertViewSchema),
+  maintenance: z.array(maintenanceViewSchema),
+  /** The newest VEHICLE_RECENT_TRIPS trips, newest first. */
+  trips: z.array(tripResultSchema),
+  trips_total: z.number().int(),
+  safety_caution: z.string(),
+});
+export type VehicleResponse = z.infer<typeof vehicleResponseSchema>;
+
+// ---- GET /api/vehicles/{id}/trips (viewer): paged, newest first
+const dateParam = z
+  .string()
+  .regex(/^\d{4}-\d{2}-\d{2}(T\d{2}:\d{2}(:\d{2}(\.\d{1,3})?)?Z)?$/, 'must be YYYY-MM-DD or ISO 8601 UTC')
+  .refine((s) => Number.isFinite(Date.parse(s.length === 10 ? `${s}T00:00:00Z` : s)), 'must be a real date');
+
+export const tripsQuerySchema = z.strictObject({
+  /** Trips starting at or after this time. */
+  from: dateParam.optional(),
+  /** Trips starting before this time. */
+  to: dateParam.optional(),
+  status: status.optional(),
+  limit: z.coerce.number().int().min(1).max(500).default(50),
+  offset: z.coerce.number().int().min(0).max(1_000_000).default(0),
+});
+export type TripsQuery = z.infer<typeof tripsQuerySchema>;
+
+export const tripsResponseSchema = z.object({
+  vehicle: z.string(),
+  total: z.number().int(),
+  offset: z.number().int(),
+  limit: z.number().int(),
+  trips: z.array(tripResultSchema),
+});
+export type TripsResponse = z.infer<typeof tripsResponseSchema>;
+
+// ---- GET /api/vehicles/{id}/trips/{trip}?points=N (viewer): signals downsampled for charts
+export const TRACE_COLUMNS = [
+  'time_ms',
+  'speed_kmh',
+  'power_kw',
+  'coolant_in_c',
+  'coolant_out_c',
+  'ambient_c',
+  'fan_pct',
+  'coolant_flow_lpm',
+  'derate',
+  /** kW: heat generated into the coolant (drivetrain/heat.ts). */
+  'heat_generated_kw',
+  /** kW: heat rejected by the radiator, Q = k·A·ITD at the sample's air flow; null outside valid windows. */
+  'heat_rejected_kw',
+  /** W/(m²·K): the k of the valid window the sample belongs to (band reference condition); else null. */
+  'k_w_m2k',
+  /** 1 when the sample counted for the ram band's k, else 0. */
+  'counted_ram',
+  'counted_fan',
+] as const;
+export type TraceColumn = (typeof TRACE_COLUMNS)[number];
+
+export const traceQuerySchema = z.strictObject({
+  points: z.coerce.number().int().min(10).max(20_000).default(2000),
+});
+
+export const traceResponseSchema = z.object({
+  vehicle: z.string(),
+  trip: tripResultSchema,
+  /** Samples read for the trip, and points returned (gaps add one null row each). */
+  samples: z.number().int(),
+  points: z.number().int(),
+  method: z.literal('lttb'),
+  columns: z.array(z.enum(TRACE_COLUMNS)),
+  /** Columnar: data[j] is the column `columns[j]`; null for a gap or a missing value. */
+  data: z.array(z.array(num)),
+});
+export type TraceResponse = z.infer<typeof traceResponseSchema>;
+
+// ---- GET /api/rejected (viewer): refused data per vehicle and reason
+export const rejectedResponseSchema = z.object({
+  vehicles: z.array(
+    z.object({
+      /** '' for messages whose vehicle could not be read. */
+      vehicle: z.string(),
+      /** Refused by the ingester (dead letters), by reason. */
+      ingest: z.record(z.string(), z.number().int()),
+      /** Rejected by the core's cleaning during analysis, by reason. */
+      cleaning: z.record(z.string(), z.number().int()),
+      total: z.number().int(),
+    }),
+  ),
+  total: z.number().int(),
+});
+export type RejectedResponse = z.infer<typeof rejectedResponseSchema>;
+
+// ---- Writes (each recorded in the audit log with who and when)
+export const alertActionBodySchema = z.strictObject({ note: z.string().trim().min(1).max(2000) });
+export type AlertActionBody = z.infer<typeof alertActionBodySchema>;
+/** POST /api/vehicles/{id}/alerts/{alert}/acknowledge and …/close (engineer) → AlertView. */
+export const alertActionResponseSchema = alertViewSchema;
+
+/** POST /api/vehicles/{id}/maintenance (engineer): re-baselines as the health module specifies. */
+export const maintenanceBodySchema = maintenanceEntrySchema.omit({ by: true });
+export type MaintenanceBody = z.infer<typeof maintenanceBodySchema>;
+export const maintenanceResponseSchema = z.object({
+  entry: maintenanceViewSchema,
+  summary: vehicleSummarySchema,
+});
+export type MaintenanceResponse = z.infer<typeof maintenanceResponseSchema>;
+
+/** POST /api/fleet/reload (admin): re-reads the fleet file; PUT /api/fleet (admin): replaces it. */
+export const fleetReloadResponseSchema = z.object({
+  vehicles: z.number().int(),
+  /** Vehicles added, removed or whose entry changed: their results are recomputed. */
+  changed: z.array(z.string()),
+});
+export type FleetReloadResponse = z.infer<typeof fleetReloadResponseSchema>;
+
+// ---- Tokens (admin)
+export const tokenViewSchema = z.object({ name: z.string(), role: z.enum(API_ROLES), source: z.string() });
+export const tokensResponseSchema = z.object({ tokens: z.array(tokenViewSchema) });
+export const tokenCreateBodySchema = z.strictObject({ name: idSchema, role: z.enum(API_ROLES) });
+/** The secret is shown once; only its hash is kept. */
+export const tokenCreateResponseSchema = z.object({
+  name: z.string(),
+  role: z.enum(API_ROLES),
+  token: z.string(),
+});
+
+// ---- GET /api/audit (admin): newest first
+export const auditEntrySchema = z.object({
+  id: z.number().int(),
+  at: iso,
+  by: z.string(),
+  role: z.enum(API_ROLES),
+  action: z.string(),
+  target: z.string(),
+  detail: z.string(),
+});
+export type AuditEntry = z.infer<typeof auditEntrySchema>;
+export const auditResponseSchema = z.object({ entries: z.array(auditEntrySchema) });
+
+// ---- GET /api/events (viewer): server-sent events; `event:` names and their `data:` JSON
+export const eventSchemas = {
+  /** A trip was analysed (or re-analysed). */
+  trip: z.object({ vehicle: z.string(), trip: tripResultSchema }),
+  /** A vehicle's status changed. */
+  status: z.object({ vehicle: z.string(), from: status.nullable(), to: status, time: iso }),
+  /** The newest sample per vehicle, as received (sent at most once per poll interval). */
+  sample: z.object({
+    vehicle: z.string(),
+    time: iso,
+    speed_kmh: z.number(),
+    power_kw: z.number(),
+    coolant_in_c: z.number(),
+    ambient_c: z.number(),
+    fan_pct: z.number(),
+  }),
+} as const;
+export type ApiEventName = keyof typeof eventSchemas;
+export type ApiEvent = {
+  [K in ApiEventName]: { event: K; data: z.infer<(typeof eventSchemas)[K]> };
+}[ApiEventName];
