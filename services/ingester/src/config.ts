@@ -1,0 +1,156 @@
+import { hostname } from 'node:os';
+import { DEFAULT_MAX_PAYLOAD_BYTES, DEFAULT_SHARE_GROUP } from '@thermargin/shared';
+import type { StoreConfig } from '@thermargin/store';
+import { PIPELINE_DEFAULTS } from './pipeline.ts';
+
+/**
+ * The environment variables the ingester reads: the one list (docker-compose.yml and the README are
+ * checked against it). Each default is defined once, in `readIngesterConfig`.
+ */
+export const ENV = {
+  MQTT_URL: 'INGEST_MQTT_URL',
+  MQTT_USERNAME: 'INGEST_MQTT_USERNAME',
+  MQTT_PASSWORD: 'INGEST_MQTT_PASSWORD',
+  MQTT_CLIENT_ID: 'INGEST_MQTT_CLIENT_ID',
+  MQTT_PROTOCOL: 'INGEST_MQTT_PROTOCOL',
+  SHARE_GROUP: 'INGEST_SHARE_GROUP',
+  CONNECTIONS: 'INGEST_CONNECTIONS',
+  SESSION_EXPIRY_S: 'INGEST_SESSION_EXPIRY_S',
+  FLEET_FILE: 'INGEST_FLEET_FILE',
+  MAX_PAYLOAD_BYTES: 'INGEST_MAX_PAYLOAD_BYTES',
+  BATCH_SAMPLES: 'INGEST_BATCH_SAMPLES',
+  LINGER_MS: 'INGEST_LINGER_MS',
+  SPOOL_DIR: 'INGEST_SPOOL_DIR',
+  SPOOL_MAX_BYTES: 'INGEST_SPOOL_MAX_BYTES',
+  METRICS_PORT: 'INGEST_METRICS_PORT',
+  METRICS_HOST: 'INGEST_METRICS_HOST',
+  STORE: 'STORE_KIND',
+  SQLITE_PATH: 'STORE_SQLITE_PATH',
+  SQLITE_SYNCHRONOUS: 'STORE_SQLITE_SYNCHRONOUS',
+  INFLUX_URL: 'STORE_INFLUX_URL',
+  INFLUX_API: 'STORE_INFLUX_API',
+  INFLUX_ORG: 'STORE_INFLUX_ORG',
+  INFLUX_BUCKET: 'STORE_INFLUX_BUCKET',
+  INFLUX_TOKEN: 'STORE_INFLUX_TOKEN',
+  INFLUX_DATABASE: 'STORE_INFLUX_DATABASE',
+  INFLUX_RETENTION_POLICY: 'STORE_INFLUX_RETENTION_POLICY',
+  INFLUX_USERNAME: 'STORE_INFLUX_USERNAME',
+  INFLUX_PASSWORD: 'STORE_INFLUX_PASSWORD',
+} as const;
+
+export interface IngesterConfig {
+  mqtt: {
+    url: string;
+    username: string | undefined;
+    password: string | undefined;
+    /** Stable per replica: the persistent sessions are `${client_id}-0` … `-${connections - 1}`. */
+    client_id: string;
+    /** 5 (MQTT 5: session expiry, shared subscriptions) or 4 (MQTT 3.1.1, e.g. the embedded broker). */
+    protocol: 4 | 5;
+    /** Shared-subscription group; '' subscribes plainly (one ingester only). */
+    share_group: string;
+    /** MQTT connections of this replica (each has one message in flight at a time). */
+    connections: number;
+    session_expiry_s: number;
+  };
+  fleet_file: string;
+  max_payload_bytes: number;
+  batch_samples: number;
+  linger_ms: number;
+  spool_dir: string;
+  spool_max_bytes: number;
+  /** -1: no metrics server; 0: any free port. */
+  metrics_port: number;
+  metrics_host: string;
+  store: StoreConfig;
+}
+
+type Env = Record<string, string | undefined>;
+
+/** The ingester's configuration from environment variables, or an Error naming each bad one. */
+export function readIngesterConfig(env: Env = process.env): IngesterConfig {
+  const problems: string[] = [];
+  const str = (name: string, fallback?: string): string => {
+    const v = env[name];
+    if (v !== undefined && v !== '') return v;
+    if (fallback === undefined) problems.push(`${name} is required`);
+    return fallback ?? '';
+  };
+  const int = (name: string, fallback: number, min: number): number => {
+    const raw = env[name];
+    if (raw === undefined || raw === '') return fallback;
+    const v = Number(raw);
+    if (!Number.isInteger(v) || v < min)
+      problems.push(`${name} must be an integer ≥ ${min} (got ${JSON.stringify(raw)})`);
+    return v;
+  };
+  const oneOf = <T extends string>(name: string, allowed: readonly T[], fallback: T): T => {
+    const v = str(name, fallback) as T;
+    if (!allowed.includes(v))
+      problems.push(`${name} must be one of ${allowed.join(', ')} (got ${JSON.stringify(v)})`);
+    return v;
+  };
+
+  const kind = oneOf(ENV.STORE, ['sqlite', 'influx'] as const, 'sqlite');
+  const store: StoreConfig =
+    kind === 'sqlite'
+      ? {
+          kind,
+          path: str(ENV.SQLITE_PATH, 'data/thermargin.db'),
+          synchronous: oneOf(ENV.SQLITE_SYNCHRONOUS, ['full', 'normal'] as const, 'full'),
+        }
+      : influxConfig();
+
+  function influxConfig(): StoreConfig {
+    const api = oneOf(ENV.INFLUX_API, ['v2', 'v1'] as const, 'v2');
+    const url = str(ENV.INFLUX_URL, 'http://127.0.0.1:8086');
+    if (api === 'v2') {
+      return {
+        kind: 'influx',
+        api,
+        url,
+        org: str(ENV.INFLUX_ORG),
+        bucket: str(ENV.INFLUX_BUCKET),
+        token: str(ENV.INFLUX_TOKEN),
+      };
+    }
+    return {
+      kind: 'influx',
+      api,
+      url,
+      database: str(ENV.INFLUX_DATABASE),
+      retention_policy: str(ENV.INFLUX_RETENTION_POLICY, ''),
+      username: str(ENV.INFLUX_USERNAME, '') || undefined,
+      password: str(ENV.INFLUX_PASSWORD, '') || undefined,
+    };
+  }
+
+  const config: IngesterConfig = {
+    mqtt: {
+      url: str(ENV.MQTT_URL, 'mqtt://127.0.0.1:1883'),
+      username: env[ENV.MQTT_USERNAME] || undefined,
+      password: env[ENV.MQTT_PASSWORD] || undefined,
+      client_id: str(ENV.MQTT_CLIENT_ID, `ingester-${hostname()}`),
+      protocol: Number(oneOf(ENV.MQTT_PROTOCOL, ['5', '4'] as const, '5')) as 4 | 5,
+      share_group: env[ENV.SHARE_GROUP] ?? DEFAULT_SHARE_GROUP,
+      connections: int(ENV.CONNECTIONS, 16, 1),
+      session_expiry_s: int(ENV.SESSION_EXPIRY_S, 7 * 86_400, 1),
+    },
+    fleet_file: str(ENV.FLEET_FILE),
+    max_payload_bytes: int(ENV.MAX_PAYLOAD_BYTES, DEFAULT_MAX_PAYLOAD_BYTES, 1),
+    batch_samples: int(ENV.BATCH_SAMPLES, PIPELINE_DEFAULTS.batch_samples, 1),
+    linger_ms: int(ENV.LINGER_MS, PIPELINE_DEFAULTS.linger_ms, 0),
+    spool_dir: str(ENV.SPOOL_DIR, 'data/spool'),
+    spool_max_bytes: int(ENV.SPOOL_MAX_BYTES, 1024 ** 3, 1),
+    metrics_port: int(ENV.METRICS_PORT, 9464, -1),
+    metrics_host: str(ENV.METRICS_HOST, '127.0.0.1'),
+    store,
+  };
+  if (config.mqtt.protocol === 4 && config.mqtt.share_group) {
+    problems.push(
+      `${ENV.SHARE_GROUP} needs ${ENV.MQTT_PROTOCOL}=5 (shared subscriptions are MQTT 5); set it to ''`,
+    );
+  }
+  if (problems.length) throw new Error(`ingester configuration:\n  ${problems.join('\n  ')}`);
+  return config;
+}

@@ -1,0 +1,139 @@
+import {
+  FUTURE_TOLERANCE_MS,
+  MAX_SAMPLES_PER_MESSAGE,
+  SIGNALS,
+  type Sample,
+  TIME_MIN_MS,
+  formatPath,
+  parseSampleTopic,
+  toSample,
+  wireSampleSchema,
+} from '@thermargin/shared';
+import { type DeadLetter, type RejectReason, excerpt } from '@thermargin/store';
+import type { z } from 'zod';
+
+export interface DecodeContext {
+  /** Vehicle ids of the fleet file. */
+  known_vehicles: ReadonlySet<string>;
+  /** ms: receive time (also the reference for the future/past clock checks). */
+  now_ms: number;
+  max_payload_bytes: number;
+}
+
+export interface Decoded {
+  samples: Sample[];
+  rejects: DeadLetter[];
+}
+
+/**
+ * One MQTT message → the samples to store and the dead letters, never a throw: a payload is refused
+ * whole when its topic, vehicle, size or JSON is wrong, and sample by sample otherwise (the good ones
+ * of a batch are kept).
+ */
+export function decodeMessage(topic: string, payload: Buffer, ctx: DecodeContext): Decoded {
+  const vehicle = parseSampleTopic(topic);
+  const letter = (
+    reason: RejectReason,
+    detail: string,
+    text: () => string,
+    v = vehicle ?? '',
+  ): DeadLetter => ({
+    received_ms: ctx.now_ms,
+    vehicle: v,
+    reason,
+    detail,
+    topic: excerpt(topic, 256),
+    excerpt: excerpt(text()),
+    payload_bytes: payload.length,
+  });
+  const whole = (reason: RejectReason, detail: string, v?: string): Decoded => ({
+    samples: [],
+    rejects: [letter(reason, detail, () => payload.subarray(0, 4096).toString('utf8'), v)],
+  });
+
+  if (vehicle === undefined)
+    return whole('topic', 'not a sample topic (thermargin/v1/vehicles/{vehicle}/samples)', '');
+  if (!ctx.known_vehicles.has(vehicle))
+    return whole('unknown_vehicle', `vehicle ${vehicle} is not in the fleet file`);
+  if (payload.length > ctx.max_payload_bytes) {
+    return whole(
+      'oversize',
+      `payload of ${payload.length} bytes is over the limit of ${ctx.max_payload_bytes}`,
+    );
+  }
+  let body: unknown;
+  try {
+    body = JSON.parse(payload.toString('utf8'));
+  } catch (e) {
+    return whole('json', `not JSON: ${(e as Error).message}`);
+  }
+  const isBatch = Array.isArray(body);
+  if (!isBatch && (typeof body !== 'object' || body === null)) {
+    return whole('schema', 'payload must be one sample (an object) or a batch (an array of samples)');
+  }
+  const items: unknown[] = isBatch ? (body as unknown[]) : [body];
+  if (items.length === 0) return whole('schema', 'empty batch');
+  if (items.length > MAX_SAMPLES_PER_MESSAGE) {
+    return whole(
+      'oversize',
+      `batch of ${items.length} samples is over the limit of ${MAX_SAMPLES_PER_MESSAGE}`,
+    );
+  }
+
+  const out: Decoded = { samples: [], rejects: [] };
+  items.forEach((item, i) => {
+    const verdict = judgeSample(item, vehicle, ctx.now_ms);
+    if ('reason' in verdict) {
+      const where = isBatch ? `samples[${i}]` : 'sample';
+      out.rejects.push(letter(verdict.reason, `${where}: ${verdict.detail}`, () => safeStringify(item)));
+    } else out.samples.push(verdict);
+  });
+  return out;
+}
+
+/** One sample of `vehicle`'s topic: the sample to store, or why not. */
+function judgeSample(
+  item: unknown,
+  vehicle: string,
+  now_ms: number,
+): Sample | { reason: RejectReason; detail: string } {
+  const r = wireSampleSchema.safeParse(item);
+  if (!r.success) return { reason: issueReason(r.error.issues[0], item), detail: issueText(r.error) };
+  if (r.data.vehicle !== vehicle)
+    return { reason: 'vehicle_mismatch', detail: `vehicle ${r.data.vehicle} on ${vehicle}'s topic` };
+  const s = toSample(r.data);
+  if (s.time_ms < TIME_MIN_MS)
+    return { reason: 'time_past', detail: `time ${r.data.time} is before 2000-01-01` };
+  if (s.time_ms > now_ms + FUTURE_TOLERANCE_MS) {
+    return { reason: 'time_future', detail: `time ${r.data.time} is more than a day after the receive time` };
+  }
+  return s;
+}
+
+/**
+ * A signal that is a number outside its range or not finite (1e400 parses to Infinity) is a 'range'
+ * rejection; any other broken rule is a 'schema' one.
+ */
+function issueReason(issue: z.core.$ZodIssue | undefined, item: unknown): RejectReason {
+  const field = issue?.path[0];
+  if (typeof field !== 'string' || !(field in SIGNALS) || issue?.path.length !== 1) return 'schema';
+  const v = (item as Record<string, unknown>)[field];
+  const spec = SIGNALS[field as keyof typeof SIGNALS];
+  return typeof v === 'number' && !(v >= spec.min && v <= spec.max) ? 'range' : 'schema';
+}
+
+function issueText(error: z.ZodError): string {
+  return error.issues
+    .slice(0, 3)
+    .map((i) => `${formatPath(i.path)}: ${i.message}`)
+    .join('; ');
+}
+
+/** The item as text for the excerpt; a structure too deep to serialise is named, not shown. */
+function safeStringify(item: unknown): string {
+  try {
+    return JSON.stringify(item) ?? typeof item;
+  } catch (e) {
+    return `(${typeof item} not serialisable: ${(e as Error).message})`;
+  }
+}

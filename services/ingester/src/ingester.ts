@@ -1,0 +1,175 @@
+import type { Server } from 'node:http';
+import { SAMPLE_TOPIC_FILTER, parseSampleTopic, sharedSampleFilter } from '@thermargin/shared';
+import { type SampleStore, excerpt } from '@thermargin/store';
+import mqtt, { type IClientOptions, type MqttClient } from 'mqtt';
+import type { IngesterConfig } from './config.ts';
+import { type DecodeContext, type Decoded, decodeMessage } from './decode.ts';
+import { IngestMetrics, serverPort, startMetricsServer } from './metrics.ts';
+import { PIPELINE_DEFAULTS, Pipeline } from './pipeline.ts';
+import { Spool } from './spool.ts';
+
+export type Logger = (event: string, detail?: Record<string, unknown>) => void;
+
+export interface IngesterDeps {
+  store: SampleStore;
+  /** Vehicle ids of the fleet file: samples of any other vehicle are dead-lettered. */
+  known_vehicles: ReadonlySet<string>;
+  /** ms since epoch; injected so tests control the clock checks. */
+  clock?: () => number;
+  log?: Logger;
+}
+
+export interface Ingester {
+  readonly metrics: IngestMetrics;
+  /** The metrics server's port once started (undefined when disabled). */
+  readonly metrics_port: number | undefined;
+  /** Connects and subscribes every connection; resolves once all are subscribed. */
+  start(): Promise<void>;
+  /** Graceful: stops taking messages, writes and acknowledges what is pending, disconnects. */
+  stop(): Promise<void>;
+}
+
+export const RECONNECT_BACKOFF = {
+  /** ms: first reconnect delay, doubled per failed attempt up to the max, with ±25 % jitter. */
+  min_ms: 250,
+  max_ms: 10_000,
+};
+
+/** MQTT messages in flight per connection (MQTT 5 receive maximum): bounds the client's memory. */
+export const RECEIVE_MAXIMUM = 8;
+/** bytes: the broker drops larger packets for us; set its own message_size_limit lower (see README). */
+export const MAXIMUM_PACKET_BYTES = 16 * 1024 * 1024;
+
+/** decodeMessage, with a last guard: an unforeseen throw dead-letters the message instead of stopping us. */
+function safeDecode(topic: string, payload: Buffer, ctx: DecodeContext): Decoded {
+  try {
+    return decodeMessage(topic, payload, ctx);
+  } catch (e) {
+    const letter = {
+      received_ms: ctx.now_ms,
+      vehicle: parseSampleTopic(topic) ?? '',
+      reason: 'schema' as const,
+      detail: `could not be decoded: ${(e as Error).message}`,
+      topic: excerpt(topic, 256),
+      excerpt: excerpt(payload.subarray(0, 4096).toString('utf8')),
+      payload_bytes: payload.length,
+    };
+    return { samples: [], rejects: [letter] };
+  }
+}
+
+/** Ends a connection after its last acknowledgements went out; forced when that takes over 2 s. */
+async function endClient(client: MqttClient): Promise<void> {
+  let timer: NodeJS.Timeout | undefined;
+  const late = new Promise<'late'>((resolve) => (timer = setTimeout(() => resolve('late'), 2000)));
+  const outcome = await Promise.race([client.endAsync(false).then(() => 'ended' as const), late]);
+  clearTimeout(timer);
+  if (outcome === 'late') await client.endAsync(true);
+}
+
+export function createIngester(config: IngesterConfig, deps: IngesterDeps): Ingester {
+  const clock = deps.clock ?? Date.now;
+  const log = deps.log ?? (() => {});
+  const metrics = new IngestMetrics();
+  const spool = new Spool(config.spool_dir, config.spool_max_bytes);
+  const pipeline = new Pipeline(
+    deps.store,
+    spool,
+    metrics,
+    { ...PIPELINE_DEFAULTS, batch_samples: config.batch_samples, linger_ms: config.linger_ms },
+    () => Math.max(1, metrics.connections_up),
+    log,
+  );
+  const filter = config.mqtt.share_group ? sharedSampleFilter(config.mqtt.share_group) : SAMPLE_TOPIC_FILTER;
+  const clients: MqttClient[] = [];
+  let stopping = false;
+  let server: Server | undefined;
+
+  function connectOne(index: number): Promise<void> {
+    const m = config.mqtt;
+    const options: IClientOptions = {
+      clientId: `${m.client_id}-${index}`,
+      username: m.username,
+      password: m.password,
+      protocolVersion: m.protocol,
+      clean: false,
+      reconnectPeriod: RECONNECT_BACKOFF.min_ms,
+      connectTimeout: 10_000,
+      keepalive: 30,
+      resubscribe: false,
+      ...(m.protocol === 5
+        ? {
+            properties: {
+              sessionExpiryInterval: m.session_expiry_s,
+              receiveMaximum: RECEIVE_MAXIMUM,
+              maximumPacketSize: MAXIMUM_PACKET_BYTES,
+            },
+          }
+        : {}),
+    };
+    const client = mqtt.connect(m.url, options);
+    clients.push(client);
+    let backoff = RECONNECT_BACKOFF.min_ms;
+    client.on('reconnect', () => {
+      metrics.broker_reconnects++;
+      backoff = Math.min(backoff * 2, RECONNECT_BACKOFF.max_ms);
+      client.options.reconnectPeriod = Math.round(backoff * (0.75 + Math.random() / 2));
+    });
+    client.on('close', () => {
+      metrics.connections_up = clients.filter((c) => c.connected).length;
+    });
+    client.on('error', (e) => log('mqtt_error', { client: options.clientId, error: e.message }));
+    // Taking over the acknowledgement: MQTT.js sends the PUBACK when `done` is called.
+    client.handleMessage = (packet, done) => {
+      if (stopping) return; // never acknowledged: the broker redelivers it to this session or the group
+      const payload = Buffer.isBuffer(packet.payload) ? packet.payload : Buffer.from(packet.payload);
+      const decoded = safeDecode(packet.topic, payload, {
+        known_vehicles: deps.known_vehicles,
+        now_ms: clock(),
+        max_payload_bytes: config.max_payload_bytes,
+      });
+      metrics.messages_received++;
+      metrics.samples_received += decoded.samples.length;
+      for (const r of decoded.rejects) metrics.reject(r.vehicle, r.reason);
+      pipeline.submit({ samples: decoded.samples, letters: decoded.rejects, ack: () => done() });
+    };
+    return new Promise<void>((resolve) => {
+      client.on('connect', () => {
+        backoff = RECONNECT_BACKOFF.min_ms;
+        client.options.reconnectPeriod = backoff;
+        metrics.connections_up = clients.filter((c) => c.connected).length;
+        client.subscribe(filter, { qos: 1 }, (err, granted) => {
+          const code = granted?.[0]?.qos;
+          if (err || code === undefined || code > 2) {
+            log('subscribe_refused', {
+              client: options.clientId,
+              filter,
+              error: err?.message ?? `reason code ${code}`,
+            });
+          } else resolve();
+        });
+      });
+    });
+  }
+
+  return {
+    metrics,
+    get metrics_port() {
+      return server ? serverPort(server) : undefined;
+    },
+    async start() {
+      if (config.metrics_port >= 0)
+        server = await startMetricsServer(metrics, config.metrics_port, config.metrics_host);
+      await Promise.all(Array.from({ length: config.mqtt.connections }, (_, i) => connectOne(i)));
+      log('ingester_started', { filter, connections: config.mqtt.connections, store: deps.store.kind });
+    },
+    async stop() {
+      stopping = true;
+      await pipeline.flush();
+      pipeline.close();
+      await Promise.all(clients.map(endClient));
+      if (server) await new Promise<void>((resolve) => server!.close(() => resolve()));
+      log('ingester_stopped', { acked: metrics.messages_acked, spool_segments: spool.segments });
+    },
+  };
+}

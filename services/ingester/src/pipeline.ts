@@ -1,0 +1,207 @@
+import type { Sample } from '@thermargin/shared';
+import type { DeadLetter, SampleStore } from '@thermargin/store';
+import type { IngestMetrics } from './metrics.ts';
+import type { Spool, SpoolBatch } from './spool.ts';
+
+/** One MQTT message's outcome, with the acknowledgement to send once it is durable. */
+export interface Delivery {
+  samples: Sample[];
+  letters: DeadLetter[];
+  ack: () => void;
+}
+
+export const PIPELINE_DEFAULTS = {
+  /** samples: a write starts as soon as this many are pending. */
+  batch_samples: 5000,
+  /** ms: the longest a delivery waits for others to share its write. */
+  linger_ms: 10,
+  /** store writes in flight at once (the connections not tied up in one fill the next). */
+  max_concurrent_writes: 2,
+  /** ms: first and longest wait between attempts to reach the store while it is down. */
+  retry_min_ms: 250,
+  retry_max_ms: 5000,
+};
+
+export type PipelineOptions = typeof PIPELINE_DEFAULTS;
+
+/**
+ * Deliveries → store, acknowledging each only once its samples and dead letters are stored or spooled.
+ * Writes are grouped: each MQTT connection has one delivery in flight (MQTT.js hands over the next
+ * message only after the previous acknowledgement), so a write starts when every connection not already
+ * in a write is waiting, when `batch_samples` are pending, or after `linger_ms`; up to
+ * `max_concurrent_writes` run at once (order does not matter: writes are idempotent). When the store fails, batches go to the disk
+ * spool (and are acknowledged); the spool is drained in order, with backoff, until the store takes them,
+ * and new batches join its tail meanwhile. A full spool leaves deliveries unacknowledged, so the broker
+ * holds the rest: memory stays bounded by the connections' in-flight windows.
+ */
+export class Pipeline {
+  private pending: Delivery[] = [];
+  private pendingSamples = 0;
+  private writes = 0;
+  /** deliveries inside writes in flight */
+  private inWrite = 0;
+  private draining = false;
+  private storeDown = false;
+  private timer: NodeJS.Timeout | undefined;
+  private closed = false;
+  private idle: (() => void)[] = [];
+
+  constructor(
+    private readonly store: SampleStore,
+    private readonly spool: Spool,
+    private readonly metrics: IngestMetrics,
+    private readonly options: PipelineOptions,
+    /** how many deliveries can be in flight at once (connections up) */
+    private readonly inFlightLimit: () => number,
+    private readonly log: (event: string, detail?: Record<string, unknown>) => void,
+  ) {
+    this.gauges();
+    if (spool.segments > 0) this.drain();
+  }
+
+  submit(d: Delivery): void {
+    this.pending.push(d);
+    this.pendingSamples += d.samples.length;
+    this.gauges();
+    this.schedule();
+  }
+
+  /** Writes what is pending and resolves when nothing is left in memory (the spool may still hold some). */
+  async flush(): Promise<void> {
+    if (this.writes === 0 && this.pending.length === 0) return;
+    await new Promise<void>((resolve) => {
+      this.idle.push(resolve);
+      this.schedule(true);
+    });
+  }
+
+  /** Stops draining and writing (pending deliveries stay unacknowledged: the broker redelivers them). */
+  close(): void {
+    this.closed = true;
+    clearTimeout(this.timer);
+  }
+
+  private schedule(now = false): void {
+    if (this.writes >= this.options.max_concurrent_writes || this.closed) return;
+    if (this.pending.length === 0) {
+      if (this.writes === 0) this.settle();
+      return;
+    }
+    // Every connection not tied up in a write is waiting: nothing more can arrive, so write now.
+    const waitingAll = this.pending.length >= Math.max(1, this.inFlightLimit() - this.inWrite);
+    const full = this.pendingSamples >= this.options.batch_samples || waitingAll;
+    if (now || full) {
+      clearTimeout(this.timer);
+      this.timer = undefined;
+      void this.write();
+    } else
+      this.timer ??= setTimeout(() => {
+        this.timer = undefined;
+        this.schedule(true);
+      }, this.options.linger_ms);
+  }
+
+  private settle(): void {
+    for (const resolve of this.idle.splice(0)) resolve();
+  }
+
+  private async write(): Promise<void> {
+    this.writes++;
+    const batch = this.pending.splice(0);
+    this.inWrite += batch.length;
+    this.pendingSamples = 0;
+    const samples = batch.length === 1 ? batch[0]!.samples : batch.flatMap((d) => d.samples);
+    const letters = batch.flatMap((d) => d.letters);
+    let durable = false;
+    try {
+      durable = await this.commit(samples, letters);
+    } catch (e) {
+      this.log('pipeline_error', { error: String(e) });
+    }
+    if (durable) {
+      for (const d of batch) d.ack();
+      this.metrics.messages_acked += batch.length;
+    } else {
+      // Spool full (or unwritable): keep them, unacknowledged, and try again after a pause.
+      this.pending.unshift(...batch);
+      this.pendingSamples += samples.length;
+      await sleep(this.options.retry_max_ms);
+    }
+    this.writes--;
+    this.inWrite -= batch.length;
+    this.gauges();
+    this.schedule(!durable);
+  }
+
+  /** True once durable (stored or spooled). */
+  private async commit(samples: Sample[], letters: DeadLetter[]): Promise<boolean> {
+    if (this.storeDown || this.spool.segments > 0) return this.toSpool({ samples, letters });
+    try {
+      await this.store.writeSamples(samples);
+      this.metrics.samples_stored += samples.length;
+    } catch (e) {
+      this.failed(e);
+      return this.toSpool({ samples, letters });
+    }
+    try {
+      await this.store.writeDeadLetters(letters);
+    } catch (e) {
+      this.failed(e);
+      return this.toSpool({ samples: [], letters });
+    }
+    return true;
+  }
+
+  private failed(e: unknown): void {
+    this.metrics.store_write_failures++;
+    if (!this.storeDown) this.log('store_down', { error: String(e) });
+    this.storeDown = true;
+    this.metrics.store_up = 0;
+  }
+
+  private toSpool(batch: SpoolBatch): boolean {
+    if (!this.spool.append(batch)) return false;
+    this.metrics.spooled_batches++;
+    this.gauges();
+    this.drain();
+    return true;
+  }
+
+  private async drain(): Promise<void> {
+    if (this.draining) return;
+    this.draining = true;
+    let delay = this.options.retry_min_ms;
+    while (!this.closed && this.spool.segments > 0) {
+      const batch = this.spool.peek()!;
+      try {
+        await this.store.writeSamples(batch.samples);
+        await this.store.writeDeadLetters(batch.letters);
+      } catch (e) {
+        this.failed(e);
+        await sleep(delay * (0.5 + Math.random() / 2));
+        delay = Math.min(delay * 2, this.options.retry_max_ms);
+        continue;
+      }
+      this.spool.shift();
+      this.metrics.samples_stored += batch.samples.length;
+      this.metrics.drained_batches++;
+      if (this.storeDown) this.log('store_up', { spool_segments: this.spool.segments });
+      this.storeDown = false;
+      this.metrics.store_up = 1;
+      delay = this.options.retry_min_ms;
+      this.gauges();
+    }
+    this.draining = false;
+  }
+
+  private gauges(): void {
+    this.metrics.pending_messages = this.pending.length;
+    this.metrics.pending_samples = this.pendingSamples;
+    this.metrics.spool_bytes = this.spool.bytes;
+    this.metrics.spool_segments = this.spool.segments;
+  }
+}
+
+function sleep(ms: number): Promise<void> {
+  return new Promise((resolve) => setTimeout(resolve, ms));
+}

@@ -1,0 +1,37 @@
+import { SIGNAL_NAMES, type Sample } from '@thermargin/shared';
+import { type DeadLetter, storedTime } from './store.ts';
+
+/**
+ * Line protocol for our two measurements, formatted by hand: ids are tag-safe by construction (ids.ts)
+ * and signals are finite numbers, so only free text needs escaping. The client's Point class does the
+ * same work several times slower (the ceilings doc puts formatting above JSON decoding per point).
+ *
+ *   samples,vehicle={id} speed_kmh=…,…,trip="{id}" {time ms}
+ *   dead_letters,reason={reason}[,vehicle={id}] detail="…",topic="…",excerpt="…",payload_bytes={n}i {time ns}
+ */
+export const SAMPLES_MEASUREMENT = 'samples';
+export const DEAD_LETTERS_MEASUREMENT = 'dead_letters';
+
+export function sampleLine(s: Sample): string {
+  let fields = '';
+  for (const name of SIGNAL_NAMES) {
+    const v = s[name];
+    if (v !== undefined) fields += `${fields ? ',' : ''}${name}=${v}`;
+  }
+  if (s.trip !== undefined) fields += `,trip="${s.trip}"`;
+  return `${SAMPLES_MEASUREMENT},vehicle=${s.vehicle} ${fields} ${storedTime(s.time_ms)}`;
+}
+
+/** A string field value: backslash and quote escaped (a line break inside quotes is kept as is). */
+export function fieldString(text: string): string {
+  return `"${text.replace(/[\\"]/g, (c) => `\\${c}`)}"`;
+}
+
+/** `time_ns` makes each letter its own point (several can arrive in one millisecond). */
+export function deadLetterLine(l: DeadLetter, time_ns: bigint): string {
+  const vehicleTag = l.vehicle ? `,vehicle=${l.vehicle}` : '';
+  const fields =
+    `detail=${fieldString(l.detail)},topic=${fieldString(l.topic)},excerpt=${fieldString(l.excerpt)},` +
+    `payload_bytes=${Math.round(l.payload_bytes)}i`;
+  return `${DEAD_LETTERS_MEASUREMENT},reason=${l.reason}${vehicleTag} ${fields} ${time_ns}`;
+}
