@@ -49,7 +49,7 @@ export const TREND_DEFAULTS = { trips: 10, deadband_pct: 1 } as const;
  * and their direction: the level now against the level `trips` valid trips earlier, beyond a deadband.
  */
 export function marginNow(
-  a: VehicleAssessment,
+  a: Pick<VehicleAssessment, 'series'>,
   o: typeof TREND_DEFAULTS = TREND_DEFAULTS,
 ): { margin_pct: number | null; limiting_ambient_c: number | null; trend: Trend | null } {
   const m = a.series.margin;

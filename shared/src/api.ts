@@ -207,7 +207,10 @@ export type VehicleResponse = z.infer<typeof vehicleResponseSchema>;
 const dateParam = z
   .string()
   .regex(/^\d{4}-\d{2}-\d{2}(T\d{2}:\d{2}(:\d{2}(\.\d{1,3})?)?Z)?$/, 'must be YYYY-MM-DD or ISO 8601 UTC')
-  .refine((s) => Number.isFinite(Date.parse(s.length === 10 ? `${s}T00:00:00Z` : s)), 'must be a real date');
+  .refine((s) => {
+    const ms = Date.parse(s.length === 10 ? `${s}T00:00:00Z` : s);
+    return Number.isFinite(ms) && new Date(ms).toISOString().slice(0, 10) === s.slice(0, 10);
+  }, 'must be a real date');
 
 export const tripsQuerySchema = z.strictObject({
   /** Trips starting at or after this time. */

@@ -1,3 +1,4 @@
+import { REANALYZE_USAGE, reanalyzeCommand } from '@thermargin/analyzer/reanalyze-command';
 import { InputError } from '@thermargin/shared';
 import { ANALYZE_USAGE, analyzeCommand } from './commands/analyze.ts';
 import { SIZING_USAGE, sizingCommand } from './commands/sizing.ts';
@@ -8,6 +9,7 @@ const COMMANDS: Record<
 > = {
   analyze: { usage: ANALYZE_USAGE, run: analyzeCommand },
   sizing: { usage: SIZING_USAGE, run: sizingCommand },
+  reanalyze: { usage: REANALYZE_USAGE, run: reanalyzeCommand },
 };
 
 const USAGE = `thermargin — per-trip heat load, in-service radiator k and cooling margin from fleet telemetry

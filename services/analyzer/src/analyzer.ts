@@ -1,0 +1,175 @@
+import type { MaintenanceEntry, Status, TripResult } from '@thermargin/shared';
+import type { SampleStore } from '@thermargin/store';
+import type { AnalysisStore } from '@thermargin/store/sqlite-analysis';
+import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
+import { type AnalysisState, catchUpVehicle } from './catch-up.ts';
+import { assessAndCommit } from './commit.ts';
+import { ANALYZER_DEFAULTS, type AnalyzerOptions } from './options.ts';
+
+export type Logger = (event: string, detail?: Record<string, unknown>) => void;
+
+export interface AnalyzerDeps {
+  samples: SampleStore;
+  results: AnalysisStore;
+  /** The fleet file's vehicles by id; called on every run, so a reload takes effect at the next one. */
+  fleet: () => ReadonlyMap<string, VehicleModel>;
+  /** Maintenance entries recorded beside the fleet file (the API's), per vehicle. */
+  extraMaintenance?: (vehicle: string) => MaintenanceEntry[];
+  /** ms since epoch; injected so tests control "no samples for 5 minutes". */
+  clock?: () => number;
+  log?: Logger;
+  /** Told of each trip analysed and each status change (the API's live events). */
+  onTrips?: (vehicle: string, trips: readonly TripResult[]) => void;
+  onStatus?: (vehicle: string, from: Status | null, to: Status) => void;
+}
+
+export interface AnalyzerStats {
+  running: boolean;
+  runs: number;
+  last_run_ms: number | null;
+  last_error: string | null;
+  trips_analysed: number;
+  samples_analysed: number;
+  backlog_vehicles: number;
+}
+
+export interface RunScope {
+  vehicle?: string;
+  /** Recompute from this time on (re-analysis); absent: continue from each watermark. */
+  since_ms?: number;
+}
+
+export interface Analyzer {
+  readonly stats: AnalyzerStats;
+  /** Polls every `poll_ms` until stopped. */
+  start(): void;
+  /** Runs soon (e.g. after an ingest), without waiting for the poll interval. */
+  poke(): void;
+  /** One pass over every vehicle with new samples; resolves when done (queued behind a running pass). */
+  runOnce(scope?: RunScope): Promise<void>;
+  /** Recomputes after a fleet-file or policy change; every vehicle unless one is given. */
+  reanalyze(scope?: RunScope): Promise<void>;
+  /** Re-assesses one vehicle from its stored trips (after a maintenance entry); no samples are read. */
+  reassess(vehicle: string): Promise<void>;
+  stop(): Promise<void>;
+}
+
+const FRESH: AnalysisState = { analysed_to_ms: 0, previous_end_ms: null, last_trip: null, rejected: {} };
+
+export function createAnalyzer(deps: AnalyzerDeps, options: Partial<AnalyzerOptions> = {}): Analyzer {
+  const o = { ...ANALYZER_DEFAULTS, ...options };
+  const clock = deps.clock ?? Date.now;
+  const log = deps.log ?? (() => {});
+  const extra = deps.extraMaintenance ?? (() => []);
+  const stats: AnalyzerStats = {
+    running: false,
+    runs: 0,
+    last_run_ms: null,
+    last_error: null,
+    trips_analysed: 0,
+    samples_analysed: 0,
+    backlog_vehicles: 0,
+  };
+  let chain: Promise<void> = Promise.resolve();
+  let timer: NodeJS.Timeout | undefined;
+  let stopped = false;
+
+  async function commit(model: VehicleModel, input: Parameters<typeof assessAndCommit>[3]) {
+    const out = await assessAndCommit(deps.results, model, extra(model.id), input, clock());
+    if (input.trips.length) deps.onTrips?.(model.id, input.trips);
+    if (out.status !== out.status_before) deps.onStatus?.(model.id, out.status_before, out.status);
+  }
+
+  async function pass(scope: RunScope): Promise<void> {
+    const fleet = deps.fleet();
+    const spans = await deps.samples.listVehicles();
+    let backlog = 0;
+    for (const span of spans) {
+      const model = fleet.get(span.vehicle);
+      if (!model || (scope.vehicle !== undefined && span.vehicle !== scope.vehicle)) continue;
+      const prev = deps.results.readAnalysis(span.vehicle);
+      const redo = scope.since_ms !== undefined;
+      let start: AnalysisState = prev ?? { ...FRESH, analysed_to_ms: span.first_ms };
+      let delete_from_ms: number | undefined;
+      if (redo) {
+        const since = Math.max(scope.since_ms!, span.first_ms);
+        const stored = (await deps.results.readTripResults(span.vehicle)).filter(
+          (t) => Date.parse(t.start) < since,
+        );
+        const inside = stored.find((t) => Date.parse(t.end) >= since);
+        delete_from_ms = inside ? Date.parse(inside.start) : since;
+        const before = stored.filter((t) => Date.parse(t.start) < delete_from_ms!).at(-1);
+        start = {
+          analysed_to_ms: delete_from_ms,
+          previous_end_ms: before ? Date.parse(before.end) : null,
+          last_trip: null,
+          rejected: since <= span.first_ms ? {} : { ...(prev?.rejected ?? {}) },
+        };
+      } else if (prev && prev.analysed_to_ms > span.last_ms) continue;
+      const got = await catchUpVehicle(deps.samples, model, span, start, clock(), o);
+      stats.samples_analysed += got.samples;
+      stats.trips_analysed += got.trips.length;
+      if (got.trips.length || redo) {
+        await commit(model, {
+          trips: got.trips,
+          state: got.state,
+          ...(delete_from_ms === undefined ? {} : { delete_from_ms }),
+        });
+      }
+      if (got.state.analysed_to_ms <= span.last_ms) backlog++;
+    }
+    stats.backlog_vehicles = backlog;
+  }
+
+  function enqueue(work: () => Promise<void>): Promise<void> {
+    const run = chain.then(async () => {
+      stats.running = true;
+      try {
+        await work();
+        stats.last_error = null;
+      } catch (e) {
+        stats.last_error = (e as Error).message;
+        log('analyzer_error', { error: (e as Error).message });
+        throw e;
+      } finally {
+        stats.running = false;
+        stats.runs++;
+        stats.last_run_ms = clock();
+      }
+    });
+    chain = run.catch(() => {});
+    return run;
+  }
+
+  const schedule = (ms: number) => {
+    if (stopped) return;
+    clearTimeout(timer);
+    timer = setTimeout(() => {
+      enqueue(() => pass({}))
+        .catch(() => {})
+        .finally(() => schedule(o.poll_ms));
+    }, ms);
+  };
+
+  return {
+    stats,
+    start: () => {
+      stopped = false;
+      schedule(0);
+    },
+    poke: () => schedule(0),
+    runOnce: (scope = {}) => enqueue(() => pass({ ...scope, since_ms: undefined })),
+    reanalyze: (scope = {}) =>
+      enqueue(() => pass({ ...scope, since_ms: scope.since_ms ?? Number.NEGATIVE_INFINITY })),
+    reassess: (vehicle) =>
+      enqueue(async () => {
+        const model = deps.fleet().get(vehicle);
+        if (model) await commit(model, { trips: [] });
+      }),
+    stop: async () => {
+      stopped = true;
+      clearTimeout(timer);
+      await chain;
+    },
+  };
+}

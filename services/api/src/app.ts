@@ -1,0 +1,138 @@
+import { API_ROLES, type ApiRole, idSchema } from '@thermargin/shared';
+import type { Actor } from '@thermargin/store/sqlite-workflow';
+import { getConnInfo } from '@hono/node-server/conninfo';
+import { type Context, Hono, type MiddlewareHandler } from 'hono';
+import { bodyLimit } from 'hono/body-limit';
+import { cors } from 'hono/cors';
+import { secureHeaders } from 'hono/secure-headers';
+import { z } from 'zod';
+import { ApiContext } from './context.ts';
+import { API_DEFAULTS, type ApiDeps } from './deps.ts';
+import { EventHub, eventRoutes } from './events.ts';
+import { errorBody, HttpError, parseInput } from './http-error.ts';
+import { openApiDocument } from './openapi.ts';
+import { RATE_LIMIT_DEFAULTS, RateLimiter } from './rate-limit.ts';
+import { readRoutes } from './routes-read.ts';
+import { traceRoutes } from './routes-trace.ts';
+import { writeRoutes } from './routes-write.ts';
+import type { Route } from './route.ts';
+import { serveDashboard } from './static.ts';
+
+const rank = (r: ApiRole) => API_ROLES.indexOf(r);
+const ANONYMOUS: Actor = { by: 'anonymous', role: 'viewer' };
+
+function clientIp(c: Context): string {
+  try {
+    return getConnInfo(c).remote.address ?? 'unknown';
+  } catch {
+    return 'unknown';
+  }
+}
+
+async function readJson(c: Context): Promise<unknown> {
+  const type = c.req.header('content-type') ?? '';
+  if (!/^application\/json\b/i.test(type))
+    throw new HttpError(415, 'unsupported_media_type', 'send the body as application/json');
+  const text = await c.req.text();
+  try {
+    return JSON.parse(text);
+  } catch (e) {
+    throw new HttpError(400, 'bad_request', `body is not valid JSON (${(e as Error).message})`, [
+      { where: 'body', rule: 'must be valid JSON' },
+    ]);
+  }
+}
+
+/** The API as a Hono app: every route of the route table, the OpenAPI document, and the dashboard. */
+export function createApi(deps: ApiDeps): Hono {
+  const x = new ApiContext(deps);
+  const hub = new EventHub(x, deps.events_poll_ms ?? API_DEFAULTS.events_poll_ms);
+  const routes: Route[] = [...readRoutes(x), ...traceRoutes(x), ...writeRoutes(x), ...eventRoutes(hub)];
+  const limiter = new RateLimiter({ ...RATE_LIMIT_DEFAULTS, ...deps.rate_limit }, x.clock);
+  const app = new Hono();
+
+  app.onError((e, c) => {
+    if (e instanceof HttpError) {
+      if (e.status === 401) c.header('www-authenticate', 'Bearer');
+      // The rest of an oversized body is never read: the connection cannot be reused.
+      if (e.status === 413) c.header('connection', 'close');
+      return c.json(errorBody(e), e.status);
+    }
+    deps.log?.('api_error', { path: c.req.path, error: (e as Error).stack ?? String(e) });
+    return c.json(errorBody(new HttpError(500, 'internal', 'internal error')), 500);
+  });
+  app.notFound((c) =>
+    c.json(errorBody(new HttpError(404, 'not_found', `no route ${c.req.method} ${c.req.path}`)), 404),
+  );
+  app.use(
+    '*',
+    secureHeaders({
+      contentSecurityPolicy: {
+        defaultSrc: ["'self'"],
+        imgSrc: ["'self'", 'data:'],
+        styleSrc: ["'self'", "'unsafe-inline'"],
+        frameAncestors: ["'none'"],
+      },
+    }),
+  );
+  if (deps.cors_origins?.length)
+    app.use(
+      '/api/*',
+      cors({ origin: [...deps.cors_origins], allowHeaders: ['authorization', 'content-type'], maxAge: 600 }),
+    );
+
+  // Who asks (a bad token is refused even on public routes), then the rate limit per token or IP.
+  app.use('/api/*', async (c, next) => {
+    const auth = c.req.header('authorization');
+    let actor: Actor | undefined;
+    if (auth !== undefined) {
+      const m = /^Bearer\s+(\S+)$/i.exec(auth);
+      const t = m ? deps.tokens.verify(m[1]!) : undefined;
+      if (!t) throw new HttpError(401, 'unauthorized', 'the bearer token is not valid');
+      actor = { by: t.name, role: t.role };
+    }
+    const wait = limiter.take(actor ? `token:${actor.by}` : `ip:${clientIp(c)}`);
+    if (wait > 0) {
+      c.header('retry-after', String(wait));
+      throw new HttpError(429, 'too_many_requests', `rate limit reached: retry in ${wait} s`);
+    }
+    c.set('actor' as never, actor as never);
+    await next();
+  });
+
+  const doc = openApiDocument(routes);
+  app.get('/api/openapi.json', (c) => c.json(doc));
+
+  for (const r of routes) {
+    const limit = r.max_body_bytes ?? deps.max_body_bytes ?? API_DEFAULTS.max_body_bytes;
+    const handlers: MiddlewareHandler[] = [];
+    if (r.body)
+      handlers.push(
+        bodyLimit({
+          maxSize: limit,
+          onError: () => {
+            throw new HttpError(413, 'too_large', `body over ${limit} bytes`);
+          },
+        }),
+      );
+    app.on([r.method.toUpperCase()], [r.path], ...handlers, async (c: Context) => {
+      const actor = c.get('actor' as never) as Actor | undefined;
+      if (r.role !== null) {
+        if (!actor) throw new HttpError(401, 'unauthorized', 'a bearer token is required');
+        if (rank(actor.role) < rank(r.role))
+          throw new HttpError(403, 'forbidden', `needs role ${r.role} (token ${actor.by} has ${actor.role})`);
+      }
+      const rawParams = c.req.param() as Record<string, string>;
+      const params = parseInput(z.record(z.string(), idSchema), rawParams, 'path');
+      const query = parseInput(r.query ?? z.strictObject({}), c.req.query(), 'query');
+      const body = r.body ? parseInput(r.body, await readJson(c), 'body') : undefined;
+      const out = await r.handle({ c, params, query, body, actor: actor ?? ANONYMOUS });
+      return out instanceof Response ? out : c.json(out as object);
+    });
+  }
+  app.all('/api/*', (c) =>
+    c.json(errorBody(new HttpError(404, 'not_found', `no route ${c.req.method} ${c.req.path}`)), 404),
+  );
+  if (deps.web_dist) serveDashboard(app, deps.web_dist);
+  return app;
+}

@@ -1,0 +1,110 @@
+import type {
+  AlertView,
+  HealthSeriesView,
+  MaintenanceView,
+  TripResult,
+  VehicleResult,
+  VehicleSummary,
+} from '@thermargin/shared';
+import type { VehicleAnalysis } from '@thermargin/store/sqlite-analysis';
+import type { AlertAction, RecordedMaintenance } from '@thermargin/store/sqlite-workflow';
+import type { VehicleAssessment } from '@thermargin/core/health/assess';
+import { tripIdFromTime } from '@thermargin/core/trip/split';
+import { marginNow } from '@thermargin/core/vehicle-result';
+import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
+
+/** What the analyzer stored beside the VehicleResult (see services/analyzer/src/commit.ts). */
+export type StoredAssessment = Pick<VehicleAssessment, 'series' | 'notes' | 'candidates'>;
+// Compile-time check that the contract's series schema matches what the core gives.
+const _seriesMatches = (s: VehicleAssessment['series']): HealthSeriesView => s;
+void _seriesMatches;
+
+/** One vehicle's stored results, as read once per version. */
+export interface VehicleData {
+  version: number;
+  result: VehicleResult;
+  analysis: VehicleAnalysis;
+  assessment: StoredAssessment;
+  /** Trips newest first. */
+  newest_first: TripResult[];
+}
+
+/** Alert ids: the alert's time in compact form and its status; a repeat at the same time gets `-2`, `-3`. */
+export function alertViews(
+  vehicle: string,
+  r: VehicleResult | undefined,
+  actions: readonly AlertAction[],
+): AlertView[] {
+  const seen = new Map<string, number>();
+  return (r?.alerts ?? []).map((a) => {
+    const base = `${tripIdFromTime(Date.parse(a.time))}-${a.status}`;
+    const k = (seen.get(base) ?? 0) + 1;
+    seen.set(base, k);
+    const id = k === 1 ? base : `${base}-${k}`;
+    let acknowledged: AlertView['acknowledged'] = null;
+    let closed: AlertView['closed'] = null;
+    for (const x of actions) {
+      if (x.alert !== id) continue;
+      const stamp = { by: x.by, at: new Date(x.at_ms).toISOString(), note: x.note };
+      if (x.action === 'acknowledge') acknowledged = stamp;
+      else closed = stamp;
+    }
+    const state = closed ? 'closed' : acknowledged ? 'acknowledged' : 'open';
+    return { id, vehicle, ...a, state, acknowledged, closed };
+  });
+}
+
+export const isOpenAlert = (a: AlertView) => a.status !== 'ok' && a.state !== 'closed';
+
+/** The fleet file's log (fleet-1…) and the entries added through the API (api-<n>), by date. */
+export function maintenanceViews(
+  model: VehicleModel,
+  added: readonly RecordedMaintenance[],
+): MaintenanceView[] {
+  const fleet = model.maintenance.map((m, i) => ({
+    id: `fleet-${i + 1}`,
+    source: 'fleet' as const,
+    date: m.date,
+    action: m.action,
+    note: m.note ?? null,
+    by: m.by ?? null,
+    recorded_at: null,
+  }));
+  const api = added.map((m) => ({
+    id: `api-${m.id}`,
+    source: 'api' as const,
+    date: m.entry.date,
+    action: m.entry.action,
+    note: m.entry.note ?? null,
+    by: m.entry.by ?? null,
+    recorded_at: new Date(m.recorded_ms).toISOString(),
+  }));
+  return [...fleet, ...api].sort((a, b) => a.date.localeCompare(b.date));
+}
+
+export function vehicleSummary(
+  model: VehicleModel,
+  data: VehicleData | undefined,
+  last_seen_ms: number | undefined,
+  open_alerts: number,
+): VehicleSummary {
+  const r = data?.result;
+  const now = data ? marginNow(data.assessment) : null;
+  return {
+    id: model.id,
+    type: model.type,
+    powertrain: model.powertrain,
+    status: r?.status ?? null,
+    cause: r?.cause ?? null,
+    health: r?.health ?? { ram: null, fan: null },
+    margin_pct: now?.margin_pct ?? null,
+    limiting_ambient_c: now?.limiting_ambient_c ?? null,
+    margin_basis: data?.assessment.series.margin.basis ?? null,
+    projected_inspect_date: r?.projected_inspect_date ?? null,
+    last_seen: last_seen_ms === undefined ? null : new Date(last_seen_ms).toISOString(),
+    last_trip_end: data?.newest_first[0]?.end ?? null,
+    trend: now?.trend ?? null,
+    trips: r?.trips.length ?? 0,
+    open_alerts,
+  };
+}

@@ -1,0 +1,188 @@
+import { join } from 'node:path';
+import { createSqliteStore, type SqliteStore } from '@thermargin/store';
+import { createScenario } from '@thermargin/simulator';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { tempDir } from '../ingester/support.ts';
+import { type ApiStack, startApiStack, TOKENS } from './stack.ts';
+
+const scenario = createScenario({ vehicles: 1, days: 2, seed: 7 });
+const ID = scenario.fleet.vehicles[0]!.id;
+const dir = tempDir('api-security');
+let samples: SqliteStore;
+let stack: ApiStack;
+let alertId = '';
+
+beforeAll(async () => {
+  samples = createSqliteStore({ path: join(dir, 'samples.db'), synchronous: 'normal' });
+  await samples.writeSamples([...scenario.vehicleSamples(ID)]);
+  stack = await startApiStack(dir, scenario.fleet, samples, () => scenario.history.to_ms + 3_600_000);
+  await stack.analyzer.runOnce();
+  const v = (await (await stack.get(`/api/vehicles/${ID}`)).json()) as { alerts: { id: string }[] };
+  alertId = v.alerts[0]?.id ?? 'none';
+}, 60_000);
+afterAll(async () => {
+  await stack?.close();
+  await samples?.close();
+});
+
+/** Every write route, the least role it needs, and a valid body. */
+const WRITES = () =>
+  [
+    {
+      method: 'POST',
+      path: `/api/vehicles/${ID}/alerts/${alertId}/acknowledge`,
+      role: 'engineer',
+      body: { note: 'seen' },
+    },
+    {
+      method: 'POST',
+      path: `/api/vehicles/${ID}/alerts/${alertId}/close`,
+      role: 'engineer',
+      body: { note: 'done' },
+    },
+    {
+      method: 'POST',
+      path: `/api/vehicles/${ID}/maintenance`,
+      role: 'engineer',
+      body: { date: '2026-07-30', action: 'fan_repaired' },
+    },
+    { method: 'POST', path: '/api/fleet/reload', role: 'admin', body: {} },
+    { method: 'PUT', path: '/api/fleet', role: 'admin', body: scenario.fleet },
+    { method: 'POST', path: '/api/tokens', role: 'admin', body: { name: 'new-one', role: 'viewer' } },
+    { method: 'DELETE', path: '/api/tokens/new-one', role: 'admin', body: {} },
+  ] as const;
+
+const auditCount = async () =>
+  ((await (await stack.get('/api/audit?limit=1000', 'admin')).json()) as { entries: unknown[] }).entries
+    .length;
+
+describe('API security', () => {
+  it('every write route: 401 without a token, 401 with a wrong one, 403 with too low a role; nothing changes', async () => {
+    const before = await auditCount();
+    for (const w of WRITES()) {
+      expect((await stack.send(w.method, w.path, w.body)).status, `${w.method} ${w.path}`).toBe(401);
+      const bad = await fetch(`${stack.url}${w.path}`, {
+        method: w.method,
+        headers: { authorization: 'Bearer not-a-token', 'content-type': 'application/json' },
+        body: JSON.stringify(w.body),
+      });
+      expect(bad.status).toBe(401);
+      const lower = w.role === 'admin' ? (['viewer', 'engineer'] as const) : (['viewer'] as const);
+      for (const role of lower) {
+        const r = await stack.send(w.method, w.path, w.body, role);
+        expect(r.status, `${w.method} ${w.path} as ${role}`).toBe(403);
+        expect(((await r.json()) as { error: { code: string } }).error.code).toBe('forbidden');
+      }
+    }
+    expect(await auditCount()).toBe(before);
+  });
+
+  it('every write route works with its role and is audited with who', async () => {
+    for (const w of WRITES()) {
+      if (alertId === 'none' && w.path.includes('/alerts/')) continue;
+      const r = await stack.send(w.method, w.path, w.body, w.role);
+      expect(r.status, `${w.method} ${w.path}: ${await r.clone().text()}`).toBe(200);
+    }
+    const audit = (await (await stack.get('/api/audit', 'admin')).json()) as {
+      entries: { action: string; by: string }[];
+    };
+    expect(audit.entries.map((e) => e.action)).toEqual(
+      expect.arrayContaining([
+        'maintenance.add',
+        'fleet.reload',
+        'fleet.replace',
+        'token.add',
+        'token.remove',
+      ]),
+    );
+    expect(audit.entries.find((e) => e.action === 'token.add')!.by).toBe('admin-user');
+  });
+
+  it('reads need a viewer token; health and the OpenAPI document do not', async () => {
+    expect((await stack.get('/api/fleet', null)).status).toBe(401);
+    expect((await stack.get('/api/health', null)).status).toBe(200);
+    expect((await stack.get('/api/openapi.json', null)).status).toBe(200);
+  });
+
+  it('bad requests: malformed JSON, wrong types, unknown fields, huge bodies → 4xx naming the field; nothing stored', async () => {
+    const before = await auditCount();
+    const path = `/api/vehicles/${ID}/maintenance`;
+    const malformed = await stack.send('POST', path, '{"date": "2026-07-30", ', 'engineer', true);
+    expect(malformed.status).toBe(400);
+    const wrong = await stack.send('POST', path, { date: 20260730, action: 'polished' }, 'engineer');
+    expect(wrong.status).toBe(400);
+    const problems = ((await wrong.json()) as { error: { problems: { where: string; rule: string }[] } })
+      .error.problems;
+    expect(problems.map((p) => p.where)).toEqual(expect.arrayContaining(['body: date', 'body: action']));
+    expect(
+      (
+        await stack.send(
+          'POST',
+          path,
+          { date: '2026-07-30', action: 'fan_repaired', by: 'someone else' },
+          'engineer',
+        )
+      ).status,
+    ).toBe(400);
+    const huge = await stack.send(
+      'POST',
+      path,
+      { date: '2026-07-30', action: 'fan_repaired', note: 'x'.repeat(200_000) },
+      'engineer',
+    );
+    expect(huge.status).toBe(413);
+    const text = await fetch(`${stack.url}${path}`, {
+      method: 'POST',
+      headers: { authorization: `Bearer ${TOKENS.engineer}`, 'content-type': 'text/plain' },
+      body: 'date=2026-07-30',
+    });
+    expect(text.status).toBe(415);
+    expect((await stack.get(`/api/vehicles/${ID}/trips?limit=-1`)).status).toBe(400);
+    expect((await stack.get(`/api/vehicles/${ID}/trips?sort=1`)).status).toBe(400);
+    expect((await stack.get(`/api/vehicles/${ID}/trips?from=2026-02-30`)).status).toBe(400);
+    expect(await auditCount()).toBe(before);
+  });
+
+  it('injection-shaped ids are refused with 400 or 404, never reach a query, and change nothing', async () => {
+    const before = await auditCount();
+    for (const bad of ["x' OR '1'='1", '"; DROP TABLE trip_results; --', '../../etc/passwd', '..', 'a b']) {
+      const e = encodeURIComponent(bad);
+      for (const r of [
+        await stack.get(`/api/vehicles/${e}`),
+        await stack.get(`/api/vehicles/${e}/trips`),
+        await stack.get(`/api/vehicles/${ID}/trips/${e}`),
+        await stack.send(
+          'POST',
+          `/api/vehicles/${e}/maintenance`,
+          { date: '2026-07-30', action: 'fan_repaired' },
+          'engineer',
+        ),
+      ]) {
+        expect([400, 404], bad).toContain(r.status);
+        const body = (await r.json()) as { error: { code: string; message: string } };
+        expect(body.error.message).not.toMatch(/at .*\.ts:\d+/); // no stack trace
+      }
+    }
+    expect(await auditCount()).toBe(before);
+    expect((await stack.get('/api/fleet')).status).toBe(200);
+  });
+
+  it('unknown routes are JSON 404s; security headers set; CORS closed by default', async () => {
+    const r = await stack.get('/api/nothing-here');
+    expect(r.status).toBe(404);
+    expect(((await r.json()) as { error: { code: string } }).error.code).toBe('not_found');
+    const h = await fetch(`${stack.url}/api/health`, { headers: { origin: 'http://elsewhere.example' } });
+    expect(h.headers.get('access-control-allow-origin')).toBeNull();
+    expect(h.headers.get('x-content-type-options')).toBe('nosniff');
+    expect(h.headers.get('content-security-policy')).toMatch(/default-src 'self'/);
+  });
+
+  it('a fleet file that is not valid is refused with its field, and the old one stays', async () => {
+    const broken = { vehicles: [{ ...scenario.fleet.vehicles[0]!, radiator_area_m2: -1 }] };
+    const r = await stack.send('PUT', '/api/fleet', broken, 'admin');
+    expect(r.status).toBe(400);
+    const problems = ((await r.json()) as { error: { problems: { where: string }[] } }).error.problems;
+    expect(problems[0]!.where).toMatch(/vehicles\[0\]\.radiator_area_m2/);
+    expect((await stack.get(`/api/vehicles/${ID}`)).status).toBe(200);
+  });
+});
