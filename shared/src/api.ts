@@ -76,6 +76,8 @@ export const vehicleSummarySchema = z.object({
   margin_pct: num,
   /** °C: limiting ambient temperature at the current margin level. */
   limiting_ambient_c: num,
+  /** °C: the route's hottest expected ambient the limiting ambient is judged against; null when not set. */
+  route_max_ambient_c: num,
   margin_basis: z.enum(['ram', 'fan']).nullable(),
   projected_inspect_date: iso.nullable(),
   /** Newest sample received. */

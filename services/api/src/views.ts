@@ -99,6 +99,7 @@ export function vehicleSummary(
     health: r?.health ?? { ram: null, fan: null },
     margin_pct: now?.margin_pct ?? null,
     limiting_ambient_c: now?.limiting_ambient_c ?? null,
+    route_max_ambient_c: model.route_max_ambient_c,
     margin_basis: data?.assessment.series.margin.basis ?? null,
     projected_inspect_date: r?.projected_inspect_date ?? null,
     last_seen: last_seen_ms === undefined ? null : new Date(last_seen_ms).toISOString(),

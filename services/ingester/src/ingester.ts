@@ -81,6 +81,11 @@ export function createIngester(config: IngesterConfig, deps: IngesterDeps): Inge
     log,
   );
   const filter = config.mqtt.share_group ? sharedSampleFilter(config.mqtt.share_group) : SAMPLE_TOPIC_FILTER;
+  // A plain subscription hands every message to every connection: only a shared one can spread the load.
+  if (!config.mqtt.share_group && config.mqtt.connections > 1)
+    throw new Error(
+      `ingester: ${config.mqtt.connections} connections need a shared subscription (INGEST_SHARE_GROUP); without one use INGEST_CONNECTIONS=1`,
+    );
   const clients: MqttClient[] = [];
   let stopping = false;
   let server: Server | undefined;

@@ -95,6 +95,7 @@ describe('faults: 0 samples lost, 0 duplicates stored', () => {
     const config = readIngesterConfig({
       ...env('broker-restart', influxEnv('broker_restart')),
       [ENV.SHARE_GROUP]: '',
+      [ENV.CONNECTIONS]: '1',
     });
     const ingester = createIngester({ ...config, metrics_port: -1 }, { store, known_vehicles: new Set(IDS) });
     await ingester.start();

@@ -1,0 +1,145 @@
+import { mkdirSync, writeFileSync, existsSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { startEmbeddedBroker, type EmbeddedBroker } from '@thermargin/broker';
+import { createIngester, readIngesterConfig } from '@thermargin/ingester';
+import { startApi } from '@thermargin/api/start';
+import { openSampleStore } from '@thermargin/store';
+import { createScenario, publishScenario } from '@thermargin/simulator';
+import { type Sample, SAFETY_CAUTION } from '@thermargin/shared';
+import { brokerUsers, INGESTER_USER, loadDemoState } from './demo-state.ts';
+import { historyFeed, liveFeed } from './feed.ts';
+import { readStackConfig } from './stack-config.ts';
+import { ensureWebBuilt } from './web-build.ts';
+
+const ROOT = resolve(import.meta.dirname, '../../..');
+const log = (line: string) => process.stderr.write(`${line}\n`);
+/** Service logs are JSON lines; only warnings and errors reach the console. */
+const serviceLog = (event: string, detail?: Record<string, unknown>) => {
+  if (/error|fail|reject|spool|retry/i.test(event)) log(`  ${event} ${JSON.stringify(detail ?? {})}`);
+};
+
+/**
+ * `npm start`: the whole stack in one process tree — embedded MQTT broker (unless INGEST_MQTT_URL points
+ * elsewhere), the sample store (SQLite under the data folder unless STORE_* says otherwise), the ingester,
+ * the analyzer and the API with the dashboard, and the simulated demo fleet: its history back-filled at
+ * full speed, then driving live. Ctrl-C stops everything; a second start resumes on the same data.
+ */
+async function main(): Promise<void> {
+  const cfg = readStackConfig();
+  const data = resolve(cfg.data_dir);
+  mkdirSync(data, { recursive: true });
+  const state = loadDemoState(data, {
+    seed: cfg.seed,
+    vehicles: cfg.vehicles,
+    days: cfg.days,
+    history_end_ms: Date.now(),
+  });
+  const scenario = createScenario({
+    seed: state.seed,
+    vehicles: state.vehicles,
+    days: state.days,
+    end_ms: state.history_end_ms,
+  });
+  const fleetFile = cfg.env.FLEET_FILE || join(data, 'fleet.json');
+  if (!cfg.env.FLEET_FILE && !existsSync(fleetFile))
+    writeFileSync(fleetFile, `${JSON.stringify(scenario.fleet, null, 1)}\n`);
+  const users = brokerUsers(
+    data,
+    state,
+    scenario.fleet.vehicles.map((v) => v.id),
+  );
+
+  let broker: EmbeddedBroker | undefined;
+  if (!cfg.env.INGEST_MQTT_URL)
+    broker = await startEmbeddedBroker({ users, port: cfg.broker_port, host: '127.0.0.1' });
+  const env: Record<string, string | undefined> = {
+    STORE_KIND: 'sqlite',
+    STORE_SQLITE_PATH: join(data, 'samples.db'),
+    RESULTS_SQLITE_PATH: join(data, 'results.db'),
+    FLEET_FILE: fleetFile,
+    INGEST_FLEET_FILE: fleetFile,
+    INGEST_SPOOL_DIR: join(data, 'spool'),
+    INGEST_METRICS_PORT: '0',
+    API_TOKENS: `demo:admin:${state.api_token}`,
+    API_WEB_DIST: join(ROOT, 'web/dist'),
+    ...(broker
+      ? {
+          INGEST_MQTT_URL: broker.url,
+          INGEST_MQTT_USERNAME: INGESTER_USER,
+          INGEST_MQTT_PASSWORD: state.ingester_password,
+          INGEST_MQTT_PROTOCOL: '4',
+          INGEST_SHARE_GROUP: '',
+          INGEST_CONNECTIONS: '1',
+          INGEST_MQTT_CLIENT_ID: 'thermargin-ingester',
+        }
+      : {}),
+    ...cfg.env,
+  };
+
+  ensureWebBuilt(ROOT, log);
+  const ingestCfg = readIngesterConfig(env);
+  const store = openSampleStore(ingestCfg.store);
+  const known = new Set(scenario.fleet.vehicles.map((v) => v.id));
+  const ingester = createIngester(ingestCfg, { store, known_vehicles: known, log: serviceLog });
+  await ingester.start();
+  const api = await startApi({ env, log: serviceLog });
+
+  const stop = new AbortController();
+  let feeding: Promise<void> = Promise.resolve();
+  let stopping: Promise<void> | undefined;
+  const shutdown = () =>
+    (stopping ??= (async () => {
+      log('\nstopping …');
+      stop.abort();
+      await feeding.catch(() => {});
+      await ingester.stop();
+      await api.close();
+      await store.close();
+      await broker?.close();
+      log('stopped; data kept in ' + data);
+    })());
+  process.once('SIGINT', shutdown);
+  process.once('SIGTERM', shutdown);
+
+  const stored = new Map((await store.listVehicles()).map((s) => [s.vehicle, s.last_ms]));
+  const t0 = Date.now();
+  /** Announces once the ingester has taken every history sample (stored or rejected), so the figure is honest. */
+  const announce = async (history_samples: number) => {
+    const m = ingester.metrics;
+    while (m.samples_received + m.rejected_total < history_samples && !stop.signal.aborted)
+      await new Promise((r) => setTimeout(r, 500));
+    const samples = (await store.listVehicles()).reduce((n, v) => n + v.count, 0);
+    log(
+      `\nhistory back-filled in ${((Date.now() - t0) / 1000).toFixed(0)} s (${samples.toLocaleString('en-US')} samples stored); the fleet drives on live.`,
+    );
+    api.analyzer?.poke();
+    log(`\ndashboard:  ${api.url}/\nAPI token:  ${state.api_token}   (role admin; sign in with it)\n`);
+    log(
+      `ingest metrics: http://127.0.0.1:${ingester.metrics_port}/metrics\n\n${SAFETY_CAUTION}\n\nCtrl-C stops.`,
+    );
+  };
+  const publish = (samples: AsyncIterable<Sample>) =>
+    publishScenario(null, scenario, {
+      samples,
+      url: broker?.url ?? env.INGEST_MQTT_URL,
+      credentials: (vehicle) => ({ username: vehicle, password: state.vehicle_passwords[vehicle]! }),
+    });
+  const simulate = async () => {
+    const cut_ms = Date.now();
+    let n = 0;
+    await publish(historyFeed(scenario, stored, cut_ms, stop.signal, (count) => (n = count)));
+    await announce(n);
+    await publish(liveFeed(scenario, cut_ms, { speedup: cfg.speedup, now: Date.now, stop: stop.signal }));
+  };
+  feeding = cfg.simulate ? simulate() : announce(0);
+  if (cfg.run_for_s > 0) setTimeout(shutdown, cfg.run_for_s * 1000).unref();
+  await feeding.catch((e) => {
+    if (!stop.signal.aborted) throw e;
+  });
+  await (stopping ?? new Promise(() => {}));
+}
+
+main().catch((e) => {
+  log(`thermargin start: ${(e as Error).message}`);
+  process.exit(1);
+});

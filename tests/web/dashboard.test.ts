@@ -1,0 +1,255 @@
+import type { FleetResponse, RejectedResponse, TraceResponse, VehicleResponse } from '@thermargin/shared/api';
+import { SAFETY_CAUTION } from '@thermargin/shared/safety';
+import type { Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { num, STATUS_WORD } from '../../web/src/format.ts';
+import { TRACE_POINTS } from '../../web/src/state/route.ts';
+import { inspectionQueue } from '../../web/src/state/queue.ts';
+import { startWebStack, TOKENS, type WebStack } from '../support/web-stack.ts';
+import { type Browser, launchBrowser, screenshot, signedIn } from './browser.ts';
+
+/** Held back until the live test: its first samples turn it from unassessed to assessed while a page watches. */
+const LATE = 'van-02';
+const VEHICLE = 'bus-02';
+
+let stack: WebStack;
+let browser: Browser;
+
+type Role = keyof typeof TOKENS;
+const api = async <T>(path: string, role: Role = 'viewer'): Promise<T> => {
+  const res = await fetch(`${stack.url}${path}`, { headers: { authorization: `Bearer ${TOKENS[role]}` } });
+  expect(res.status, path).toBe(200);
+  return (await res.json()) as T;
+};
+/** The text as rendered (what a reader sees), not the DOM's text content. */
+const text = (page: Page, selector: string) =>
+  // biome-ignore lint/performance/useDomNodeTextContent: the visible text is what is checked
+  page.locator(selector).first().innerText();
+const chartData = (page: Page, id: string) =>
+  page.evaluate((id) => window.__thermargin?.charts[id]?.data.map((c) => Array.from(c)) ?? null, id);
+
+beforeAll(async () => {
+  stack = await startWebStack({
+    vehicles: 6,
+    days: 10,
+    hold_back: [LATE],
+    dead_letters: [
+      { vehicle: 'bus-03', reason: 'range', detail: 'coolant_in_c must be within -40…150' },
+      { vehicle: 'bus-03', reason: 'range', detail: 'coolant_in_c must be within -40…150' },
+      { vehicle: '', reason: 'json', detail: 'not parseable JSON' },
+    ],
+  });
+  browser = await launchBrowser();
+}, 120_000);
+afterAll(async () => {
+  await browser?.close();
+  await stack?.close();
+});
+
+describe('dashboard in a real browser against the running API', () => {
+  it('refuses a wrong token at sign-in and says so', async () => {
+    const page = await browser.context.newPage();
+    await page.goto(`${stack.url}/#/fleet`);
+    await page.getByLabel('API token').fill('not-a-valid-token-0000');
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    expect(await text(page, '[role="alert"]')).toContain('not valid');
+    await screenshot(page, '0-sign-in');
+    await page.close();
+  });
+
+  it('fleet board shows every vehicle with the status, margin and LAT the API serves', async () => {
+    const fleet = await api<FleetResponse>('/api/fleet');
+    const page = await signedIn(browser.context, stack.url, TOKENS.viewer);
+    await page.locator('tr[data-vehicle]').first().waitFor();
+    expect(await page.locator('tr[data-vehicle]').count()).toBe(fleet.vehicles.length);
+    for (const v of fleet.vehicles) {
+      const row = `tr[data-vehicle="${v.id}"]`;
+      expect(await text(page, `${row} [data-col="status"]`)).toBe(STATUS_WORD[v.status ?? 'none']);
+      expect(await text(page, `${row} [data-col="margin"]`)).toBe(num(v.margin_pct, '%'));
+      expect(await text(page, `${row} [data-col="lat"]`)).toContain(num(v.limiting_ambient_c, '°C'));
+    }
+    expect(await text(page, '[data-count="inspect"] strong')).toBe(String(fleet.counts.inspect));
+    expect(await text(page, '[data-count="none"] strong')).toBe(String(fleet.counts.unassessed));
+    const bins = JSON.parse(
+      (await page.locator('[data-chart="fleet-margin"]').getAttribute('data-bins')) ?? '[]',
+    );
+    const assessed = fleet.vehicles.filter((v) => v.margin_pct !== null).length;
+    expect(bins.reduce((n: number, b: { count: number }) => n + b.count, 0)).toBe(assessed);
+    // Default order: most urgent first.
+    expect(await page.locator('tr[data-vehicle]').first().getAttribute('data-vehicle')).toBe(
+      inspectionQueue(fleet.vehicles)[0]?.id,
+    );
+    await screenshot(page, '1-fleet-board');
+    // Search narrows the table; the status filter too.
+    await page.getByLabel('Search').fill('truck');
+    expect(await page.locator('tr[data-vehicle]').count()).toBe(
+      fleet.vehicles.filter((v) => v.id.includes('truck')).length,
+    );
+    await page.getByLabel('Search').fill('');
+    await page.getByLabel('Status', { exact: true }).selectOption('inspect');
+    expect(await page.locator('tr[data-vehicle]').count()).toBe(fleet.counts.inspect);
+    // Keyboard: a focused row opens its vehicle with Enter.
+    await page.locator('tr[data-vehicle]').first().focus();
+    await page.keyboard.press('Enter');
+    await page.waitForFunction(() => location.hash.startsWith('#/vehicle/'));
+    await page.close();
+  });
+
+  it('vehicle file charts the health and margin series the API serves, with evidence and alerts', async () => {
+    const v = await api<VehicleResponse>(`/api/vehicles/${VEHICLE}`);
+    const page = await signedIn(browser.context, stack.url, TOKENS.viewer, `#/vehicle/${VEHICLE}`);
+    await page.locator('[data-chart="vehicle-margin"] canvas').waitFor();
+    expect(await text(page, '[data-fig="margin"]')).toBe(num(v.summary.margin_pct, '%'));
+    expect(await text(page, '[data-fig="evidence"]')).toBe(v.cause_evidence);
+    const health = await chartData(page, 'vehicle-health');
+    const s = v.series!;
+    expect(health![0]).toEqual(s.time_ms);
+    s.ram.health.forEach((h, i) => {
+      if (h === null) expect(health![1]![i]).toBeNull();
+      else expect(health![1]![i]).toBeCloseTo(h * 100, 9);
+    });
+    const margin = await chartData(page, 'vehicle-margin');
+    const shown = new Map(margin![0]!.map((t, i) => [t, margin![1]![i]]));
+    s.time_ms.forEach((t, i) => {
+      expect(shown.get(t)).toBe(s.margin.pct[i]);
+    });
+    expect(await page.locator('[data-alert]').count()).toBe(v.alerts.length);
+    expect(await page.locator('tr[data-trip]').count()).toBe(Math.min(20, v.trips_total));
+    // A viewer sees no write buttons.
+    expect(await page.getByRole('button', { name: /Acknowledge|Close…|Log maintenance/ }).count()).toBe(0);
+    await screenshot(page, '2-vehicle-file');
+    await page.close();
+  });
+
+  it('trip trace shows the trace columns on linked charts, zoom applied to all', async () => {
+    const v = await api<VehicleResponse>(`/api/vehicles/${VEHICLE}`);
+    const trip = v.trips[0]!.trip;
+    const trace = await api<TraceResponse>(`/api/vehicles/${VEHICLE}/trips/${trip}?points=${TRACE_POINTS}`);
+    const col = (name: TraceResponse['columns'][number]) => trace.data[trace.columns.indexOf(name)]!;
+    const page = await signedIn(browser.context, stack.url, TOKENS.viewer, `#/trip/${VEHICLE}/${trip}`);
+    await page.locator('[data-chart="trip-bands"] canvas').waitFor();
+    const speed = await chartData(page, 'trip-speed-power');
+    expect(speed![0]).toEqual(col('time_ms'));
+    expect(speed![1]).toEqual(col('speed_kmh'));
+    expect(speed![2]).toEqual(col('power_kw'));
+    const heat = await chartData(page, 'trip-heat');
+    expect(heat![2]).toEqual(col('heat_rejected_kw'));
+    const k = await chartData(page, 'trip-k');
+    expect(k![1]).toEqual(col('k_w_m2k'));
+    const bands = await chartData(page, 'trip-bands');
+    expect(bands![2]!.filter((x) => x !== null).length).toBe(
+      col('counted_fan').filter((x) => x === 1).length,
+    );
+    expect(await text(page, '[data-fig="distance"]')).toBe(num(trace.trip.distance_km, 'km'));
+    const t = col('time_ms').filter((x): x is number => x !== null);
+    const mid = { min: t[Math.floor(t.length / 4)]!, max: t[Math.floor(t.length / 2)]! };
+    await page.evaluate((mid) => window.__thermargin!.charts['trip-fan']!.setScale('x', mid), mid);
+    // uPlot commits scale changes in a microtask: read them a frame later.
+    const scales = await page.evaluate(async () => {
+      await new Promise(requestAnimationFrame);
+      return Object.entries(window.__thermargin!.charts)
+        .filter(([id]) => id.startsWith('trip-'))
+        .map(([, u]) => [u.scales.x!.min, u.scales.x!.max]);
+    }, mid);
+    expect(scales.length).toBe(6);
+    for (const s of scales) expect(s).toEqual([mid.min, mid.max]);
+    await page.getByRole('button', { name: 'Reset zoom' }).click();
+    await screenshot(page, '3-trip-trace');
+    await page.close();
+  });
+
+  it('workshop queue orders by urgency with the caution beside every recommendation; work order prints', async () => {
+    const fleet = await api<FleetResponse>('/api/fleet');
+    const queue = inspectionQueue(fleet.vehicles).map((v) => v.id);
+    expect(queue.length).toBeGreaterThan(0);
+    const page = await signedIn(browser.context, stack.url, TOKENS.engineer, '#/queue');
+    await page.locator('[data-queue]').first().waitFor();
+    expect(
+      await page.locator('[data-queue]').evaluateAll((els) => els.map((e) => e.getAttribute('data-queue'))),
+    ).toEqual(queue);
+    const caution = SAFETY_CAUTION.replace(/\n/g, ' ');
+    for (const id of queue) {
+      expect(await text(page, `[data-queue="${id}"] .recommendation`)).toMatch(/^Recommended:/);
+      expect(await text(page, `[data-queue="${id}"] .caution`)).toBe(caution);
+    }
+    await page.locator('[data-queue] [data-alert]').first().waitFor();
+    expect(await page.getByRole('button', { name: 'Log maintenance…' }).count()).toBe(queue.length);
+    await screenshot(page, '4-workshop-queue');
+    await page.goto(`${stack.url}/#/work-order/${queue[0]}`);
+    await page.getByRole('button', { name: 'Print' }).waitFor();
+    await page.emulateMedia({ media: 'print' });
+    expect(await page.locator('header.top').isVisible()).toBe(false);
+    expect(await text(page, '.caution')).toBe(caution);
+    await screenshot(page, '5-work-order-print');
+    await page.close();
+  });
+
+  it('intake check shows refused data per vehicle and reason', async () => {
+    const r = await api<RejectedResponse>('/api/rejected');
+    const page = await signedIn(browser.context, stack.url, TOKENS.viewer, '#/intake');
+    await page.locator('[data-table="rejected"]').waitFor();
+    for (const v of r.vehicles) {
+      const row = `tr[data-vehicle="${v.vehicle || '(unreadable)'}"]`;
+      expect(await text(page, `${row} [data-col="total"]`)).toBe(String(v.total));
+      for (const [reason, n] of Object.entries(v.ingest))
+        expect(await text(page, `${row} [data-reason="${reason}"]`)).toBe(String(n));
+    }
+    expect(await text(page, 'tr[data-vehicle="bus-03"] [data-reason="range"]')).toBe('2');
+    await page.locator('[data-fig="samples"]').waitFor();
+    await screenshot(page, '6-intake-check');
+    await page.close();
+  });
+
+  it('a status change appears live through the event stream, without a reload', async () => {
+    const page = await signedIn(browser.context, stack.url, TOKENS.viewer);
+    const status = `tr[data-vehicle="${LATE}"] [data-col="status"]`;
+    expect(await text(page, status)).toBe(STATUS_WORD.none);
+    await page.locator('[data-live="live"]').waitFor();
+    await stack.release(LATE);
+    await expect
+      .poll(() => text(page, status), { timeout: 45_000, interval: 250 })
+      .not.toBe(STATUS_WORD.none);
+    const after = await api<FleetResponse>('/api/fleet');
+    const late = after.vehicles.find((v) => v.id === LATE)!;
+    expect(await text(page, status)).toBe(STATUS_WORD[late.status ?? 'none']);
+    expect(await text(page, `[data-change="${LATE}"]`)).toContain(
+      `${STATUS_WORD.none} → ${STATUS_WORD[late.status!]}`,
+    );
+    await screenshot(page, '7-fleet-live-change');
+    await page.close();
+  }, 60_000);
+
+  it('an engineer acknowledges an alert and it stays acknowledged after a reload', async () => {
+    const page = await signedIn(browser.context, stack.url, TOKENS.engineer, `#/vehicle/${VEHICLE}`);
+    const alert = page.locator('[data-alert][data-state="open"]').first();
+    const id = await alert.getAttribute('data-alert');
+    await alert.getByRole('button', { name: 'Acknowledge…' }).click();
+    await alert.getByLabel(/Note/).fill('radiator inspection booked for tomorrow');
+    await alert.getByRole('button', { name: 'Acknowledge', exact: true }).click();
+    const same = page.locator(`[data-alert="${id}"]`);
+    await expect.poll(() => same.getAttribute('data-state')).toBe('acknowledged');
+    await page.reload();
+    await page.locator(`[data-alert="${id}"]`).waitFor();
+    expect(await page.locator(`[data-alert="${id}"]`).getAttribute('data-state')).toBe('acknowledged');
+    expect(await text(page, `[data-alert="${id}"]`)).toContain('radiator inspection booked for tomorrow');
+    const v = await api<VehicleResponse>(`/api/vehicles/${VEHICLE}`);
+    const stored = v.alerts.find((a) => a.id === id)!;
+    expect(stored.state).toBe('acknowledged');
+    expect(stored.acknowledged?.by).toBe('engineer-user');
+    await page.close();
+  });
+
+  it('a viewer has no write buttons, and the API refuses the write', async () => {
+    const page = await signedIn(browser.context, stack.url, TOKENS.viewer, '#/queue');
+    await page.locator('[data-queue] [data-alert]').first().waitFor();
+    expect(await page.getByRole('button', { name: /Acknowledge|Close…|Log maintenance/ }).count()).toBe(0);
+    const v = await api<VehicleResponse>(`/api/vehicles/${VEHICLE}`);
+    const res = await fetch(`${stack.url}/api/vehicles/${VEHICLE}/alerts/${v.alerts[0]!.id}/acknowledge`, {
+      method: 'POST',
+      headers: { authorization: `Bearer ${TOKENS.viewer}`, 'content-type': 'application/json' },
+      body: JSON.stringify({ note: 'a viewer tries' }),
+    });
+    expect(res.status).toBe(403);
+    await page.close();
+  });
+});

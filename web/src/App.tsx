@@ -1,0 +1,55 @@
+import { useState } from 'preact/hooks';
+import { Shell } from './components/Shell.tsx';
+import { FleetBoard } from './screens/FleetBoard.tsx';
+import { IntakeCheck } from './screens/IntakeCheck.tsx';
+import { SignIn } from './screens/SignIn.tsx';
+import { TripTrace } from './screens/TripTrace.tsx';
+import { VehicleFile } from './screens/VehicleFile.tsx';
+import { WorkOrder } from './screens/WorkOrder.tsx';
+import { WorkshopQueue } from './screens/WorkshopQueue.tsx';
+import { LiveContext, useLiveStream } from './state/live.ts';
+import { href, type Route, useRoute } from './state/route.ts';
+import { forgetToken, type Session } from './state/session.ts';
+
+function Screen({ route, session }: { route: Route; session: Session }) {
+  switch (route.screen) {
+    case 'fleet':
+      return <FleetBoard session={session} />;
+    case 'vehicle':
+      return <VehicleFile session={session} id={route.id} />;
+    case 'trip':
+      return <TripTrace session={session} id={route.id} trip={route.trip} points={route.points} />;
+    case 'queue':
+      return <WorkshopQueue session={session} />;
+    case 'work-order':
+      return <WorkOrder session={session} id={route.id} />;
+    case 'intake':
+      return <IntakeCheck session={session} />;
+    default:
+      return (
+        <div class="state state-empty">
+          No screen at <code>{route.hash}</code>. <a href={href.fleet()}>Go to the fleet board</a>.
+        </div>
+      );
+  }
+}
+
+export function App({ initial }: { initial: Session | null }) {
+  const [session, setSession] = useState(initial);
+  const [notice, setNotice] = useState<string | undefined>(undefined);
+  const route = useRoute();
+  const live = useLiveStream(session?.token ?? null);
+  if (!session) return <SignIn onSession={setSession} notice={notice} />;
+  const signOut = () => {
+    forgetToken();
+    setNotice('Signed out.');
+    setSession(null);
+  };
+  return (
+    <LiveContext.Provider value={live}>
+      <Shell session={session} route={route} onSignOut={signOut}>
+        <Screen route={route} session={session} />
+      </Shell>
+    </LiveContext.Provider>
+  );
+}

@@ -1,0 +1,106 @@
+import { useEffect, useRef } from 'preact/hooks';
+import uPlot from 'uplot';
+import 'uplot/dist/uPlot.min.css';
+import type { ZoomLink } from './link.ts';
+import { INK } from './palette.ts';
+
+/** Test and benchmark handle: every mounted chart by id (its uPlot instance holds `data` and `series`). */
+declare global {
+  interface Window {
+    __thermargin?: { charts: Record<string, uPlot> };
+  }
+}
+
+export interface ChartProps {
+  /** Stable id: `data-chart` attribute and window.__thermargin.charts key. */
+  id: string;
+  title: string;
+  /** Said by screen readers in place of the canvas. */
+  summary: string;
+  data: uPlot.AlignedData;
+  series: uPlot.Series[];
+  axes: uPlot.Axis[];
+  scales?: uPlot.Scales;
+  plugins?: uPlot.Plugin[];
+  height?: number;
+  link?: ZoomLink;
+}
+
+const axisStyle = { stroke: INK.axis, grid: { stroke: INK.grid, width: 1 }, ticks: { stroke: INK.grid } };
+
+/** x is epoch ms shown in UTC. */
+const utc = (ms: number) => uPlot.tzDate(new Date(ms), 'Etc/UTC');
+
+const DAY_MS = 86_400_000;
+const pad2 = (n: number) => String(n).padStart(2, '0');
+
+/** Tick labels in 24 h UTC: dates for spans of days, clock times within a day. */
+function timeTicks(u: uPlot, splits: number[]): string[] {
+  const x = u.scales.x!;
+  const span = (x.max ?? 0) - (x.min ?? 0);
+  return splits.map((ms) => {
+    const d = new Date(ms);
+    const date = `${pad2(d.getUTCMonth() + 1)}-${pad2(d.getUTCDate())}`;
+    const time = `${pad2(d.getUTCHours())}:${pad2(d.getUTCMinutes())}`;
+    return span > 3 * DAY_MS ? date : span > DAY_MS / 2 ? `${date} ${time}` : time;
+  });
+}
+
+export const timeAxis = (label = 'time (UTC)'): uPlot.Axis => ({
+  ...axisStyle,
+  label,
+  labelSize: 20,
+  values: timeTicks,
+});
+export const valueAxis = (label: string, o: Partial<uPlot.Axis> = {}): uPlot.Axis => ({
+  ...axisStyle,
+  label,
+  labelSize: 20,
+  size: 56,
+  ...o,
+});
+
+/** A uPlot chart that fills its container's width; recreated when its inputs change. */
+export function Chart(p: ChartProps) {
+  const host = useRef<HTMLDivElement>(null);
+  useEffect(() => {
+    const el = host.current;
+    if (!el) return;
+    const opts: uPlot.Options = {
+      width: Math.max(320, el.clientWidth),
+      height: p.height ?? 220,
+      ms: 1,
+      tzDate: utc,
+      series: [{ label: 'time (UTC)', value: '{YYYY}-{MM}-{DD} {HH}:{mm}:{ss}' }, ...p.series],
+      axes: p.axes,
+      scales: { x: { time: true }, ...p.scales },
+      plugins: p.plugins ?? [],
+      legend: { live: true },
+      cursor: p.link
+        ? { sync: { key: p.link.key, setSeries: false }, drag: { x: true, y: false } }
+        : { drag: { x: true, y: false } },
+      hooks: p.link ? { setScale: [p.link.onScale] } : {},
+    };
+    const u = new uPlot(opts, p.data, el);
+    const unlink = p.link?.add(u);
+    window.__thermargin ??= { charts: {} };
+    window.__thermargin.charts[p.id] = u;
+    const resize = new ResizeObserver(() => {
+      const w = Math.max(320, el.clientWidth);
+      if (Math.abs(w - u.width) > 1) u.setSize({ width: w, height: u.height });
+    });
+    resize.observe(el);
+    return () => {
+      resize.disconnect();
+      unlink?.();
+      if (window.__thermargin?.charts[p.id] === u) delete window.__thermargin.charts[p.id];
+      u.destroy();
+    };
+  }, [p.data, p.series, p.axes, p.scales, p.plugins, p.link, p.id, p.height]);
+  return (
+    <figure class="chart" data-chart={p.id} data-points={p.data[0].length}>
+      <figcaption>{p.title}</figcaption>
+      <div ref={host} role="img" aria-label={`${p.title}: ${p.summary}`} />
+    </figure>
+  );
+}

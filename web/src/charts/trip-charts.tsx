@@ -1,0 +1,130 @@
+import type { TraceColumn, TraceResponse } from '@thermargin/shared/api';
+import { useMemo } from 'preact/hooks';
+import type uPlot from 'uplot';
+import { num } from '../format.ts';
+import { Chart, timeAxis, valueAxis } from './Chart.tsx';
+import type { ZoomLink } from './link.ts';
+import { overlays, runs } from './overlays.ts';
+import { DASH, INK, SHADE } from './palette.ts';
+
+type Col = (number | null)[];
+
+/** The trace's columns by name (the API names its columns; their order is not assumed). */
+export function traceColumns(t: TraceResponse): Record<TraceColumn, Col> {
+  const out = {} as Record<TraceColumn, Col>;
+  t.columns.forEach((name, j) => {
+    out[name] = t.data[j] ?? [];
+  });
+  return out;
+}
+
+const s = (label: string, stroke: string, unit: string, o: Partial<uPlot.Series> = {}): uPlot.Series => ({
+  label,
+  stroke,
+  width: 1.5,
+  points: { show: false },
+  value: (_u, v) => num(v, unit),
+  ...o,
+});
+
+/** A lane drawn as a thick bar where the flag is 1: which samples counted for a band. */
+const lane = (flag: Col, at: number): Col => flag.map((f) => (f === 1 ? at : null));
+
+/** The trip's synchronised charts; derate intervals shaded on each. */
+export function TripCharts({ trace, link }: { trace: TraceResponse; link: ZoomLink }) {
+  const charts = useMemo(() => {
+    const c = traceColumns(trace);
+    const x = c.time_ms as number[];
+    const derate = overlays({
+      spans: runs(x, c.derate).map(([from, to]) => ({ from, to, color: SHADE.derate })),
+    });
+    const plugins = [derate];
+    const t = timeAxis();
+    return [
+      {
+        id: 'trip-speed-power',
+        title: 'Speed (km/h) and power (kW)',
+        data: [x, c.speed_kmh, c.power_kw],
+        series: [
+          s('speed', INK.blue, 'km/h'),
+          s('power', INK.orange, 'kW', { scale: 'kW', dash: DASH.long }),
+        ],
+        axes: [
+          t,
+          valueAxis('speed (km/h)'),
+          valueAxis('power (kW)', { scale: 'kW', side: 1, grid: { show: false } }),
+        ],
+      },
+      {
+        id: 'trip-temperatures',
+        title: 'Coolant in / out and ambient (°C)',
+        data: [x, c.coolant_in_c, c.coolant_out_c, c.ambient_c],
+        series: [
+          s('coolant in', INK.red, '°C'),
+          s('coolant out', INK.blue, '°C', { dash: DASH.long }),
+          s('ambient', INK.slate, '°C', { dash: DASH.dotted }),
+        ],
+        axes: [t, valueAxis('temperature (°C)')],
+      },
+      {
+        id: 'trip-fan',
+        title: 'Fan duty (%)',
+        data: [x, c.fan_pct],
+        series: [s('fan duty', INK.teal, '%', { fill: 'rgba(15, 123, 108, 0.12)' })],
+        axes: [t, valueAxis('fan duty (%)')],
+        scales: { y: { range: [0, 100] as uPlot.Range.MinMax } },
+        height: 150,
+      },
+      {
+        id: 'trip-heat',
+        title: 'Heat generated vs heat rejected (kW)',
+        data: [x, c.heat_generated_kw, c.heat_rejected_kw],
+        series: [
+          s('heat generated', INK.orange, 'kW'),
+          s('heat rejected', INK.violet, 'kW', { dash: DASH.long, width: 2 }),
+        ],
+        axes: [t, valueAxis('heat (kW)')],
+      },
+      {
+        id: 'trip-k',
+        title: 'k of the valid window each sample belongs to (W/m²·K)',
+        data: [x, c.k_w_m2k],
+        series: [s('k', INK.blue, 'W/m²·K', { width: 2 })],
+        axes: [t, valueAxis('k (W/m²·K)', { size: 64 })],
+        height: 170,
+      },
+      {
+        id: 'trip-bands',
+        title: 'Samples that counted for the ram and fan bands',
+        data: [x, lane(c.counted_ram, 2), lane(c.counted_fan, 1)],
+        series: [
+          s('counted for ram band', INK.blue, '', {
+            width: 10,
+            value: (_u, v) => (v === null ? 'no' : 'yes'),
+          }),
+          s('counted for fan band', INK.orange, '', {
+            width: 10,
+            value: (_u, v) => (v === null ? 'no' : 'yes'),
+          }),
+        ],
+        axes: [
+          t,
+          valueAxis('band', {
+            splits: () => [1, 2],
+            values: (_u, v) => v.map((y) => (y === 2 ? 'ram' : y === 1 ? 'fan' : '')),
+          }),
+        ],
+        scales: { y: { range: [0.4, 2.6] as uPlot.Range.MinMax } },
+        height: 150,
+      },
+    ].map((ch) => ({ ...ch, data: ch.data as uPlot.AlignedData, plugins }));
+  }, [trace]);
+  const n = trace.points;
+  return (
+    <div class="charts">
+      {charts.map((ch) => (
+        <Chart key={ch.id} {...ch} link={link} summary={`${n} points of ${trace.samples} samples`} />
+      ))}
+    </div>
+  );
+}

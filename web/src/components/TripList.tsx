@@ -1,0 +1,96 @@
+import type { TripResult } from '@thermargin/shared/results';
+import { useState } from 'preact/hooks';
+import { duration, num, when } from '../format.ts';
+import { useResource } from '../state/resource.ts';
+import { href } from '../state/route.ts';
+import type { Session } from '../state/session.ts';
+import { Pager } from './Pager.tsx';
+import { rowLink } from './rowKeys.ts';
+import { Loaded } from './States.tsx';
+import { StatusMark } from './StatusMark.tsx';
+
+const PAGE = 20;
+
+function Rows({ vehicle, trips }: { vehicle: string; trips: readonly TripResult[] }) {
+  return (
+    <div class="table-wrap">
+      <table class="grid">
+        <thead>
+          <tr>
+            <th scope="col">Trip start</th>
+            <th scope="col" class="num">
+              Duration
+            </th>
+            <th scope="col" class="num">
+              Distance
+            </th>
+            <th scope="col" class="num">
+              Heat mean / p95
+            </th>
+            <th scope="col" class="num">
+              k ram / fan (W/m²·K)
+            </th>
+            <th scope="col" class="num">
+              Margin
+            </th>
+            <th scope="col" class="num">
+              Derate
+            </th>
+            <th scope="col">Status</th>
+          </tr>
+        </thead>
+        <tbody>
+          {trips.map((t) => (
+            <tr
+              key={t.trip}
+              data-trip={t.trip}
+              {...rowLink(href.trip(vehicle, t.trip), `Open trip ${t.trip}`)}
+            >
+              <td>{when(t.start)}</td>
+              <td class="num">{duration((Date.parse(t.end) - Date.parse(t.start)) / 1000)}</td>
+              <td class="num">{num(t.distance_km, 'km')}</td>
+              <td class="num">
+                {num(t.heat_kw_mean, 'kW')} / {num(t.heat_kw_p95, 'kW')}
+              </td>
+              <td class="num" title={[t.k_ram_reason, t.k_fan_reason].filter(Boolean).join('; ')}>
+                {num(t.k_ram_w_m2k, '', 0)} / {num(t.k_fan_w_m2k, '', 0)}
+              </td>
+              <td class="num">{num(t.margin_pct, '%')}</td>
+              <td class="num">{t.derate_s > 0 ? duration(t.derate_s) : 'none'}</td>
+              <td>{t.status ? <StatusMark status={t.status} /> : '—'}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}
+
+/** A vehicle's trips, newest first: the first page from the vehicle answer, further pages from the trips route. */
+export function TripList({
+  session,
+  vehicle,
+  first,
+  total,
+}: {
+  session: Session;
+  vehicle: string;
+  first: readonly TripResult[];
+  total: number;
+}) {
+  const [page, setPage] = useState(0);
+  const pages = Math.max(1, Math.ceil(total / PAGE));
+  const res = useResource(
+    async () =>
+      page === 0 ? first.slice(0, PAGE) : (await session.api.trips(vehicle, page * PAGE, PAGE)).trips,
+    [page, vehicle, first],
+  );
+  return (
+    <>
+      <Loaded res={res} what="trips">
+        {(trips) => <Rows vehicle={vehicle} trips={trips} />}
+      </Loaded>
+      <Pager page={page} pages={pages} total={total} what="trips" onPage={setPage} />
+    </>
+  );
+}

@@ -1,0 +1,74 @@
+import type { Trend } from '@thermargin/shared/api';
+import type { Cause, Status } from '@thermargin/shared/results';
+
+/** Words for the contract's codes: a status always reads as a word, never as a colour alone. */
+export const STATUS_WORD: Record<Status | 'none', string> = {
+  ok: 'OK',
+  watch: 'Watch',
+  inspect: 'Inspect',
+  none: 'Unassessed',
+};
+export const CAUSE_WORD: Record<Cause, string> = {
+  none: 'no fault found',
+  fouling: 'radiator fouling',
+  fan: 'fan fault',
+  coolant_flow: 'low coolant flow',
+  sensor: 'sensor fault',
+};
+export const TREND_WORD: Record<Trend, string> = { falling: 'falling', steady: 'steady', rising: 'rising' };
+export const ACTION_WORD = {
+  radiator_cleaned: 'radiator cleaned',
+  fan_repaired: 'fan repaired',
+  coolant_serviced: 'coolant serviced',
+  sensor_replaced: 'sensor replaced',
+} as const;
+
+/** Urgency rank: inspect first, unassessed last. */
+export const STATUS_RANK: Record<Status | 'none', number> = { inspect: 0, watch: 1, ok: 2, none: 3 };
+
+const DASH = '—';
+
+/** A number with its unit ("−4.5 %", "38.0 °C"); a dash for a missing value. */
+export function num(v: number | null | undefined, unit: string, digits = 1): string {
+  if (v === null || v === undefined || !Number.isFinite(v)) return DASH;
+  const text = v.toFixed(digits).replace('-', '−');
+  return unit ? `${text} ${unit}` : text;
+}
+
+/** "2026-07-27 10:34 UTC" (the API's times are UTC; the depot reads one clock). */
+export function when(iso: string | null | undefined, withTime = true): string {
+  if (!iso) return DASH;
+  const ms = Date.parse(iso);
+  if (!Number.isFinite(ms)) return DASH;
+  const s = new Date(ms).toISOString();
+  return withTime ? `${s.slice(0, 10)} ${s.slice(11, 16)} UTC` : s.slice(0, 10);
+}
+
+/** "3 h ago" relative to the server's `now`. */
+export function ago(iso: string | null | undefined, now_ms: number): string {
+  if (!iso) return 'never';
+  const s = Math.max(0, (now_ms - Date.parse(iso)) / 1000);
+  if (s < 90) return `${Math.round(s)} s ago`;
+  if (s < 5400) return `${Math.round(s / 60)} min ago`;
+  if (s < 172_800) return `${Math.round(s / 3600)} h ago`;
+  return `${Math.round(s / 86_400)} d ago`;
+}
+
+/** h:mm:ss of a duration in seconds. */
+export function duration(s: number): string {
+  const t = Math.round(s);
+  const h = Math.floor(t / 3600);
+  const m = Math.floor((t % 3600) / 60);
+  return `${h}:${String(m).padStart(2, '0')}:${String(t % 60).padStart(2, '0')}`;
+}
+
+/** What to look at first for each cause (common practice), shown beside the safety caution. */
+export const RECOMMENDATION: Record<Cause, string> = {
+  fouling:
+    'Inspect the radiator core on the air side and clean it; look for debris, bent fins and blocked grilles.',
+  fan: 'Check the fan: its drive or motor, wiring and fuses, and that the commanded duty reaches the fan.',
+  coolant_flow:
+    'Check the coolant level, the pump and the thermostat; look for air in the loop and kinked hoses.',
+  sensor: 'Check the coolant and ambient temperature sensors and their wiring before any cooling work.',
+  none: 'Review the recent trips; no single cause stands out. Inspect the cooling package as a whole.',
+};

@@ -1,0 +1,149 @@
+import type { RejectedResponse, StatusResponse } from '@thermargin/shared/api';
+import { Empty, Loaded } from '../components/States.tsx';
+import { ago, num, when } from '../format.ts';
+import { useLive } from '../state/live.ts';
+import { useResource } from '../state/resource.ts';
+import { href } from '../state/route.ts';
+import type { Session } from '../state/session.ts';
+
+/** The refusal reasons present in the answer, ingest first: the table's columns. */
+function reasons(r: RejectedResponse): { source: 'ingest' | 'cleaning'; reason: string }[] {
+  const pick = (source: 'ingest' | 'cleaning') =>
+    [...new Set(r.vehicles.flatMap((v) => Object.keys(v[source])))]
+      .sort()
+      .map((reason) => ({ source, reason }));
+  return [...pick('ingest'), ...pick('cleaning')];
+}
+
+function Rejected({ r }: { r: RejectedResponse }) {
+  if (!r.vehicles.length) return <Empty>No data was refused: every message and sample passed.</Empty>;
+  const cols = reasons(r);
+  const rows = [...r.vehicles].sort((a, b) => b.total - a.total || a.vehicle.localeCompare(b.vehicle));
+  return (
+    <div class="table-wrap">
+      <table class="grid" data-table="rejected">
+        <thead>
+          <tr>
+            <th scope="col">Vehicle</th>
+            {cols.map((c) => (
+              <th key={`${c.source}:${c.reason}`} scope="col" class="num">
+                <span class="small muted">
+                  {c.source === 'ingest' ? 'refused at intake' : 'removed in cleaning'}
+                </span>
+                <br />
+                {c.reason}
+              </th>
+            ))}
+            <th scope="col" class="num">
+              Total (messages / samples)
+            </th>
+          </tr>
+        </thead>
+        <tbody>
+          {rows.map((v) => (
+            <tr key={v.vehicle} data-vehicle={v.vehicle || '(unreadable)'}>
+              <th scope="row">
+                {v.vehicle ? <a href={href.vehicle(v.vehicle)}>{v.vehicle}</a> : <em>vehicle unreadable</em>}
+              </th>
+              {cols.map((c) => {
+                const n = v[c.source][c.reason] ?? 0;
+                return (
+                  <td
+                    key={`${c.source}:${c.reason}`}
+                    class={`num${n ? ' bad' : ' muted'}`}
+                    data-reason={c.reason}
+                  >
+                    {n || '·'}
+                  </td>
+                );
+              })}
+              <td class="num" data-col="total">
+                <strong>{v.total}</strong>
+              </td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <p class="small muted">
+        Total refused: {r.total}. A vehicle with many refusals of one reason usually has a misconfigured
+        logger.
+      </p>
+    </div>
+  );
+}
+
+function Health({ s }: { s: StatusResponse }) {
+  const now = Date.parse(s.time);
+  const stale = s.analyzer.watermarks.filter((w) => w.analysed_to === null);
+  return (
+    <dl class="figures">
+      <div>
+        <dt>Sample store</dt>
+        <dd data-fig="store">
+          {s.store.kind} · {s.store.up ? 'up' : `down: ${s.store.error ?? 'no answer'}`}
+        </dd>
+      </div>
+      <div>
+        <dt>Samples stored</dt>
+        <dd data-fig="samples">
+          {s.ingest.samples.toLocaleString('en')} from {s.ingest.vehicles} vehicles
+        </dd>
+      </div>
+      <div>
+        <dt>Newest sample</dt>
+        <dd>
+          {when(s.ingest.last_sample)} ({num(s.ingest.lag_s === null ? null : s.ingest.lag_s / 60, 'min', 0)}{' '}
+          behind)
+        </dd>
+      </div>
+      <div>
+        <dt>Messages refused at intake</dt>
+        <dd data-fig="dead-letters">{s.ingest.dead_letters}</dd>
+      </div>
+      <div>
+        <dt>Analyzer</dt>
+        <dd>
+          {s.analyzer.running ? 'running' : 'stopped'} · last run {ago(s.analyzer.last_run, now)}
+          {s.analyzer.last_error && <div class="bad small">{s.analyzer.last_error}</div>}
+        </dd>
+      </div>
+      <div>
+        <dt>Analysed</dt>
+        <dd>
+          {s.analyzer.trips_analysed} trips · {s.analyzer.samples_analysed.toLocaleString('en')} samples ·
+          backlog {s.analyzer.backlog_vehicles} vehicles
+        </dd>
+      </div>
+      {stale.length > 0 && (
+        <div>
+          <dt>Never analysed</dt>
+          <dd>{stale.map((w) => w.vehicle).join(', ')}</dd>
+        </div>
+      )}
+    </dl>
+  );
+}
+
+/** Intake check: data refused per vehicle and reason, and the health of intake and analysis. */
+export function IntakeCheck({ session }: { session: Session }) {
+  const live = useLive();
+  const rejected = useResource(() => session.api.rejected(), [session, live.version]);
+  const status = useResource(() => session.api.status(), [session, live.version]);
+  return (
+    <div class="screen" data-screen="intake">
+      <h1>Intake check</h1>
+      <section aria-labelledby="refused">
+        <h2 id="refused">Refused data per vehicle and reason</h2>
+        <Loaded res={rejected} what="refused data">
+          {(r) => <Rejected r={r} />}
+        </Loaded>
+      </section>
+      <section aria-labelledby="pipeline">
+        <h2 id="pipeline">Intake and analysis</h2>
+        <Loaded res={status} what="the pipeline status">
+          {(s) => <Health s={s} />}
+        </Loaded>
+      </section>
+    </div>
+  );
+}

@@ -1,0 +1,54 @@
+import { useEffect, useState } from 'preact/hooks';
+
+/** Screens by deep link: `#/fleet`, `#/vehicle/<id>`, `#/trip/<id>/<trip>`, `#/queue`, `#/work-order/<id>`, `#/intake`. */
+export type Route =
+  | { screen: 'fleet' }
+  | { screen: 'vehicle'; id: string }
+  | { screen: 'trip'; id: string; trip: string; points: number }
+  | { screen: 'queue' }
+  | { screen: 'work-order'; id: string }
+  | { screen: 'intake' }
+  | { screen: 'unknown'; hash: string };
+
+/** points per signal asked of the API by default; `?points=` in the link overrides (10…20 000). */
+export const TRACE_POINTS = 4000;
+
+export function parseRoute(hash: string): Route {
+  const [path = '', query = ''] = hash.replace(/^#/, '').split('?');
+  const parts = path.split('/').filter(Boolean).map(decodeURIComponent);
+  const [head, a, b] = parts;
+  if (!head || head === 'fleet') return { screen: 'fleet' };
+  if (head === 'vehicle' && a && parts.length === 2) return { screen: 'vehicle', id: a };
+  if (head === 'trip' && a && b && parts.length === 3) {
+    const asked = Number(new URLSearchParams(query).get('points'));
+    const points = Number.isInteger(asked) && asked >= 10 ? Math.min(asked, 20_000) : TRACE_POINTS;
+    return { screen: 'trip', id: a, trip: b, points };
+  }
+  if (head === 'queue' && !a) return { screen: 'queue' };
+  if (head === 'work-order' && a) return { screen: 'work-order', id: a };
+  if (head === 'intake' && !a) return { screen: 'intake' };
+  return { screen: 'unknown', hash };
+}
+
+export const href = {
+  fleet: () => '#/fleet',
+  vehicle: (id: string) => `#/vehicle/${encodeURIComponent(id)}`,
+  trip: (id: string, trip: string) => `#/trip/${encodeURIComponent(id)}/${encodeURIComponent(trip)}`,
+  queue: () => '#/queue',
+  workOrder: (id: string) => `#/work-order/${encodeURIComponent(id)}`,
+  intake: () => '#/intake',
+};
+
+export const go = (to: string): void => {
+  location.hash = to;
+};
+
+export function useRoute(): Route {
+  const [route, setRoute] = useState(() => parseRoute(location.hash));
+  useEffect(() => {
+    const on = () => setRoute(parseRoute(location.hash));
+    addEventListener('hashchange', on);
+    return () => removeEventListener('hashchange', on);
+  }, []);
+  return route;
+}
