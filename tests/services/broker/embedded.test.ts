@@ -47,6 +47,7 @@ describe('embedded broker (aedes, MQTT 3.1.1) with the same auth and ACL', () =>
       }),
       [ENV.MQTT_PROTOCOL]: '4',
       [ENV.SHARE_GROUP]: '',
+      [ENV.CONNECTIONS]: '1',
     });
     const ingester = createIngester({ ...config, metrics_port: -1 }, { store, known_vehicles: new Set(IDS) });
     await ingester.start();
