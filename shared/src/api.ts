@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { NUMERIC_COLUMNS } from './columns.ts';
 import { MAINTENANCE_ACTIONS, maintenanceEntrySchema, vehicleConfigSchema } from './fleet.ts';
 import { idSchema } from './ids.ts';
 import { CAUSES, STATUSES, tripResultSchema } from './results.ts';
@@ -236,15 +237,8 @@ export type TripsResponse = z.infer<typeof tripsResponseSchema>;
 
 // ---- GET /api/vehicles/{id}/trips/{trip}?points=N (viewer): signals downsampled for charts
 export const TRACE_COLUMNS = [
-  'time_ms',
-  'speed_kmh',
-  'power_kw',
-  'coolant_in_c',
-  'coolant_out_c',
-  'ambient_c',
-  'fan_pct',
-  'coolant_flow_lpm',
-  'derate',
+  /** The sample's own signals. */
+  ...NUMERIC_COLUMNS,
   /** kW: heat generated into the coolant (drivetrain/heat.ts). */
   'heat_generated_kw',
   /** kW: heat rejected by the radiator, Q = k·A·ITD at the sample's air flow; null outside valid windows. */

@@ -1,4 +1,5 @@
 import { type AnalyzerConfig, readAnalyzerConfig } from '@thermargin/analyzer/config';
+import { type Env, envReader } from '@thermargin/shared/env';
 import { RATE_LIMIT_DEFAULTS } from './rate-limit.ts';
 
 /** The API's environment variables (plus the analyzer's FLEET_FILE, RESULTS_SQLITE_PATH, STORE_*). */
@@ -26,18 +27,9 @@ export interface ApiConfig {
   analyzer: AnalyzerConfig;
 }
 
-type Env = Record<string, string | undefined>;
-
 export function readApiConfig(env: Env = process.env): ApiConfig {
   const problems: string[] = [];
-  const int = (name: string, fallback: number, min: number) => {
-    const raw = env[name];
-    if (raw === undefined || raw === '') return fallback;
-    const v = Number(raw);
-    if (!Number.isInteger(v) || v < min)
-      problems.push(`${name} must be an integer ≥ ${min} (got ${JSON.stringify(raw)})`);
-    return v;
-  };
+  const { int } = envReader(env, problems);
   const run = env[API_ENV.RUN_ANALYZER] ?? '1';
   if (run !== '0' && run !== '1') problems.push(`${API_ENV.RUN_ANALYZER} must be 0 or 1`);
   const config = {

@@ -1,5 +1,6 @@
 import { hostname } from 'node:os';
 import { DEFAULT_MAX_PAYLOAD_BYTES, DEFAULT_SHARE_GROUP } from '@thermargin/shared';
+import { type Env, envReader } from '@thermargin/shared/env';
 import type { StoreConfig } from '@thermargin/store';
 import { PIPELINE_DEFAULTS } from './pipeline.ts';
 
@@ -65,31 +66,10 @@ export interface IngesterConfig {
   store: StoreConfig;
 }
 
-type Env = Record<string, string | undefined>;
-
 /** The ingester's configuration from environment variables, or an Error naming each bad one. */
 export function readIngesterConfig(env: Env = process.env): IngesterConfig {
   const problems: string[] = [];
-  const str = (name: string, fallback?: string): string => {
-    const v = env[name];
-    if (v !== undefined && v !== '') return v;
-    if (fallback === undefined) problems.push(`${name} is required`);
-    return fallback ?? '';
-  };
-  const int = (name: string, fallback: number, min: number): number => {
-    const raw = env[name];
-    if (raw === undefined || raw === '') return fallback;
-    const v = Number(raw);
-    if (!Number.isInteger(v) || v < min)
-      problems.push(`${name} must be an integer ≥ ${min} (got ${JSON.stringify(raw)})`);
-    return v;
-  };
-  const oneOf = <T extends string>(name: string, allowed: readonly T[], fallback: T): T => {
-    const v = str(name, fallback) as T;
-    if (!allowed.includes(v))
-      problems.push(`${name} must be one of ${allowed.join(', ')} (got ${JSON.stringify(v)})`);
-    return v;
-  };
+  const { str, int, oneOf } = envReader(env, problems);
 
   const kind = oneOf(ENV.STORE, ['sqlite', 'influx'] as const, 'sqlite');
   const store: StoreConfig =

@@ -1,4 +1,4 @@
-import { hashKey } from './rng.ts';
+import { hashKey } from '@thermargin/core/stats/prng';
 
 /**
  * Ambient air temperature of the scenario's town, by season, time of day and weather:

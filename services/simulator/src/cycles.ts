@@ -1,4 +1,4 @@
-import type { Rng } from './rng.ts';
+import type { Rng } from '@thermargin/core/stats/prng';
 
 /**
  * Drive cycles: what the driver asks for, second by second — target speed, road grade and extra

@@ -1,6 +1,6 @@
 import type { DutyCycle } from './archetypes.ts';
 import { buildDrive, type CycleKind, type Drive, type Segment } from './cycles.ts';
-import { hashKey, type Rng, streamFor } from './rng.ts';
+import { hashKey, type Rng, streamFor } from '@thermargin/core/stats/prng';
 import type { SimVehicle } from './vehicle.ts';
 
 export const DAY_MS = 86_400_000;

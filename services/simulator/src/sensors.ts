@@ -1,6 +1,6 @@
 import type { Sample } from '@thermargin/shared';
 import type { ActiveSensorFault, SensorSignal } from './faults.ts';
-import type { Rng } from './rng.ts';
+import type { Rng } from '@thermargin/core/stats/prng';
 import type { TripTruth } from './truth.ts';
 
 /** Which optional sensors a vehicle carries. */

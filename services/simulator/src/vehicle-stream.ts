@@ -1,7 +1,7 @@
 import type { Sample } from '@thermargin/shared';
 import type { Climate } from './climate.ts';
 import { sensorFaults } from './faults.ts';
-import { createRng } from './rng.ts';
+import { createRng } from '@thermargin/core/stats/prng';
 import { localDay, type TripPlan, tripsOfDay } from './schedule.ts';
 import { SensorSuite } from './sensors.ts';
 import { endState, type LoopState, runTrip, soak } from './trip-physics.ts';

@@ -4,7 +4,7 @@ import type { Archetype, Range } from './archetypes.ts';
 import type { FanControl } from './controllers.ts';
 import type { FaultSpec, MaintenanceEvent } from './faults.ts';
 import { cleanK_w_m2k, type RadiatorSpec } from './radiator.ts';
-import { streamFor, type Rng } from './rng.ts';
+import { streamFor, type Rng } from '@thermargin/core/stats/prng';
 import type { SensorFit } from './sensors.ts';
 
 /** One simulated vehicle: the physics it is run with and the fleet-file entry that describes it. */

@@ -1,28 +1,26 @@
 import { join } from 'node:path';
 import { type EmbeddedBroker, startEmbeddedBroker } from '@thermargin/broker';
-import { ENV, readIngesterConfig } from '@thermargin/ingester/config';
-import { createIngester } from '@thermargin/ingester/ingester';
+import { ENV } from '@thermargin/ingester/config';
 import { sampleTopic } from '@thermargin/shared';
 import { createSqliteStore } from '@thermargin/store';
-import mqtt from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import {
-  INGESTER_USER,
+  connectAs,
   expectedTotals,
   fleetStream,
-  ingesterEnv,
+  fleetUsers,
+  oneSample,
   publishStream,
+  startFleetIngester,
   tempDir,
-  vehicleUser,
   waitForCount,
-  writeFleetFile,
 } from '../ingester/support.ts';
 
 const IDS = ['bus-01', 'bus-02'];
 const dir = tempDir('embedded');
 let broker: EmbeddedBroker;
 beforeAll(async () => {
-  broker = await startEmbeddedBroker({ users: [INGESTER_USER, ...IDS.map(vehicleUser)] });
+  broker = await startEmbeddedBroker({ users: fleetUsers(IDS) });
 });
 afterAll(async () => {
   await broker?.close();
@@ -31,43 +29,29 @@ afterAll(async () => {
 describe('embedded broker (aedes, MQTT 3.1.1) with the same auth and ACL', () => {
   it('refuses bad credentials', async () => {
     await expect(
-      mqtt.connectAsync(broker.url, { username: 'bus-01', password: 'wrong', reconnectPeriod: 0 }),
+      connectAs(
+        broker.url,
+        { username: 'bus-01', password: 'wrong', role: 'vehicle' },
+        { reconnectPeriod: 0 },
+      ),
     ).rejects.toThrow();
   });
 
   it("carries a stream to the ingester (protocol 4, plain subscription) exactly once; another vehicle's topic is refused", async () => {
     const store = createSqliteStore({ path: join(dir, 'embedded.db') });
-    const config = readIngesterConfig({
-      ...ingesterEnv({
-        mqtt_url: broker.url,
-        fleet_file: writeFleetFile(dir, IDS),
-        client_id: 'emb',
-        spool_dir: join(dir, 'spool'),
-        store: {},
-      }),
-      [ENV.MQTT_PROTOCOL]: '4',
-      [ENV.SHARE_GROUP]: '',
-      [ENV.CONNECTIONS]: '1',
+    const ingester = await startFleetIngester({
+      mqtt_url: broker.url,
+      dir,
+      ids: IDS,
+      client_id: 'emb',
+      share_group: '',
+      store,
+      env: { [ENV.MQTT_PROTOCOL]: '4', [ENV.CONNECTIONS]: '1' },
     });
-    const ingester = createIngester({ ...config, metrics_port: -1 }, { store, known_vehicles: new Set(IDS) });
-    await ingester.start();
 
     // bus-01 trying bus-02's topic: aedes refuses the publish (and, in MQTT 3.1.1, drops the connection).
-    const u = vehicleUser('bus-01');
-    const intruder = await mqtt.connectAsync(broker.url, {
-      username: u.username,
-      password: u.password,
-      reconnectPeriod: 0,
-    });
-    const sample = {
-      time: Date.UTC(2025, 6, 1),
-      vehicle: 'bus-02',
-      speed_kmh: 1,
-      power_kw: 1,
-      coolant_in_c: 70,
-      ambient_c: 20,
-      fan_pct: 0,
-    };
+    const intruder = await connectAs(broker.url, 'bus-01', { reconnectPeriod: 0 });
+    const sample = oneSample('bus-02');
     intruder.publish(sampleTopic('bus-02'), JSON.stringify(sample), { qos: 1 });
     await new Promise((r) => setTimeout(r, 300));
     intruder.end(true);

@@ -1,58 +1,35 @@
 import { join } from 'node:path';
-import { ENV, readIngesterConfig } from '@thermargin/ingester/config';
-import { createIngester } from '@thermargin/ingester/ingester';
 import { sampleTopic } from '@thermargin/shared';
 import { createSqliteStore } from '@thermargin/store';
-import mqtt from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { type MosquittoServer, startMosquitto } from '../../support/servers/mosquitto.ts';
-import { INGESTER_USER, ingesterEnv, sleep, tempDir, vehicleUser, writeFleetFile } from './support.ts';
+import { connectAs, fleetUsers, oneSample, sleep, startFleetIngester, tempDir } from './support.ts';
 
 const IDS = ['bus-01', 'bus-02'];
 const dir = tempDir('acl');
 let broker: MosquittoServer;
 beforeAll(async () => {
-  broker = await startMosquitto([INGESTER_USER, ...IDS.map(vehicleUser)]);
+  broker = await startMosquitto(fleetUsers(IDS));
 });
 afterAll(async () => {
   await broker?.close();
 });
 
-const connect = (id: string) => {
-  const u = id === 'ingester' ? INGESTER_USER : vehicleUser(id);
-  return mqtt.connectAsync(broker.url, {
-    username: u.username,
-    password: u.password,
-    protocolVersion: 5,
-    reconnectPeriod: 0,
-  });
-};
+const connect = (id: string) => connectAs(broker.url, id, { protocolVersion: 5, reconnectPeriod: 0 });
 
 describe('Mosquitto per-vehicle ACL (shipped rules, real broker)', () => {
   it("a vehicle publishing to another vehicle's topic is refused and nothing is stored", async () => {
     const store = createSqliteStore({ path: join(dir, 'acl.db') });
-    const config = readIngesterConfig({
-      ...ingesterEnv({
-        mqtt_url: broker.url,
-        fleet_file: writeFleetFile(dir, IDS),
-        client_id: 'acl',
-        spool_dir: join(dir, 'spool'),
-        store: {},
-      }),
-      [ENV.SHARE_GROUP]: 'acl',
+    const ingester = await startFleetIngester({
+      mqtt_url: broker.url,
+      dir,
+      ids: IDS,
+      client_id: 'acl',
+      share_group: 'acl',
+      store,
     });
-    const ingester = createIngester({ ...config, metrics_port: -1 }, { store, known_vehicles: new Set(IDS) });
-    await ingester.start();
     const intruder = await connect('bus-01');
-    const forged = {
-      time: Date.UTC(2025, 6, 1),
-      vehicle: 'bus-02',
-      speed_kmh: 1,
-      power_kw: 1,
-      coolant_in_c: 70,
-      ambient_c: 20,
-      fan_pct: 0,
-    };
+    const forged = oneSample('bus-02');
     await expect(
       intruder.publishAsync(sampleTopic('bus-02'), JSON.stringify(forged), { qos: 1 }),
     ).rejects.toMatchObject({
@@ -90,12 +67,11 @@ describe('Mosquitto per-vehicle ACL (shipped rules, real broker)', () => {
     expect(granted.length).toBe(1);
     await Promise.all([vehicle.endAsync(), ingester.endAsync(), other.endAsync()]);
     await expect(
-      mqtt.connectAsync(broker.url, {
-        username: 'bus-01',
-        password: 'wrong',
-        protocolVersion: 5,
-        reconnectPeriod: 0,
-      }),
+      connectAs(
+        broker.url,
+        { username: 'bus-01', password: 'wrong', role: 'vehicle' },
+        { protocolVersion: 5, reconnectPeriod: 0 },
+      ),
     ).rejects.toThrow();
   });
 });

@@ -1,22 +1,19 @@
 import { join } from 'node:path';
-import { ENV, readIngesterConfig } from '@thermargin/ingester/config';
 import { decodeMessage } from '@thermargin/ingester/decode';
-import { createIngester } from '@thermargin/ingester/ingester';
 import { sampleTopic, toWire } from '@thermargin/shared';
 import { REJECT_REASONS, createSqliteStore } from '@thermargin/store';
 import fc from 'fast-check';
-import mqtt from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { type MosquittoServer, startMosquitto } from '../../support/servers/mosquitto.ts';
 import { hostileCorpus } from './corpus.ts';
-import { INGESTER_USER, ingesterEnv, sleep, tempDir, vehicleUser, writeFleetFile } from './support.ts';
+import { connectAs, fleetUsers, sleep, startFleetIngester, tempDir } from './support.ts';
 
 const IDS = ['bus-01', 'bus-02'];
 const GHOST = 'ghost-09'; // has broker credentials, absent from the fleet file
 const dir = tempDir('bad-input');
 let broker: MosquittoServer;
 beforeAll(async () => {
-  broker = await startMosquitto([INGESTER_USER, ...[...IDS, GHOST].map(vehicleUser)]);
+  broker = await startMosquitto(fleetUsers([...IDS, GHOST]));
 });
 afterAll(async () => {
   await broker?.close();
@@ -35,31 +32,21 @@ const validSample = (vehicle: string, i: number) => ({
 describe('bad input never stops the ingester; each is dead-lettered with its reason', () => {
   it('a corpus of ≥ 1 000 hostile messages interleaved with valid ones (real Mosquitto, SQLite)', async () => {
     const store = createSqliteStore({ path: join(dir, 'bad.db') });
-    const config = readIngesterConfig({
-      ...ingesterEnv({
-        mqtt_url: broker.url,
-        fleet_file: writeFleetFile(dir, IDS),
-        client_id: 'bad',
-        spool_dir: join(dir, 'spool'),
-        store: {},
-      }),
-      [ENV.SHARE_GROUP]: 'bad',
+    const ingester = await startFleetIngester({
+      mqtt_url: broker.url,
+      dir,
+      ids: IDS,
+      client_id: 'bad',
+      share_group: 'bad',
+      store,
     });
-    const ingester = createIngester({ ...config, metrics_port: -1 }, { store, known_vehicles: new Set(IDS) });
-    await ingester.start();
     const corpus = hostileCorpus('bus-01', 'bus-02', GHOST);
     expect(corpus.length).toBeGreaterThanOrEqual(1000);
     const pubs = new Map(
       await Promise.all(
-        [...IDS, GHOST].map(async (id) => {
-          const u = vehicleUser(id);
-          const c = await mqtt.connectAsync(broker.url, {
-            username: u.username,
-            password: u.password,
-            protocolVersion: 5,
-          });
-          return [id, c] as const;
-        }),
+        [...IDS, GHOST].map(
+          async (id) => [id, await connectAs(broker.url, id, { protocolVersion: 5 })] as const,
+        ),
       ),
     );
     let valid = 0;

@@ -1,33 +1,25 @@
 import { join } from 'node:path';
-import { ENV, readIngesterConfig } from '@thermargin/ingester/config';
-import { type Ingester, createIngester } from '@thermargin/ingester/ingester';
 import { type SampleStore, createInfluxStore, createSqliteStore } from '@thermargin/store';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { type InfluxServer, startInflux } from '../../support/servers/influx.ts';
 import { type MosquittoServer, startMosquitto } from '../../support/servers/mosquitto.ts';
 import {
-  INGESTER_USER,
   expectedTotals,
   fleetStream,
-  ingesterEnv,
+  fleetUsers,
   publishStream,
+  startFleetIngester,
   tempDir,
-  vehicleUser,
   waitForCount,
-  writeFleetFile,
 } from './support.ts';
 
 const IDS = ['bus-01', 'bus-02', 'van-03', 'truck-04'];
 let broker: MosquittoServer;
 let influx: InfluxServer;
 const dir = tempDir('exactly-once');
-const fleetFile = writeFleetFile(dir, IDS);
 
 beforeAll(async () => {
-  [broker, influx] = await Promise.all([
-    startMosquitto([INGESTER_USER, ...IDS.map(vehicleUser)]),
-    startInflux(),
-  ]);
+  [broker, influx] = await Promise.all([startMosquitto(fleetUsers(IDS)), startInflux()]);
   await influx.createDatabase('once');
 });
 afterAll(async () => {
@@ -35,22 +27,16 @@ afterAll(async () => {
 });
 
 async function runThrough(store: SampleStore, name: string) {
-  const config = readIngesterConfig({
-    ...ingesterEnv({
-      mqtt_url: broker.url,
-      fleet_file: fleetFile,
-      client_id: `once-${name}`,
-      spool_dir: join(dir, name),
-      store: {},
-    }),
+  const ingester = await startFleetIngester({
+    mqtt_url: broker.url,
+    dir,
+    ids: IDS,
+    client_id: `once-${name}`,
     // One group per run: a stopped run's sessions stay members of its group (see the ingester README).
-    [ENV.SHARE_GROUP]: `once-${name}`,
+    share_group: `once-${name}`,
+    spool: name,
+    store,
   });
-  const ingester: Ingester = createIngester(
-    { ...config, metrics_port: -1 },
-    { store, known_vehicles: new Set(IDS) },
-  );
-  await ingester.start();
   const stream = fleetStream(IDS, 2500);
   await publishStream(broker.url, stream, 50);
   const want = expectedTotals(stream);

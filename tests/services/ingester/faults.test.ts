@@ -1,22 +1,21 @@
 import { join } from 'node:path';
-import { ENV, readIngesterConfig } from '@thermargin/ingester/config';
-import { createIngester } from '@thermargin/ingester/ingester';
+import { ENV } from '@thermargin/ingester/config';
 import { type SampleStore, createInfluxStore, createSqliteStore } from '@thermargin/store';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { type InfluxServer, startInflux } from '../../support/servers/influx.ts';
 import { type MosquittoServer, startMosquitto } from '../../support/servers/mosquitto.ts';
 import {
   type Audit,
-  INGESTER_USER,
   IngesterProcess,
   audit,
   expectedTotals,
   fleetStream,
+  fleetUsers,
   ingesterEnv,
   publishStream,
   sleep,
+  startIngester,
   tempDir,
-  vehicleUser,
   waitForCount,
   writeFleetFile,
 } from './support.ts';
@@ -29,10 +28,7 @@ let broker: MosquittoServer;
 let influx: InfluxServer;
 
 beforeAll(async () => {
-  [broker, influx] = await Promise.all([
-    startMosquitto([INGESTER_USER, ...IDS.map(vehicleUser)]),
-    startInflux(),
-  ]);
+  [broker, influx] = await Promise.all([startMosquitto(fleetUsers(IDS)), startInflux()]);
 });
 afterAll(async () => {
   await Promise.all([broker?.close(), influx?.close()]);
@@ -51,16 +47,14 @@ const influxEnv = (database: string) => ({
 });
 
 function env(name: string, store: Record<string, string>, client = name) {
-  return {
-    ...ingesterEnv({
-      mqtt_url: broker.url,
-      fleet_file: fleetFile,
-      client_id: client,
-      spool_dir: join(dir, client),
-      store,
-    }),
-    [ENV.SHARE_GROUP]: name,
-  };
+  return ingesterEnv({
+    mqtt_url: broker.url,
+    fleet_file: fleetFile,
+    client_id: client,
+    spool_dir: join(dir, client),
+    store,
+    share_group: name,
+  });
 }
 
 function report(fault: string, a: Audit, extra: Record<string, number> = {}) {
@@ -92,13 +86,15 @@ describe('faults: 0 samples lost, 0 duplicates stored', () => {
   // from its persistence file after a restart (seen here; see services/ingester/README.md).
   it('broker stopped and restarted mid-stream (InfluxDB, one ingester)', async () => {
     const store = await influxStore('broker_restart');
-    const config = readIngesterConfig({
-      ...env('broker-restart', influxEnv('broker_restart')),
-      [ENV.SHARE_GROUP]: '',
-      [ENV.CONNECTIONS]: '1',
-    });
-    const ingester = createIngester({ ...config, metrics_port: -1 }, { store, known_vehicles: new Set(IDS) });
-    await ingester.start();
+    const ingester = await startIngester(
+      {
+        ...env('broker-restart', influxEnv('broker_restart')),
+        [ENV.SHARE_GROUP]: '',
+        [ENV.CONNECTIONS]: '1',
+      },
+      store,
+      IDS,
+    );
     const stream = fleetStream(IDS, 3000);
     await publishStream(broker.url, stream, 50, async (round) => {
       if (round !== 20) return;
@@ -114,9 +110,7 @@ describe('faults: 0 samples lost, 0 duplicates stored', () => {
 
   it('database stopped for 30 s and restarted (InfluxDB): batches spooled to disk, drained in order', async () => {
     const store = await influxStore('db_outage');
-    const config = readIngesterConfig(env('db-outage', influxEnv('db_outage')));
-    const ingester = createIngester({ ...config, metrics_port: -1 }, { store, known_vehicles: new Set(IDS) });
-    await ingester.start();
+    const ingester = await startIngester(env('db-outage', influxEnv('db_outage')), store, IDS);
     const stream = fleetStream(IDS, 3000);
     let restarted: Promise<void> = Promise.resolve();
     let peakSpool = 0;

@@ -3,10 +3,11 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { BrokerUser } from '@thermargin/broker/acl';
-import { ENV } from '@thermargin/ingester/config';
+import { ENV, readIngesterConfig } from '@thermargin/ingester/config';
+import { type Ingester, createIngester } from '@thermargin/ingester/ingester';
 import { type WireSample, encodeSamplePayload, sampleTopic } from '@thermargin/shared';
 import type { SampleStore } from '@thermargin/store';
-import mqtt from 'mqtt';
+import mqtt, { type IClientOptions, type MqttClient } from 'mqtt';
 
 /** Documented test credentials (never used outside tests). */
 export const INGESTER_USER: BrokerUser = {
@@ -20,7 +21,32 @@ export const vehicleUser = (id: string): BrokerUser => ({
   role: 'vehicle',
 });
 
+/** Broker accounts for a fleet: the ingester and one per vehicle. */
+export const fleetUsers = (ids: readonly string[]): BrokerUser[] => [INGESTER_USER, ...ids.map(vehicleUser)];
+
+/** An MQTT client logged in as `user` (or as its vehicle id, or 'ingester'). */
+export function connectAs(
+  url: string,
+  user: BrokerUser | string,
+  opts: IClientOptions = {},
+): Promise<MqttClient> {
+  const u = typeof user !== 'string' ? user : user === 'ingester' ? INGESTER_USER : vehicleUser(user);
+  return mqtt.connectAsync(url, { username: u.username, password: u.password, ...opts });
+}
+
 export const T0_MS = Date.UTC(2025, 6, 1, 6);
+
+/** One plausible wire sample of `vehicle` at `time` (ACL probes). */
+export const oneSample = (vehicle: string, time = Date.UTC(2025, 6, 1)) =>
+  ({
+    time,
+    vehicle,
+    speed_kmh: 1,
+    power_kw: 1,
+    coolant_in_c: 70,
+    ambient_c: 20,
+    fan_pct: 0,
+  }) satisfies WireSample;
 
 /** A fleet file (fleetSchema) listing these vehicles with round, plausible figures. */
 export function writeFleetFile(dir: string, ids: readonly string[]): string {
@@ -109,11 +135,9 @@ export async function publishStream(
 ): Promise<void> {
   const clients = await Promise.all(
     stream.map((samples) => {
-      const user = vehicleUser(samples[0]!.vehicle);
-      return mqtt.connectAsync(url, {
-        clientId: `pub-${user.username}`,
-        username: user.username,
-        password: user.password,
+      const vehicle = samples[0]!.vehicle;
+      return connectAs(url, vehicle, {
+        clientId: `pub-${vehicle}`,
         protocolVersion: protocol,
         clean: false,
         ...(protocol === 5 ? { properties: { sessionExpiryInterval: 3600 } } : {}),
@@ -169,12 +193,14 @@ export class IngesterProcess {
   }
 }
 
+/** The ingester's environment; `store` defaults to SQLite defaults, `share_group` to the config's. */
 export function ingesterEnv(opts: {
   mqtt_url: string;
   fleet_file: string;
   client_id: string;
   spool_dir: string;
-  store: Record<string, string>;
+  store?: Record<string, string>;
+  share_group?: string;
 }): Record<string, string> {
   return {
     [ENV.MQTT_URL]: opts.mqtt_url,
@@ -185,8 +211,45 @@ export function ingesterEnv(opts: {
     [ENV.SPOOL_DIR]: opts.spool_dir,
     [ENV.METRICS_PORT]: '0',
     [ENV.CONNECTIONS]: '4',
+    ...(opts.share_group === undefined ? {} : { [ENV.SHARE_GROUP]: opts.share_group }),
     ...opts.store,
   };
+}
+
+/** The ingester in-process on `env` (metrics server off), writing to `store`, started. */
+export async function startIngester(
+  env: Record<string, string>,
+  store: SampleStore,
+  ids: readonly string[],
+): Promise<Ingester> {
+  const config = readIngesterConfig(env);
+  const ingester = createIngester({ ...config, metrics_port: -1 }, { store, known_vehicles: new Set(ids) });
+  await ingester.start();
+  return ingester;
+}
+
+/**
+ * The in-process ingester of the fleet `ids` on the broker at `mqtt_url`, its fleet file and spool
+ * (sub-folder `spool`) in `dir`, with `env` on top; started.
+ */
+export function startFleetIngester(o: {
+  mqtt_url: string;
+  dir: string;
+  ids: readonly string[];
+  client_id: string;
+  share_group: string;
+  store: SampleStore;
+  spool?: string;
+  env?: Record<string, string>;
+}): Promise<Ingester> {
+  const env = ingesterEnv({
+    mqtt_url: o.mqtt_url,
+    fleet_file: writeFleetFile(o.dir, o.ids),
+    client_id: o.client_id,
+    spool_dir: join(o.dir, o.spool ?? 'spool'),
+    share_group: o.share_group,
+  });
+  return startIngester({ ...env, ...o.env }, o.store, o.ids);
 }
 
 /** A temp dir removed when the test process exits. */

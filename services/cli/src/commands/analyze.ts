@@ -4,6 +4,7 @@ import { InputError } from '@thermargin/shared';
 import { tripsCsv } from '../output/trips-csv.ts';
 import { textSummary } from '../output/text-summary.ts';
 import { analyzeData } from './analyze-data.ts';
+import { FLEET_DATA_OPTIONS, fleetDataProblems } from './fleet-data-args.ts';
 import { buildReport } from './report.ts';
 
 export const ANALYZE_USAGE = `thermargin analyze --fleet FLEET.json --data PATH [--out FILE] [--format json|csv|text]
@@ -17,22 +18,13 @@ const FORMATS = ['json', 'csv', 'text'] as const;
 export async function analyzeCommand(argv: string[], log: (line: string) => void): Promise<void> {
   const { values } = parseArgs({
     args: argv,
-    options: {
-      fleet: { type: 'string' },
-      data: { type: 'string' },
-      out: { type: 'string' },
-      format: { type: 'string' },
-    },
+    options: { ...FLEET_DATA_OPTIONS, format: { type: 'string' } },
     strict: true,
   });
   const format = (values.format ?? 'json') as (typeof FORMATS)[number];
-  const problems = [
-    ...(values.fleet ? [] : [{ where: '--fleet', rule: 'required' }]),
-    ...(values.data ? [] : [{ where: '--data', rule: 'required' }]),
-    ...(FORMATS.includes(format)
-      ? []
-      : [{ where: '--format', rule: `must be one of ${FORMATS.join(', ')}` }]),
-  ];
+  const problems = fleetDataProblems(values);
+  if (!FORMATS.includes(format))
+    problems.push({ where: '--format', rule: `must be one of ${FORMATS.join(', ')}` });
   if (problems.length) throw new InputError(problems, `usage:\n${ANALYZE_USAGE}\n`);
   const data = await analyzeData(values.fleet!, values.data!, log);
   const report = buildReport(data);

@@ -7,6 +7,7 @@ import { resolveSizingOptions, SIZING_DEFAULTS, type WhatIfScenario } from '@the
 import { VehicleSamples } from '@thermargin/core/sizing/vehicle-samples';
 import { sizingHtml } from '../output/sizing-html.ts';
 import { analyzeData } from './analyze-data.ts';
+import { FLEET_DATA_OPTIONS, fleetDataProblems } from './fleet-data-args.ts';
 
 export const SIZING_USAGE = `thermargin sizing --fleet FLEET.json --data PATH [--out RESULT.json] [--html REPORT.html] [options]
   --fleet      fleet file (JSON): the vehicles, their cooling packages and design points
@@ -51,9 +52,7 @@ export async function sizingCommand(argv: string[], log: (line: string) => void)
   const { values } = parseArgs({
     args: argv,
     options: {
-      fleet: { type: 'string' },
-      data: { type: 'string' },
-      out: { type: 'string' },
+      ...FLEET_DATA_OPTIONS,
       html: { type: 'string' },
       'what-if': { type: 'string', multiple: true },
       'cleaning-interval': { type: 'string' },
@@ -61,9 +60,7 @@ export async function sizingCommand(argv: string[], log: (line: string) => void)
     },
     strict: true,
   });
-  const problems: Problem[] = [];
-  if (!values.fleet) problems.push({ where: '--fleet', rule: 'required' });
-  if (!values.data) problems.push({ where: '--data', rule: 'required' });
+  const problems = fleetDataProblems(values);
   const what_if = (values['what-if'] ?? [])
     .map((t) => parseWhatIf(t, problems))
     .filter((s): s is WhatIfScenario => s !== null);
