@@ -81,6 +81,21 @@ export function writeRoutes(x: ApiContext): Route[] {
     return { vehicles: after.models.size, changed };
   };
 
+  /** Loads a new fleet (an invalid one is a 400 and changes nothing), re-analyses what changed, audits it. */
+  const swapFleet = (load: () => LoadedFleet, actor: { by: string; role: ApiRole }, action: string) => {
+    const before = deps.fleet.current();
+    let after: LoadedFleet;
+    try {
+      after = load();
+    } catch (e) {
+      asBadRequest(e);
+      throw e;
+    }
+    const out = reanalyse(before, after);
+    deps.workflow.audit(actor, action, 'fleet', `changed: ${out.changed.join(', ') || 'none'}`, x.clock());
+    return out;
+  };
+
   return [
     alertAction('acknowledge'),
     alertAction('close'),
@@ -117,25 +132,7 @@ export function writeRoutes(x: ApiContext): Route[] {
       role: 'admin',
       summary: 'Re-read the fleet file; changed vehicles are re-analysed',
       response: fleetReloadResponseSchema,
-      handle: async ({ actor }) => {
-        const before = deps.fleet.current();
-        let after: LoadedFleet;
-        try {
-          after = deps.fleet.reload();
-        } catch (e) {
-          asBadRequest(e);
-          throw e;
-        }
-        const out = reanalyse(before, after);
-        deps.workflow.audit(
-          actor,
-          'fleet.reload',
-          'fleet',
-          `changed: ${out.changed.join(', ') || 'none'}`,
-          x.clock(),
-        );
-        return out;
-      },
+      handle: async ({ actor }) => swapFleet(() => deps.fleet.reload(), actor, 'fleet.reload'),
     }),
     route({
       method: 'put',
@@ -146,25 +143,8 @@ export function writeRoutes(x: ApiContext): Route[] {
       body: z.unknown(),
       max_body_bytes: API_DEFAULTS.max_fleet_bytes,
       response: fleetReloadResponseSchema,
-      handle: async ({ body, actor }) => {
-        const before = deps.fleet.current();
-        let after: LoadedFleet;
-        try {
-          after = deps.fleet.replace(`${JSON.stringify(body, null, 2)}\n`);
-        } catch (e) {
-          asBadRequest(e);
-          throw e;
-        }
-        const out = reanalyse(before, after);
-        deps.workflow.audit(
-          actor,
-          'fleet.replace',
-          'fleet',
-          `changed: ${out.changed.join(', ') || 'none'}`,
-          x.clock(),
-        );
-        return out;
-      },
+      handle: async ({ body, actor }) =>
+        swapFleet(() => deps.fleet.replace(`${JSON.stringify(body, null, 2)}\n`), actor, 'fleet.replace'),
     }),
     route({
       method: 'get',
