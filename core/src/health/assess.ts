@@ -13,6 +13,7 @@ import { rebaselineTimes_ms } from './rebaseline.ts';
 import { bandSeries, type HealthSeries, isoOfDay } from './series.ts';
 import { StatusMachine } from './status.ts';
 import { latForMargin_c, marginThresholds } from './thresholds.ts';
+import { headEnd, lowerBound, tailStart } from './window.ts';
 
 export type { HealthOptions } from './options.ts';
 export { HEALTH_DEFAULTS } from './options.ts';
@@ -79,7 +80,10 @@ export function assessVehicle(
     m === null ? null : latForMargin_c(m, vehicle.coolant_limit_c, vehicle.design.ambient_c);
   const machine = new StatusMachine(th, p);
   const evidence = new EvidenceTracker(vehicle.maintenance, o);
-  const marginPts: { t_ms: number; v: number }[] = [];
+  // Valid design-point margins in time order: epoch ms (ascending) and %.
+  const marginMs: number[] = [];
+  const marginV: number[] = [];
+  const asymptotic = asymptoticLevels(marginMs, marginV);
   const n = trips.length;
   const out: TripHealth[] = new Array(n);
   const marginLevel = new Array<number | null>(n).fill(null);
@@ -102,24 +106,25 @@ export function assessVehicle(
     bands.ram.push(j, ms, flagged ? null : t.k_ram_w_m2k);
     bands.fan.push(j, ms, flagged ? null : t.k_fan_w_m2k);
     evidence.push(t, ms);
-    if (!flagged && t.margin_pct !== null && t.margin_basis === basis)
-      marginPts.push({ t_ms: ms, v: t.margin_pct });
+    if (!flagged && t.margin_pct !== null && t.margin_basis === basis) {
+      marginMs.push(ms);
+      marginV.push(t.margin_pct);
+    }
     const ram = bands.ram.summary();
     const fan = bands.fan.summary();
     const primary = basis === 'ram' ? ram : fan;
-    const seg = marginPts.filter((q) => q.t_ms >= primary.segment_start_ms).slice(-o.level_window_trips);
+    const from = lowerBound(marginMs, primary.segment_start_ms);
+    const segFrom = from + tailStart(marginMs.length - from, o.level_window_trips);
     const level =
-      seg.length >= o.min_level_trips
+      marginMs.length - segFrom >= o.min_level_trips
         ? currentLevel(
-            seg.map((q) => q.t_ms / DAY_MS),
-            seg.map((q) => q.v),
+            marginMs.slice(segFrom).map((v) => v / DAY_MS),
+            marginV.slice(segFrom),
             primary.alarm,
           )
         : null;
     const m =
-      level && primary.alarm
-        ? (asymptoticLevel(marginPts, primary.period_start_ms) ?? level.value)
-        : (level?.value ?? null);
+      level && primary.alarm ? (asymptotic(primary.period_start_ms) ?? level.value) : (level?.value ?? null);
     marginLevel[i] = m;
     candidates = rankCauses(ram, fan, evidence.read(), o, minDrop);
     const c = pickCause(candidates, o.cause_min_score);
@@ -133,7 +138,12 @@ export function assessVehicle(
       margin_falling: (level?.slope_per_day ?? 0) < 0,
     });
     warning = sensorSuspect
-      ? improvementWarning(marginPts, primary.period_start_ms, m, o.baseline_trips, p.hysteresis_margin_pct)
+      ? improvementWarning(
+          firstSince(marginMs, marginV, primary.period_start_ms, o.baseline_trips),
+          m,
+          o.baseline_trips,
+          p.hysteresis_margin_pct,
+        )
       : null;
     const time = t.end;
     if (step.status === 'inspect' && step.changed) inspectSince = time;
@@ -173,18 +183,18 @@ export function assessVehicle(
   }
   const primary = basis === 'ram' ? ram : fan;
   // A trend is projected over the whole history since the re-baseline, not only since a change point.
-  const seg = marginPts.filter((q) => q.t_ms >= primary.period_start_ms);
+  const since = lowerBound(marginMs, primary.period_start_ms);
   const lastMargin = n ? marginLevel[order[n - 1]!]! : null;
   if (lastMargin === null) {
     notes.push(
-      `margin not judged: the design point's ${basis} band gave a margin on ${marginPts.length} of ${n} trips`,
+      `margin not judged: the design point's ${basis} band gave a margin on ${marginMs.length} of ${n} trips`,
     );
   }
   if (!trips.some((t) => t.coolant_dt_per_kw !== null))
     notes.push('no radiator outlet temperature: coolant flow not judged');
   const proj = projectMargin(
-    seg.map((q) => q.t_ms / DAY_MS),
-    seg.map((q) => q.v),
+    marginMs.slice(since).map((v) => v / DAY_MS),
+    marginV.slice(since),
     th.inspect_enter,
     o,
   );
@@ -244,33 +254,47 @@ const MIN_ASYMPTOTIC_TRIPS = 20;
 /**
  * While the detectors say the margin moves, its level from the Kern–Seaton fit since the last
  * re-baseline (all of that history, where a windowed line has only its last trips); null when the fit
- * shows no levelling off or the history is short.
+ * shows no levelling off or the history is short. Reads the margins as they grow (`ms` ascending); a
+ * trip that adds no margin asks for the same fit again, which is kept.
  */
-function asymptoticLevel(pts: readonly { t_ms: number; v: number }[], from_ms: number): number | null {
-  const seg = pts.filter((q) => q.t_ms >= from_ms).slice(-MAX_TRIPS);
-  if (seg.length < MIN_ASYMPTOTIC_TRIPS) return null;
-  const t = seg.map((q) => q.t_ms / DAY_MS);
-  const fit = fitAsymptotic(
-    t,
-    seg.map((q) => q.v),
-  );
-  return fit ? fit.at(t[t.length - 1]!) : null;
+function asymptoticLevels(ms: readonly number[], v: readonly number[]): (from_ms: number) => number | null {
+  let key = '';
+  let kept: number | null = null;
+  return (from_ms) => {
+    const since = lowerBound(ms, from_ms);
+    const from = since + tailStart(ms.length - since, MAX_TRIPS);
+    const k = `${from}:${ms.length}`;
+    if (k === key) return kept;
+    key = k;
+    kept = null;
+    if (ms.length - from < MIN_ASYMPTOTIC_TRIPS) return kept;
+    const t = ms.slice(from).map((x) => x / DAY_MS);
+    const fit = fitAsymptotic(t, v.slice(from));
+    kept = fit ? fit.at(t[t.length - 1]!) : null;
+    return kept;
+  };
+}
+
+/** The first `n` values at or after `from_ms` (`ms` ascending). */
+function firstSince(ms: readonly number[], v: readonly number[], from_ms: number, n: number): number[] {
+  const since = lowerBound(ms, from_ms);
+  return v.slice(since, since + headEnd(v.length - since, n));
 }
 
 /**
  * A sensor suspect while the margin reads better than after the last re-baseline: say the improvement
  * is not credible (an ambient reading high makes ITD smaller, so k and margin look better).
+ * `since`: the margins since the re-baseline, in time order.
  */
 function improvementWarning(
-  pts: readonly { t_ms: number; v: number }[],
-  from_ms: number,
+  since: readonly number[],
   level: number | null,
   N: number,
   deadband: number,
 ): string | null {
-  const first = pts.filter((q) => q.t_ms >= from_ms).slice(0, N);
+  const first = since.slice(0, N);
   if (level === null || first.length < N) return null;
-  const before = median(first.map((q) => q.v));
+  const before = median(first);
   if (!(level > before + deadband)) return null;
   return `warning: margin reads ${level.toFixed(1)} % against ${before.toFixed(1)} % earlier, but a sensor is suspect, so the improvement is not credible`;
 }

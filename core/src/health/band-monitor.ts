@@ -1,6 +1,6 @@
 import { median } from '../stats/quantile.ts';
 import { createCusum, type Cusum } from '../stats/cusum.ts';
-import { sigmaFromDifferences } from '../stats/diff-sigma.ts';
+import { RunningDiffSigma } from '../stats/diff-sigma.ts';
 import { createEwma, type Ewma } from '../stats/ewma.ts';
 import type { Band } from '../trip/bands.ts';
 import { currentLevel, type Level } from './level.ts';
@@ -71,6 +71,8 @@ interface Period {
   /** Health of the in-control trips the reference is the median of (self-starting, until the first signal). */
   inControl: number[];
   changesAtStart: number;
+  /** Points before this index have their health (health is filled in time order). */
+  withHealth: number;
 }
 
 /**
@@ -81,7 +83,7 @@ export class BandMonitor {
   readonly points: BandPoint[] = [];
   readonly baselines: BaselinePeriod[] = [];
   readonly changes: ChangePoint[] = [];
-  private readonly diffs: number[] = [];
+  private readonly diffs = new RunningDiffSigma();
   private period: Period | null = null;
   private next = 0;
   private sigmaNow: number;
@@ -116,6 +118,7 @@ export class BandMonitor {
       alarmOn: false,
       inControl: [],
       changesAtStart: this.changes.length,
+      withHealth: 0,
     };
   }
 
@@ -143,7 +146,7 @@ export class BandMonitor {
       p.record.k_w_m2k = median(p.points.map((q) => q.k_w_m2k));
     const base = p.record.k_w_m2k;
     if (base === null) return;
-    for (const q of p.points) if (q.health === null) this.addHealth(p, q, q.k_w_m2k / base);
+    while (p.withHealth < p.points.length) this.addHealth(p, p.withHealth++, base);
     if (p.record.reference === null) {
       if (p.points.length < N) {
         this.updateLevel(p);
@@ -187,13 +190,13 @@ export class BandMonitor {
     this.updateLevel(p);
   }
 
-  private addHealth(p: Period, q: BandPoint, h: number): void {
+  private addHealth(p: Period, i: number, base: number): void {
+    const q = p.points[i]!;
+    const h = q.k_w_m2k / base;
     q.health = h;
-    const i = p.points.indexOf(q);
     const prev = i > 0 ? p.points[i - 1]!.health : null;
     if (prev !== null) this.diffs.push(h - prev);
-    if (this.diffs.length >= 4)
-      this.sigmaNow = Math.max(this.o.sigma_floor, sigmaFromDifferences(this.diffs));
+    if (this.diffs.length >= 4) this.sigmaNow = Math.max(this.o.sigma_floor, this.diffs.sigma());
   }
 
   private updateLevel(p: Period): void {

@@ -2,6 +2,7 @@ import type { MaintenanceAction, MaintenanceEntry, TripResult } from '@thermargi
 import { median } from '../stats/quantile.ts';
 import type { HealthOptions } from './options.ts';
 import { maintenanceTime_ms } from './rebaseline.ts';
+import { headEnd, lowerBound, tailStart } from './window.ts';
 
 /** The trip-level signs (besides band k) that tell the causes apart, over recent trips. */
 export interface Evidence {
@@ -22,10 +23,16 @@ const RESETS: Record<keyof Evidence, readonly MaintenanceAction[]> = {
   coolant_dt: ['coolant_serviced'],
 };
 
-/** Collects the evidence trip by trip (time order) and reads it at the latest trip. */
+/**
+ * Collects the evidence trip by trip (time order) and reads it at the latest trip. Each read costs its
+ * windows (indexes into the history), not the whole history since the last reset.
+ */
 export class EvidenceTracker {
   private readonly trips: TripResult[] = [];
   private readonly times: number[] = [];
+  /** Trip indices with a soak check, and with a radiator ΔT per kW. */
+  private readonly soakAt: number[] = [];
+  private readonly dtAt: number[] = [];
   private readonly resets: Record<keyof Evidence, number[]>;
 
   constructor(
@@ -43,35 +50,46 @@ export class EvidenceTracker {
   }
 
   push(t: TripResult, t_ms: number): void {
+    const i = this.trips.length;
     this.trips.push(t);
     this.times.push(t_ms);
+    if (t.soak_offset_k !== null) this.soakAt.push(i);
+    if (t.coolant_dt_per_kw !== null) this.dtAt.push(i);
   }
 
-  /** Trips since the last reset of `what`. */
-  private since(what: keyof Evidence): TripResult[] {
+  /** Index of the first trip since the last reset of `what`. */
+  private since(what: keyof Evidence): number {
     const now = this.times[this.times.length - 1] ?? 0;
     const from = Math.max(Number.NEGATIVE_INFINITY, ...this.resets[what].filter((r) => r <= now));
-    return this.trips.filter((_, i) => this.times[i]! >= from);
+    return lowerBound(this.times, from);
   }
 
-  /** Baseline (first trips) and recent medians of a per-trip value. */
-  private split(values: number[]): { baseline: number | null; recent: number | null } {
+  /** Baseline (first trips) and recent medians of `count` per-trip values read by `at`. */
+  private split(
+    count: number,
+    at: (k: number) => number,
+  ): { baseline: number | null; recent: number | null } {
     const N = this.o.baseline_trips;
-    if (values.length < N + this.o.min_level_trips)
-      return { baseline: median0(values.slice(0, N)), recent: null };
-    return { baseline: median0(values.slice(0, N)), recent: median0(values.slice(-N)) };
+    const values = (from: number, to: number) => Array.from({ length: to - from }, (_, k) => at(from + k));
+    const baseline = median0(values(0, headEnd(count, N)));
+    if (count < N + this.o.min_level_trips) return { baseline, recent: null };
+    return { baseline, recent: median0(values(tailStart(count, N), count)) };
   }
 
   read(): Evidence {
-    const soaks = this.since('soak')
-      .map((t) => t.soak_offset_k)
-      .filter((v): v is number => v !== null)
-      .slice(-this.o.soak_window);
+    const { trips, soakAt, dtAt } = this;
+    const n = trips.length;
+    const soakFrom = lowerBound(soakAt, this.since('soak'));
+    const soakIdx = soakAt.slice(soakFrom + tailStart(soakAt.length - soakFrom, this.o.soak_window));
+    const soaks = soakIdx.map((i) => trips[i]!.soak_offset_k!);
     const tol = this.o.soak_tolerance_k;
     const below = soaks.filter((v) => v < -tol).length;
     const above = soaks.filter((v) => v > tol).length;
-    const recentFlags = this.since('flags').slice(-this.o.sensor_flag_window);
+    const flagFrom = this.since('flags');
+    const recentFlags = trips.slice(flagFrom + tailStart(n - flagFrom, this.o.sensor_flag_window));
     const flagged = recentFlags.filter((t) => t.sensor_flags.length > 0);
+    const satFrom = this.since('saturation');
+    const dtFrom = lowerBound(dtAt, this.since('coolant_dt'));
     return {
       soak: {
         checks: soaks.length,
@@ -84,12 +102,8 @@ export class EvidenceTracker {
         flagged: flagged.length,
         examples: flagged.flatMap((t) => t.sensor_flags).slice(0, 2),
       },
-      saturation: this.split(this.since('saturation').map((t) => t.fan_saturated_share)),
-      coolant_dt: this.split(
-        this.since('coolant_dt')
-          .map((t) => t.coolant_dt_per_kw)
-          .filter((v): v is number => v !== null),
-      ),
+      saturation: this.split(n - satFrom, (k) => trips[satFrom + k]!.fan_saturated_share),
+      coolant_dt: this.split(dtAt.length - dtFrom, (k) => trips[dtAt[dtFrom + k]!]!.coolant_dt_per_kw!),
     };
   }
 }

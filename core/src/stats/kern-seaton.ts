@@ -19,30 +19,34 @@ export interface KernSeatonFit {
   at_bound: boolean;
 }
 
-/** Least squares for c, b at a fixed τ (linear in the basis 1, 1 − e^{−t/τ}). */
+/**
+ * Least squares for c, b at a fixed τ (linear in the basis 1, 1 − e^{−t/τ}). `su` is Σu; `g` is scratch
+ * of t's length for the basis values, so each is computed once.
+ */
 function fitAtTau(
   t: ArrayLike<number>,
   u: ArrayLike<number>,
+  su: number,
   tau: number,
+  g: Float64Array,
 ): { c: number; b: number; rss: number } {
   const n = t.length;
   let sg = 0;
-  let su = 0;
   let sgg = 0;
   let sgu = 0;
   for (let i = 0; i < n; i++) {
-    const g = 1 - Math.exp(-t[i]! / tau);
-    sg += g;
-    su += u[i]!;
-    sgg += g * g;
-    sgu += g * u[i]!;
+    const gi = 1 - Math.exp(-t[i]! / tau);
+    g[i] = gi;
+    sg += gi;
+    sgg += gi * gi;
+    sgu += gi * u[i]!;
   }
   const det = n * sgg - sg * sg;
   const b = det > 0 ? (n * sgu - sg * su) / det : 0;
   const c = (su - b * sg) / n;
   let rss = 0;
   for (let i = 0; i < n; i++) {
-    const r = u[i]! - c - b * (1 - Math.exp(-t[i]! / tau));
+    const r = u[i]! - c - b * g[i]!;
     rss += r * r;
   }
   return { c, b, rss };
@@ -64,7 +68,16 @@ export function fitKernSeaton(
     throw new RangeError(`fitKernSeaton: bad τ range ${tauMin}…${tauMax}`);
   const G = 48;
   const grid = Array.from({ length: G }, (_, i) => tauMin * (tauMax / tauMin) ** (i / (G - 1)));
-  const rssAt = (tau: number) => fitAtTau(t, u, tau).rss;
+  let su = 0;
+  for (let i = 0; i < u.length; i++) su += u[i]!;
+  const g = new Float64Array(t.length);
+  // The golden-section steps often land exactly on a τ already tried.
+  const tried = new Map<number, number>();
+  const rssAt = (tau: number) => {
+    let r = tried.get(tau);
+    if (r === undefined) tried.set(tau, (r = fitAtTau(t, u, su, tau, g).rss));
+    return r;
+  };
   let best = 0;
   let bestRss = Number.POSITIVE_INFINITY;
   grid.forEach((tau, i) => {
@@ -81,6 +94,6 @@ export function fitKernSeaton(
     else lo = a;
   }
   const tau = Math.exp((lo + hi) / 2);
-  const f = fitAtTau(t, u, tau);
+  const f = fitAtTau(t, u, su, tau, g);
   return { ...f, tau, at_bound: best === 0 || best === G - 1 };
 }
