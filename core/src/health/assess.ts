@@ -191,7 +191,7 @@ export function assessVehicle(
     );
   }
   if (!trips.some((t) => t.coolant_dt_per_kw !== null))
-    notes.push('no radiator outlet temperature: coolant flow not judged');
+    notes.push('no radiator outlet temperature: coolant flow cannot be confirmed');
   const proj = projectMargin(
     marginMs.slice(since).map((v) => v / DAY_MS),
     marginV.slice(since),

@@ -1,4 +1,5 @@
 import { median } from '../stats/quantile.ts';
+import { shiftStart } from '../stats/change-point.ts';
 import { createCusum, type Cusum } from '../stats/cusum.ts';
 import { RunningDiffSigma } from '../stats/diff-sigma.ts';
 import { createEwma, type Ewma } from '../stats/ewma.ts';
@@ -169,8 +170,14 @@ export class BandMonitor {
     const alarm = e.signal === -1 || c.signal;
     if (alarm && !p.alarmOn) {
       const charted = p.points.length - N; // observations the charts have seen
-      const sinceObs = c.signal ? c.since : charted - 1;
-      const from = N + sinceObs;
+      // The CUSUM's last zero can lie long before a sudden step when S wandered below h beforehand;
+      // Hinkley's estimate inside that stretch finds the step itself, so the level is not diluted.
+      const lastZero = N + (c.signal ? c.since : Math.max(0, charted - this.o.level_window_trips));
+      const from = shiftStart(
+        p.points.map((q) => q.health!),
+        p.record.reference!,
+        Math.min(lastZero, p.points.length - 1),
+      );
       const first = p.points[from]!;
       this.changes.push({
         band: this.band,

@@ -10,6 +10,9 @@ export interface Candidate {
   evidence: string;
 }
 
+/** –: fan-band fall over ram-band fall at and above which both bands count as fallen alike (our choice). */
+const ALIKE = 0.85;
+
 const pct = (x: number) => `${(100 * x).toFixed(0)} %`;
 
 /** z of a band's fall: (reference − level) / (σ · se factor). */
@@ -78,10 +81,15 @@ export function rankCauses(
       );
     }
   }
-  if (ev.flags.trips > 0 && ev.flags.flagged / ev.flags.trips >= o.sensor_flag_share) {
+  if (ev.flags.held) {
     sensor = Math.max(sensor, 0.7);
+    const held =
+      ev.flags.flagged / ev.flags.trips < o.sensor_flag_share
+        ? `, and on ≥ ${pct(o.sensor_flag_share)} of ${o.sensor_flag_window} trips earlier with no clean run of ${o.sensor_flag_window} since`
+        : '';
+    const examples = ev.flags.examples.length ? ` (${ev.flags.examples.join('; ')})` : '';
     sensorParts.push(
-      `implausible signals on ${ev.flags.flagged} of the last ${ev.flags.trips} trips (${ev.flags.examples.join('; ')})`,
+      `implausible signals on ${ev.flags.flagged} of the last ${ev.flags.trips} trips${examples}${held}`,
     );
   }
   const sensorSuspect = sensor >= o.cause_min_score;
@@ -112,14 +120,21 @@ export function rankCauses(
     }
   }
 
+  // Both bands down about alike (fouling takes most from ram air: the fan band keeps more than 15 %
+  // of the ram band's fall back): a coolant-side loss (pump, air in the loop, a thermostat not fully
+  // open) looks so too, and without an outlet temperature nothing tells it from fouling.
+  const alike =
+    ram.drop !== null &&
+    fan.drop !== null &&
+    fell(ram, minDrop) &&
+    fan.drop >= ALIKE * ram.drop &&
+    fan.drop <= 1.5 * ram.drop + minDrop;
   if (!sensorSuspect && fell(ram, minDrop)) {
     let score = 0.5;
     const parts = [describe(ram)];
     if (fan.drop !== null && fan.drop >= 0.2 * ram.drop! && fan.drop <= 1.5 * ram.drop! + minDrop) {
-      score += 0.2;
-      parts.push(
-        `${describe(fan)}: both bands, ${fan.drop <= ram.drop! ? 'most in ram' : 'fan about as much'}`,
-      );
+      score += alike ? 0.05 : 0.2;
+      parts.push(`${describe(fan)}: both bands, ${alike ? 'fan about as much' : 'most in ram'}`);
     } else parts.push(describe(fan));
     if (
       ram.level?.slope_per_day !== null &&
@@ -141,6 +156,14 @@ export function rankCauses(
       cause: 'coolant_flow',
       score: 0.5 + (both ? 0.3 : 0),
       evidence: `radiator temperature drop per kW up ${pct(r / b - 1)} (${b.toFixed(3)} → ${r.toFixed(3)} K/kW) at the same heat${both ? `; ${describe(ram)}, ${describe(fan)}` : ''}`,
+    });
+  }
+
+  if (!sensorSuspect && alike && ev.coolant_dt.baseline === null) {
+    out.push({
+      cause: 'coolant_flow',
+      score: 0.45,
+      evidence: `${describe(ram)} and ${describe(fan)}: both bands about alike, as a coolant-side loss would make them; no radiator outlet temperature to confirm it`,
     });
   }
 

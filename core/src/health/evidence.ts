@@ -8,7 +8,12 @@ import { headEnd, lowerBound, tailStart } from './window.ts';
 export interface Evidence {
   /** Last soak checks (key-on after a long stop): how many, how many beyond tolerance with the majority sign. */
   soak: { checks: number; hits: number; sign: -1 | 1; median_k: number | null };
-  flags: { trips: number; flagged: number; examples: string[] };
+  /**
+   * Recent trips with sensor flags. `held`: the flagged share reached the suspect level since the last
+   * sensor replacement and the trips have not run clean for a whole window since, so a bad sensor that
+   * glitches on only some trips stays suspect instead of flickering with the window's luck.
+   */
+  flags: { trips: number; flagged: number; examples: string[]; held: boolean };
   /** Median share of time at full fan duty: first trips after the reset vs recent trips. */
   saturation: { baseline: number | null; recent: number | null };
   /** Median radiator ΔT per kW (K/kW), same split; null without an outlet sensor. */
@@ -34,6 +39,10 @@ export class EvidenceTracker {
   private readonly soakAt: number[] = [];
   private readonly dtAt: number[] = [];
   private readonly resets: Record<keyof Evidence, number[]>;
+  /** Flag latch: set when a window reaches the suspect share, cleared by a clean window or a reset. */
+  private flagHeld = false;
+  private flagFrom = 0;
+  private cleanRun = 0;
 
   constructor(
     log: readonly MaintenanceEntry[],
@@ -55,6 +64,29 @@ export class EvidenceTracker {
     this.times.push(t_ms);
     if (t.soak_offset_k !== null) this.soakAt.push(i);
     if (t.coolant_dt_per_kw !== null) this.dtAt.push(i);
+    const from = this.since('flags');
+    if (from !== this.flagFrom) {
+      this.flagFrom = from;
+      this.flagHeld = false;
+      this.cleanRun = 0;
+    }
+    this.cleanRun = t.sensor_flags.length > 0 ? 0 : this.cleanRun + 1;
+    const w = this.recentFlags();
+    if (w.trips > 0 && w.flagged / w.trips >= this.o.sensor_flag_share) this.flagHeld = true;
+    else if (this.cleanRun >= this.o.sensor_flag_window) this.flagHeld = false;
+  }
+
+  /** The last `sensor_flag_window` trips since the reset, and how many of them carry flags. */
+  private recentFlags(): { trips: number; flagged: number; examples: string[] } {
+    const n = this.trips.length;
+    const from = this.since('flags');
+    const recent = this.trips.slice(from + tailStart(n - from, this.o.sensor_flag_window));
+    const flagged = recent.filter((t) => t.sensor_flags.length > 0);
+    return {
+      trips: recent.length,
+      flagged: flagged.length,
+      examples: flagged.flatMap((t) => t.sensor_flags).slice(0, 2),
+    };
   }
 
   /** Index of the first trip since the last reset of `what`. */
@@ -85,9 +117,6 @@ export class EvidenceTracker {
     const tol = this.o.soak_tolerance_k;
     const below = soaks.filter((v) => v < -tol).length;
     const above = soaks.filter((v) => v > tol).length;
-    const flagFrom = this.since('flags');
-    const recentFlags = trips.slice(flagFrom + tailStart(n - flagFrom, this.o.sensor_flag_window));
-    const flagged = recentFlags.filter((t) => t.sensor_flags.length > 0);
     const satFrom = this.since('saturation');
     const dtFrom = lowerBound(dtAt, this.since('coolant_dt'));
     return {
@@ -97,11 +126,7 @@ export class EvidenceTracker {
         sign: below >= above ? -1 : 1,
         median_k: median0(soaks),
       },
-      flags: {
-        trips: recentFlags.length,
-        flagged: flagged.length,
-        examples: flagged.flatMap((t) => t.sensor_flags).slice(0, 2),
-      },
+      flags: { ...this.recentFlags(), held: this.flagHeld },
       saturation: this.split(n - satFrom, (k) => trips[satFrom + k]!.fan_saturated_share),
       coolant_dt: this.split(dtAt.length - dtFrom, (k) => trips[dtAt[dtFrom + k]!]!.coolant_dt_per_kw!),
     };

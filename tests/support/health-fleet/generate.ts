@@ -40,6 +40,8 @@ export interface ScenarioParams {
   cleaning_day: number | null;
   ambient_bias: { day: number; k: number } | null;
   coolant_fault: { day: number; flow_loss: number } | null;
+  /** From `day`, this share of trips carries a sensor flag (a stuck coolant reading, say) and no k. */
+  sensor_flags: { day: number; share: number } | null;
 }
 
 export interface TripTruth {
@@ -114,6 +116,8 @@ export function generateScenario(s: ScenarioParams): Scenario {
       const coolant = vehicle.coolant_limit_c - 12 + 3 * rng.normal();
       const itd = Math.max(8, coolant - ambient);
       const apparent = itd / (itd - bias);
+      const flagging = s.sensor_flags !== null && day >= s.sensor_flags.day;
+      const flagged = flagging && rng.uniform() < s.sensor_flags!.share;
       const hasRam = rng.uniform() < s.p_ram;
       const hasFan = rng.uniform() < Math.min(0.9, Math.max(0, s.p_fan_15c + 0.03 * (ambient - 15)));
       const noisy = (k: number) => k * (1 + s.k_noise * rng.normal());
@@ -157,7 +161,7 @@ export function generateScenario(s: ScenarioParams): Scenario {
         soak_offset_k: cold ? 0.5 * rng.uniform() + 0.6 * rng.normal() - bias : null,
         fan_saturated_share: Math.min(1, satBase + (fanBroken ? 0.3 : 0) + 0.02 * rng.uniform()),
         coolant_dt_per_kw: s.outlet_sensor ? dtPerKw : null,
-        sensor_flags: [],
+        sensor_flags: flagged ? ['coolant_in_c stuck at one value for 20 min'] : [],
       });
       truth.push({
         day,
@@ -167,7 +171,10 @@ export function generateScenario(s: ScenarioParams): Scenario {
         status:
           trueM < th.inspect_enter || worst < vehicle.policy.inspect_health_ratio
             ? 'inspect'
-            : trueM < th.watch_enter || 1 - worst >= vehicle.policy.watch_health_drop_pct / 100 || bias !== 0
+            : trueM < th.watch_enter ||
+                1 - worst >= vehicle.policy.watch_health_drop_pct / 100 ||
+                bias !== 0 ||
+                flagging
               ? 'watch'
               : 'ok',
         cold_start: cold,

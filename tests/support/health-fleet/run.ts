@@ -64,6 +64,13 @@ export function run(set: SetName, scenario: ScenarioName, seed: number): Run {
     delay = got === null ? null : s.truth.slice(ev, got + 1).filter((t) => t.cold_start).length;
     delayDays = d(s, got, ev);
     detail = 'delay counted in cold starts';
+  } else if (scenario === 'flags' || scenario === 'coolant') {
+    const ev = firstDay(s, EVENT_DAY[scenario])!;
+    const want = scenario === 'flags' ? 'sensor' : 'coolant_flow';
+    const got = firstCause(s, a, want, ev);
+    delay = got === null ? null : got - ev;
+    delayDays = d(s, got, ev);
+    detail = `trips from the fault to cause ${want}; final cause ${a.cause}`;
   } else if (scenario === 'cleaning') {
     const ev = firstDay(s, EVENT_DAY.cleaning)!;
     const got = firstTrip(n, ev, (i) => a.trips[i]!.status === 'ok');

@@ -1,9 +1,10 @@
 import type { ScenarioParams } from './generate.ts';
 
 /**
- * Two parameter sets: A is what the thresholds were first tried on; B differs in every respect
+ * Three parameter sets: A is what the thresholds were first tried on; B differs in every respect
  * (vehicle type, noise, trip rate, band availability, fouling time constant, bench baseline, outlet
- * sensor) and was not tuned to.
+ * sensor) and was not tuned to; C (a battery-electric van on many short trips) was added after the
+ * defaults were fixed, to check them on a fleet they have never seen.
  */
 export const PARAMETER_SETS = {
   A: {
@@ -30,14 +31,35 @@ export const PARAMETER_SETS = {
     outlet_sensor: true,
     tau_days: 90,
   },
+  C: {
+    type: 'delivery_van',
+    days: 180,
+    trips_per_day: 4,
+    k_noise: 0.025,
+    clean_margin_pct: 18,
+    p_ram: 0.3,
+    p_fan_15c: 0.5,
+    bench_factor: 0.97,
+    outlet_sensor: true,
+    tau_days: 70,
+  },
 } as const;
 
 export type SetName = keyof typeof PARAMETER_SETS;
-export const SCENARIOS = ['healthy', 'fouling', 'fan', 'cleaning', 'sensor', 'sparse'] as const;
+export const SCENARIOS = [
+  'healthy',
+  'fouling',
+  'fan',
+  'cleaning',
+  'sensor',
+  'flags',
+  'coolant',
+  'sparse',
+] as const;
 export type ScenarioName = (typeof SCENARIOS)[number];
 
-/** Day the fault starts (the fan fault, the sensor bias) or the cleaning is done. */
-export const EVENT_DAY = { fan: 60, sensor: 60, cleaning: 110 } as const;
+/** Day the fault starts (fan, sensor bias, sensor flags, coolant flow) or the cleaning is done. */
+export const EVENT_DAY = { fan: 60, sensor: 60, flags: 60, coolant: 60, cleaning: 110 } as const;
 
 export function scenarioParams(set: SetName, name: ScenarioName, seed: number): ScenarioParams {
   const { tau_days, ...p } = PARAMETER_SETS[set];
@@ -49,6 +71,7 @@ export function scenarioParams(set: SetName, name: ScenarioName, seed: number): 
     cleaning_day: null,
     ambient_bias: null,
     coolant_fault: null,
+    sensor_flags: null,
   };
   const fouling = { a_ram: 0.6, tau_days, fan_share: 0.6 };
   switch (name) {
@@ -62,6 +85,10 @@ export function scenarioParams(set: SetName, name: ScenarioName, seed: number): 
       return { ...base, fouling: { ...fouling, tau_days: tau_days * 0.6 }, cleaning_day: EVENT_DAY.cleaning };
     case 'sensor':
       return { ...base, ambient_bias: { day: EVENT_DAY.sensor, k: 6 } };
+    case 'flags':
+      return { ...base, sensor_flags: { day: EVENT_DAY.flags, share: 0.5 } };
+    case 'coolant':
+      return { ...base, coolant_fault: { day: EVENT_DAY.coolant, flow_loss: 0.4 } };
     case 'sparse':
       return { ...base, days: 30, trips_per_day: 1.2, p_fan_15c: 0.02 };
   }

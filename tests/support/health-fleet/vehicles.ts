@@ -3,7 +3,7 @@ import { designBand, designKa_w_k } from '@thermargin/core/trip/design-point';
 import { resolveVehicle, type VehicleModel } from '@thermargin/core/vehicle/resolve';
 import { FAN_REFERENCE, RAM_REFERENCE, kReferenceFactor } from '@thermargin/core/radiator/airside';
 
-/** Two vehicle types the health tests run on; numbers are round, plausible figures of our own. */
+/** Three vehicle types the health tests run on; numbers are round, plausible figures of our own. */
 export const VEHICLE_TYPES = {
   /** Fuel-cell city bus: low loop limit, design point crawling uphill on the fan. */
   city_bus: {
@@ -30,6 +30,19 @@ export const VEHICLE_TYPES = {
     coolant_glycol_pct: 50,
     design: { ambient_c: 40, heat_kw: 150, speed_kmh: 80, fan_pct: 0 },
     route_max_ambient_c: 42,
+  },
+  /** Battery-electric delivery van: cool loop for the cells, design point in stop-and-go traffic on the fan. */
+  delivery_van: {
+    id: 'van-23',
+    powertrain: 'bev',
+    drivetrain_efficiency: 0.86,
+    radiator_area_m2: 0.45,
+    coolant_limit_c: 60,
+    thermostat_open_c: 35,
+    thermal_mass_kj_per_k: 60,
+    coolant_glycol_pct: 50,
+    design: { ambient_c: 40, heat_kw: 12, speed_kmh: 15, fan_pct: 100 },
+    route_max_ambient_c: 36,
   },
 } satisfies Record<string, VehicleConfigInput>;
 
