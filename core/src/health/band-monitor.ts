@@ -59,6 +59,8 @@ export interface BandSummary {
   /** Epoch ms from which the current level is estimated (period start or last change). */
   segment_start_ms: number;
   period_start_ms: number;
+  /** Epoch ms of the band's latest valid trip; null before the first. */
+  last_ms: number | null;
 }
 
 interface Period {
@@ -231,6 +233,7 @@ export class BandMonitor {
       drop: level && ref !== null ? (ref - level.value) / ref : null,
       segment_start_ms: p ? (p.segmentFrom > 0 ? p.points[p.segmentFrom]!.t_ms : p.start_ms) : 0,
       period_start_ms: p?.start_ms ?? 0,
+      last_ms: this.points[this.points.length - 1]?.t_ms ?? null,
     };
   }
 }

