@@ -135,6 +135,7 @@ export function assessVehicle(
       health: [ram.level?.value ?? null, fan.level?.value ?? null],
       detected_drop: detected,
       sensor_suspect: sensorSuspect,
+      coolant_suspect: c.cause === 'coolant_flow',
       margin_falling: (level?.slope_per_day ?? 0) < 0,
     });
     warning = sensorSuspect

@@ -13,6 +13,8 @@ export interface StatusInput {
   /** A detector signals a fall of at least the policy's watch drop. */
   detected_drop: boolean;
   sensor_suspect: boolean;
+  /** The radiator's temperature drop per kW has risen: the coolant side is suspect before k shows it. */
+  coolant_suspect: boolean;
   /** The margin level falls significantly (Theil–Sen): no stepping down on a falling trend. */
   margin_falling: boolean;
 }
@@ -64,7 +66,8 @@ export class StatusMachine {
     if (x.detected_drop)
       reasons.push(`a change detector signals k ≥ ${this.p.watch_health_drop_pct} % below its reference`);
     if (x.sensor_suspect) reasons.push('a sensor is suspect');
-    const flag = x.detected_drop || x.sensor_suspect ? 1 : 0;
+    if (x.coolant_suspect) reasons.push('the coolant side is suspect');
+    const flag = x.detected_drop || x.sensor_suspect || x.coolant_suspect ? 1 : 0;
     enter = Math.max(enter, flag);
     hold = Math.max(hold, flag);
 

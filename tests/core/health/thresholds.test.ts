@@ -30,6 +30,7 @@ describe('status hysteresis', () => {
       health: [1, 1],
       detected_drop: false,
       sensor_suspect: false,
+      coolant_suspect: false,
       margin_falling: false,
     }).status;
   it('enters at once, leaves only after clear_trips trips above threshold + deadband', () => {
