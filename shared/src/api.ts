@@ -34,6 +34,10 @@ export type ApiError = z.infer<typeof apiErrorSchema>;
 export const healthResponseSchema = z.object({ ok: z.boolean(), time: iso });
 export type HealthResponse = z.infer<typeof healthResponseSchema>;
 
+// ---- GET /api/me (any valid token): who the token is
+export const meResponseSchema = z.object({ name: z.string(), role: z.enum(API_ROLES) });
+export type MeResponse = z.infer<typeof meResponseSchema>;
+
 // ---- GET /api/status (viewer): ingest and analyzer health
 export const statusResponseSchema = z.object({
   time: iso,

@@ -5,9 +5,16 @@ import { join } from 'node:path';
 
 const BIN = join(import.meta.dirname, '../../services/cli/bin/thermargin.mjs');
 
-/** Runs the real `thermargin` bin in a child process. */
-export function runCli(args: string[]): { code: number; stdout: string; stderr: string } {
-  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: 'utf8', maxBuffer: 256 << 20 });
+/** Runs the real `thermargin` bin in a child process, with `env` added to this process's environment. */
+export function runCli(
+  args: string[],
+  env: Record<string, string> = {},
+): { code: number; stdout: string; stderr: string } {
+  const r = spawnSync(process.execPath, [BIN, ...args], {
+    encoding: 'utf8',
+    maxBuffer: 256 << 20,
+    env: { ...process.env, ...env },
+  });
   return { code: r.status ?? -1, stdout: r.stdout, stderr: r.stderr };
 }
 

@@ -3,6 +3,7 @@ import { Shell } from './components/Shell.tsx';
 import { FleetBoard } from './screens/FleetBoard.tsx';
 import { IntakeCheck } from './screens/IntakeCheck.tsx';
 import { SignIn } from './screens/SignIn.tsx';
+import { SizingSheet } from './screens/SizingSheet.tsx';
 import { TripTrace } from './screens/TripTrace.tsx';
 import { VehicleFile } from './screens/VehicleFile.tsx';
 import { WorkOrder } from './screens/WorkOrder.tsx';
@@ -25,6 +26,8 @@ function Screen({ route, session }: { route: Route; session: Session }) {
       return <WorkOrder session={session} id={route.id} />;
     case 'intake':
       return <IntakeCheck session={session} />;
+    case 'sizing':
+      return <SizingSheet session={session} />;
     default:
       return (
         <div class="state state-empty">

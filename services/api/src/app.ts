@@ -12,7 +12,9 @@ import { EventHub, eventRoutes } from './events.ts';
 import { errorBody, HttpError, parseInput } from './http-error.ts';
 import { openApiDocument } from './openapi.ts';
 import { RATE_LIMIT_DEFAULTS, RateLimiter } from './rate-limit.ts';
+import { meRoutes } from './routes-me.ts';
 import { readRoutes } from './routes-read.ts';
+import { sizingRoutes } from './routes-sizing.ts';
 import { traceRoutes } from './routes-trace.ts';
 import { writeRoutes } from './routes-write.ts';
 import type { Route } from './route.ts';
@@ -48,6 +50,7 @@ export function createApi(deps: ApiDeps): Hono {
   const x = new ApiContext(deps);
   const hub = new EventHub(x, deps.events_poll_ms ?? API_DEFAULTS.events_poll_ms);
   const routes: Route[] = [...readRoutes(x), ...traceRoutes(x), ...writeRoutes(x), ...eventRoutes(hub)];
+  routes.push(...sizingRoutes(x), ...meRoutes());
   const limiter = new RateLimiter({ ...RATE_LIMIT_DEFAULTS, ...deps.rate_limit }, x.clock);
   const app = new Hono();
 

@@ -4,12 +4,14 @@ import type {
   FleetResponse,
   MaintenanceBody,
   MaintenanceResponse,
+  MeResponse,
   RejectedResponse,
   StatusResponse,
   TraceResponse,
   TripsResponse,
   VehicleResponse,
 } from '@thermargin/shared/api';
+import type { CalculatorBody, CalculatorResponse, SizingResponse } from '@thermargin/shared/sizing-api';
 
 /** A refused or failed request, with the API's own words. */
 export class ApiFailure extends Error {
@@ -17,6 +19,8 @@ export class ApiFailure extends Error {
     readonly status: number,
     readonly code: string,
     message: string,
+    /** Each field and the rule it broke (a 400). */
+    readonly problems: { where: string; rule: string }[] = [],
   ) {
     super(message);
   }
@@ -55,11 +59,13 @@ export class ApiClient {
         res.status,
         err?.code ?? 'http',
         err?.message ?? `${method} ${path}: ${res.status}`,
+        err?.problems,
       );
     }
     return json as T;
   }
 
+  me = () => this.request<MeResponse>('GET', '/api/me');
   fleet = () => this.request<FleetResponse>('GET', '/api/fleet');
   status = () => this.request<StatusResponse>('GET', '/api/status');
   rejected = () => this.request<RejectedResponse>('GET', '/api/rejected');
@@ -72,4 +78,7 @@ export class ApiClient {
     this.request<AlertView>('POST', `/api/vehicles/${enc(id)}/alerts/${enc(alert)}/${action}`, { note });
   logMaintenance = (id: string, body: MaintenanceBody) =>
     this.request<MaintenanceResponse>('POST', `/api/vehicles/${enc(id)}/maintenance`, body);
+  sizing = () => this.request<SizingResponse>('GET', '/api/sizing');
+  calculate = (body: CalculatorBody) =>
+    this.request<CalculatorResponse>('POST', '/api/sizing/calculator', body);
 }

@@ -24,6 +24,8 @@ export interface ChartProps {
   plugins?: uPlot.Plugin[];
   height?: number;
   link?: ZoomLink;
+  /** x other than time (UTC epoch ms, the default): its legend series and scale. */
+  x?: { series: uPlot.Series; scale: uPlot.Scale };
 }
 
 const axisStyle = { stroke: INK.axis, grid: { stroke: INK.grid, width: 1 }, ticks: { stroke: INK.grid } };
@@ -71,9 +73,9 @@ export function Chart(p: ChartProps) {
       height: p.height ?? 220,
       ms: 1,
       tzDate: utc,
-      series: [{ label: 'time (UTC)', value: '{YYYY}-{MM}-{DD} {HH}:{mm}:{ss}' }, ...p.series],
+      series: [p.x?.series ?? { label: 'time (UTC)', value: '{YYYY}-{MM}-{DD} {HH}:{mm}:{ss}' }, ...p.series],
       axes: p.axes,
-      scales: { x: { time: true }, ...p.scales },
+      scales: { x: p.x?.scale ?? { time: true }, ...p.scales },
       plugins: p.plugins ?? [],
       legend: { live: true },
       cursor: p.link
@@ -96,7 +98,7 @@ export function Chart(p: ChartProps) {
       if (window.__thermargin?.charts[p.id] === u) delete window.__thermargin.charts[p.id];
       u.destroy();
     };
-  }, [p.data, p.series, p.axes, p.scales, p.plugins, p.link, p.id, p.height]);
+  }, [p.data, p.series, p.axes, p.scales, p.plugins, p.link, p.id, p.height, p.x]);
   return (
     <figure class="chart" data-chart={p.id} data-points={p.data[0].length}>
       <figcaption>{p.title}</figcaption>

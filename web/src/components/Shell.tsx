@@ -8,6 +8,7 @@ const NAV = [
   { to: href.fleet(), label: 'Fleet board', screens: ['fleet', 'vehicle', 'trip'] },
   { to: href.queue(), label: 'Workshop queue', screens: ['queue', 'work-order'] },
   { to: href.intake(), label: 'Intake check', screens: ['intake'] },
+  { to: href.sizing(), label: 'Sizing sheet', screens: ['sizing'] },
 ];
 
 const LIVE_WORD = { connecting: 'connecting…', live: 'live', retrying: 'reconnecting…' };
@@ -45,7 +46,7 @@ export function Shell({
           <span class={`live live-${live.state}`} data-live={live.state}>
             <span class="live-dot" aria-hidden="true" /> {LIVE_WORD[live.state]}
           </span>
-          <span class="role" data-role={session.role}>
+          <span class="role" data-role={session.role} title={`signed in as ${session.name}`}>
             {session.role}
           </span>
           <button type="button" class="btn btn-quiet" onClick={onSignOut}>

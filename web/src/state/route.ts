@@ -1,6 +1,6 @@
 import { useEffect, useState } from 'preact/hooks';
 
-/** Screens by deep link: `#/fleet`, `#/vehicle/<id>`, `#/trip/<id>/<trip>`, `#/queue`, `#/work-order/<id>`, `#/intake`. */
+/** Screens by deep link: `#/fleet`, `#/vehicle/<id>`, `#/trip/<id>/<trip>`, `#/queue`, `#/work-order/<id>`, `#/intake`, `#/sizing`. */
 export type Route =
   | { screen: 'fleet' }
   | { screen: 'vehicle'; id: string }
@@ -8,6 +8,7 @@ export type Route =
   | { screen: 'queue' }
   | { screen: 'work-order'; id: string }
   | { screen: 'intake' }
+  | { screen: 'sizing' }
   | { screen: 'unknown'; hash: string };
 
 /** points per signal asked of the API by default; `?points=` in the link overrides (10…20 000). */
@@ -27,6 +28,7 @@ export function parseRoute(hash: string): Route {
   if (head === 'queue' && !a) return { screen: 'queue' };
   if (head === 'work-order' && a) return { screen: 'work-order', id: a };
   if (head === 'intake' && !a) return { screen: 'intake' };
+  if (head === 'sizing' && !a) return { screen: 'sizing' };
   return { screen: 'unknown', hash };
 }
 
@@ -37,6 +39,7 @@ export const href = {
   queue: () => '#/queue',
   workOrder: (id: string) => `#/work-order/${encodeURIComponent(id)}`,
   intake: () => '#/intake',
+  sizing: () => '#/sizing',
 };
 
 export const go = (to: string): void => {

@@ -1,17 +1,24 @@
 import { writeFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
 import { InputError, type Problem } from '@thermargin/shared';
-import { DEFAULT_DUTY, sizeFleet } from '@thermargin/core/sizing/fleet-sizing';
+import { DEFAULT_DUTY, type SizingInput, sizeFleet } from '@thermargin/core/sizing/fleet-sizing';
 import type { Duty } from '@thermargin/core/sizing/drivetrain-compare';
-import { resolveSizingOptions, SIZING_DEFAULTS, type WhatIfScenario } from '@thermargin/core/sizing/options';
+import {
+  resolveSizingOptions,
+  SIZING_DEFAULTS,
+  type SizingOptions,
+  type WhatIfScenario,
+} from '@thermargin/core/sizing/options';
 import { VehicleSamples } from '@thermargin/core/sizing/vehicle-samples';
 import { sizingHtml } from '../output/sizing-html.ts';
 import { analyzeData } from './analyze-data.ts';
 import { FLEET_DATA_OPTIONS, fleetDataProblems } from './fleet-data-args.ts';
 
-export const SIZING_USAGE = `thermargin sizing --fleet FLEET.json --data PATH [--out RESULT.json] [--html REPORT.html] [options]
+export const SIZING_USAGE = `thermargin sizing --fleet FLEET.json (--data PATH | --from-store) [--out RESULT.json] [--html REPORT.html] [options]
   --fleet      fleet file (JSON): the vehicles, their cooling packages and design points
   --data       a CSV file, or a folder of CSV files, in the import format
+  --from-store instead of --data: the analysed trips and their samples from the stores (reads STORE_*,
+               RESULTS_SQLITE_PATH, and FLEET_FILE when --fleet is not given; as the API's /api/sizing)
   --out        write the sizing result (JSON) here instead of to standard output
   --html       also write a self-contained HTML report for a design review
   --what-if R,D  replay with every ambient raised R K and the coolant limit lowered D K (repeatable;
@@ -57,10 +64,16 @@ export async function sizingCommand(argv: string[], log: (line: string) => void)
       'what-if': { type: 'string', multiple: true },
       'cleaning-interval': { type: 'string' },
       duty: { type: 'string' },
+      'from-store': { type: 'boolean' },
     },
     strict: true,
   });
-  const problems = fleetDataProblems(values);
+  const fromStore = values['from-store'] === true;
+  const problems: Problem[] = !fromStore
+    ? fleetDataProblems(values)
+    : values.data
+      ? [{ where: '--data', rule: 'not with --from-store' }]
+      : [];
   const what_if = (values['what-if'] ?? [])
     .map((t) => parseWhatIf(t, problems))
     .filter((s): s is WhatIfScenario => s !== null);
@@ -80,8 +93,41 @@ export async function sizingCommand(argv: string[], log: (line: string) => void)
   } catch (e) {
     throw new InputError([{ where: 'options', rule: (e as Error).message }]);
   }
+  const read = fromStore
+    ? await readStore(values.fleet, options, duty)
+    : await readData(values.fleet!, values.data!, options, duty, log);
+  const result = sizeFleet(read.input, options);
+  const json = `${JSON.stringify(result, null, 1)}\n`;
+  if (values.out) writeFileSync(values.out, json);
+  else process.stdout.write(json);
+  if (values.html)
+    writeFileSync(
+      values.html,
+      sizingHtml(result, { fleet: read.fleet, data: read.data, generated: new Date().toISOString() }),
+    );
+  log(
+    `sized ${read.input.vehicles.length} vehicles from ${read.from}, ${result.period.trips} trips` +
+      (values.html ? `; report ${values.html}` : ''),
+  );
+}
+
+interface SizingRead {
+  input: SizingInput;
+  /** Fleet file and data source, as the report names them; `from`: the log's words. */
+  fleet: string;
+  data: string;
+  from: string;
+}
+
+async function readData(
+  fleet: string,
+  dataPath: string,
+  options: SizingOptions,
+  duty: Duty | undefined,
+  log: (line: string) => void,
+): Promise<SizingRead> {
   const samples = new Map<string, VehicleSamples>();
-  const data = await analyzeData(values.fleet!, values.data!, log, (v) => {
+  const data = await analyzeData(fleet, dataPath, log, (v) => {
     let acc: VehicleSamples;
     try {
       acc = new VehicleSamples(v, options);
@@ -92,17 +138,40 @@ export async function sizingCommand(argv: string[], log: (line: string) => void)
     return (columns, trips) => acc.add(columns, trips);
   });
   const trips = new Map(data.vehicles.map((v) => [v.id, data.streams.get(v.id)!.trips]));
-  const result = sizeFleet({ vehicles: data.vehicles, trips, samples, ...(duty ? { duty } : {}) }, options);
-  const json = `${JSON.stringify(result, null, 1)}\n`;
-  if (values.out) writeFileSync(values.out, json);
-  else process.stdout.write(json);
-  if (values.html)
-    writeFileSync(
-      values.html,
-      sizingHtml(result, { fleet: values.fleet!, data: values.data!, generated: new Date().toISOString() }),
-    );
-  log(
-    `sized ${data.vehicles.length} vehicles from ${data.rows.toLocaleString('en-US')} rows, ${result.period.trips} trips` +
-      (values.html ? `; report ${values.html}` : ''),
-  );
+  return {
+    input: { vehicles: data.vehicles, trips, samples, ...(duty ? { duty } : {}) },
+    fleet,
+    data: dataPath,
+    from: `${data.rows.toLocaleString('en-US')} rows`,
+  };
+}
+
+async function readStore(
+  fleetPath: string | undefined,
+  options: SizingOptions,
+  duty: Duty | undefined,
+): Promise<SizingRead> {
+  // Loaded here: the stores' modules would slow every `sizing --data` run's start-up.
+  const [{ readAnalyzerConfig }, { loadFleetFile }, { sizingInputFromConfig }] = await Promise.all([
+    import('@thermargin/analyzer/config'),
+    import('@thermargin/analyzer/fleet-file'),
+    import('@thermargin/analyzer/sizing-input'),
+  ]);
+  let config: ReturnType<typeof readAnalyzerConfig>;
+  try {
+    config = readAnalyzerConfig(fleetPath ? { ...process.env, FLEET_FILE: fleetPath } : process.env);
+  } catch (e) {
+    throw new InputError([{ where: '--from-store', rule: (e as Error).message }]);
+  }
+  const vehicles = [...loadFleetFile(config.fleet_file).models.values()];
+  const read = await sizingInputFromConfig(config, vehicles, options, duty).catch((e) => {
+    throw e instanceof RangeError ? new InputError([{ where: '--what-if', rule: e.message }]) : e;
+  });
+  const missing = read.trips_without_samples;
+  return {
+    input: read.input,
+    fleet: config.fleet_file,
+    data: `${config.samples.kind} sample store, results ${config.results_path}`,
+    from: `the stores${missing ? ` (${missing} trips without samples: trip figures only)` : ''}`,
+  };
 }

@@ -1,0 +1,110 @@
+import type { TripResult } from '@thermargin/shared';
+import { openSampleStore, type ResultsStore, type SampleStore } from '@thermargin/store';
+import { createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis';
+import type { Duty } from '@thermargin/core/sizing/drivetrain-compare';
+import type { SizingInput } from '@thermargin/core/sizing/fleet-sizing';
+import type { SizingOptions } from '@thermargin/core/sizing/options';
+import { VehicleSamples } from '@thermargin/core/sizing/vehicle-samples';
+import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
+import type { AnalyzerConfig } from './config.ts';
+import { ANALYZER_DEFAULTS } from './options.ts';
+
+export interface StoreSizingInput {
+  input: SizingInput;
+  /** Stored trips whose samples are gone (retention) or no longer split into them: trip figures only. */
+  trips_without_samples: number;
+}
+
+/** One vehicle's part of the sizing input. */
+export interface VehicleSizingInput {
+  trips: TripResult[];
+  samples: VehicleSamples;
+  trips_without_samples: number;
+}
+
+/**
+ * One vehicle's stored trip results, and its stored samples fed to VehicleSamples in pieces cut at
+ * those trips' starts — the cuts the analyzer and the CLI make — so the figures equal `thermargin
+ * sizing --data` on the same samples. A piece spans whole trips up to `chunk_ms` (the analyzer's read
+ * size) and ends with the last analysed trip: samples of a trip still open are left for the next run.
+ * `o` must come from resolveSizingOptions; a what-if limit drop at or below the thermostat opening
+ * throws VehicleSamples' RangeError.
+ */
+export async function vehicleSizingInput(
+  samples: SampleStore,
+  results: ResultsStore,
+  v: VehicleModel,
+  o: SizingOptions,
+  chunk_ms: number = ANALYZER_DEFAULTS.chunk_ms,
+): Promise<VehicleSizingInput> {
+  const acc = new VehicleSamples(v, o);
+  const trips = await results.readTripResults(v.id);
+  const starts = trips.map((t) => Date.parse(t.start));
+  let missing = 0;
+  let i = 0;
+  while (i < trips.length) {
+    let j = i + 1;
+    while (j < trips.length && starts[j]! - starts[i]! < chunk_ms) j++;
+    // The first piece reaches back to the vehicle's first sample, as the analyzer's first read does.
+    const from = i === 0 ? 0 : starts[i]!;
+    const to = j < trips.length ? starts[j]! : Date.parse(trips[j - 1]!.end) + 1;
+    const piece = trips.slice(i, j);
+    const c = await samples.readSamples(v.id, from, to);
+    try {
+      if (c.n === 0) missing += piece.length;
+      else acc.add(c, piece);
+    } catch (e) {
+      if (!(e instanceof RangeError)) throw e;
+      missing += piece.length;
+    }
+    i = j;
+  }
+  return { trips, samples: acc, trips_without_samples: missing };
+}
+
+/** The whole fleet's sizing input from the stores instead of CSV files (vehicleSizingInput for each). */
+export async function sizingInputFromStore(
+  samples: SampleStore,
+  results: ResultsStore,
+  vehicles: readonly VehicleModel[],
+  o: SizingOptions,
+  duty?: Duty,
+): Promise<StoreSizingInput> {
+  const parts: VehicleSizingInput[] = [];
+  for (const v of vehicles) parts.push(await vehicleSizingInput(samples, results, v, o));
+  return assembleSizingInput(vehicles, parts, duty);
+}
+
+/** The per-vehicle parts (in `vehicles` order) as one SizingInput. */
+export function assembleSizingInput(
+  vehicles: readonly VehicleModel[],
+  parts: readonly VehicleSizingInput[],
+  duty?: Duty,
+): StoreSizingInput {
+  return {
+    input: {
+      vehicles,
+      trips: new Map(vehicles.map((v, k) => [v.id, parts[k]!.trips])),
+      samples: new Map(vehicles.map((v, k) => [v.id, parts[k]!.samples])),
+      ...(duty ? { duty } : {}),
+    },
+    trips_without_samples: parts.reduce((n, p) => n + p.trips_without_samples, 0),
+  };
+}
+
+/** sizingInputFromStore over the stores a configuration names (the CLI's `sizing --from-store`), closed after. */
+export async function sizingInputFromConfig(
+  config: Pick<AnalyzerConfig, 'samples' | 'results_path'>,
+  vehicles: readonly VehicleModel[],
+  o: SizingOptions,
+  duty?: Duty,
+): Promise<StoreSizingInput> {
+  const samples = openSampleStore(config.samples);
+  const results = createAnalysisStore(openResultsDb(config.results_path));
+  try {
+    return await sizingInputFromStore(samples, results, vehicles, o, duty);
+  } finally {
+    await samples.close();
+    await results.close();
+  }
+}

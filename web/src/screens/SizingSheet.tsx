@@ -1,0 +1,313 @@
+import type { GroupSizingView, SizingResponse, SizingResultView } from '@thermargin/shared/sizing-api';
+import { DutyChart } from '../charts/duty-charts.tsx';
+import { Caution } from '../components/Caution.tsx';
+import { POWERTRAIN_WORD, SizingCalculator } from '../components/SizingCalculator.tsx';
+import { Empty, Loaded } from '../components/States.tsx';
+import { num, when } from '../format.ts';
+import { useLive } from '../state/live.ts';
+import { useResource } from '../state/resource.ts';
+import { href } from '../state/route.ts';
+import type { Session } from '../state/session.ts';
+
+const BAND_WORD = { ram: 'ram air', fan: 'fan at standstill' } as const;
+type Spread = GroupSizingView['field_k'][number]['ratio'];
+
+const range = (ci: [number, number] | null, unit: string, digits: number) =>
+  ci ? `${num(ci[0], '', digits)} … ${num(ci[1], unit, digits)}` : '—';
+/** Median with the middle half across vehicles. */
+function spread(s: Spread, unit: string, digits = 1) {
+  if (!s) return '—';
+  return (
+    <>
+      {num(s.median, unit, digits)}
+      {s.vehicles > 1 && (
+        <span class="small muted">
+          {' '}
+          ({num(s.p25, '', digits)} … {num(s.p75, '', digits)}, {s.vehicles} vehicles)
+        </span>
+      )}
+    </>
+  );
+}
+
+function FieldK({ s }: { s: SizingResultView }) {
+  return (
+    <div class="table-wrap">
+      <table class="grid" data-table="field-k">
+        <thead>
+          <tr>
+            <th scope="col">Vehicle</th>
+            <th scope="col">Band</th>
+            <th scope="col" class="num">
+              Trips
+            </th>
+            <th scope="col" class="num">
+              Field k (95 % interval)
+            </th>
+            <th scope="col" class="num">
+              Bench k
+            </th>
+            <th scope="col" class="num">
+              Field ÷ bench (95 % interval)
+            </th>
+            <th scope="col" class="num">
+              Clean ÷ bench
+            </th>
+          </tr>
+        </thead>
+        <tbody>
+          {s.vehicles.flatMap((v) =>
+            v.field_k.map((k) => (
+              <tr key={`${v.id}:${k.band}`} data-vehicle={v.id} data-band={k.band}>
+                <th scope="row">
+                  <a href={href.vehicle(v.id)}>{v.id}</a> <span class="small muted">{v.type}</span>
+                </th>
+                <td>{BAND_WORD[k.band]}</td>
+                <td class="num">{k.trips}</td>
+                <td class="num" data-col="k">
+                  {num(k.k_w_m2k, 'W/(m²·K)', 0)}
+                  <div class="small muted">{range(k.k_ci95, '', 0)}</div>
+                </td>
+                <td class="num">{num(k.bench_k_w_m2k, 'W/(m²·K)', 0)}</td>
+                <td class="num" data-col="ratio">
+                  {num(k.ratio, '', 3)}
+                  <div class="small muted">{range(k.ratio_ci95, '', 3)}</div>
+                </td>
+                <td class="num">{num(k.clean_ratio, '', 3)}</td>
+              </tr>
+            )),
+          )}
+          {s.fleet.field_k.map((k) => (
+            <tr key={`fleet:${k.band}`} data-vehicle="fleet" data-band={k.band} class="total">
+              <th scope="row">Fleet</th>
+              <td>{BAND_WORD[k.band]}</td>
+              <td />
+              <td class="num">{spread(k.k_w_m2k, 'W/(m²·K)', 0)}</td>
+              <td />
+              <td class="num" data-col="ratio">
+                {spread(k.ratio, '', 3)}
+              </td>
+              <td class="num">{spread(k.clean_ratio, '', 3)}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}
+
+function Fouling({ s }: { s: SizingResultView }) {
+  const groups = [...s.types, s.fleet];
+  return (
+    <>
+      <div class="table-wrap">
+        <table class="grid" data-table="fouling">
+          <thead>
+            <tr>
+              <th scope="col">Group</th>
+              <th scope="col">Band</th>
+              <th scope="col" class="num">
+                k lost per month
+              </th>
+              <th scope="col" class="num">
+                k lost per 1000 km
+              </th>
+              <th scope="col" class="num">
+                Cleaning → inspection
+              </th>
+              <th scope="col" class="num">
+                Fouling allowance for {s.options.cleaning_interval_days} d
+              </th>
+            </tr>
+          </thead>
+          <tbody>
+            {groups.flatMap((g) =>
+              g.fouling.map((f) => (
+                <tr key={`${g.group}:${f.band}`} data-group={g.group} data-band={f.band}>
+                  <th scope="row">{g.group === 'fleet' ? 'Fleet' : g.group}</th>
+                  <td>{BAND_WORD[f.band]}</td>
+                  <td class="num" data-col="per-month">
+                    {spread(f.loss_pct_per_month, '%', 2)}
+                  </td>
+                  <td class="num">{spread(f.loss_pct_per_1000km, '%', 2)}</td>
+                  <td class="num" data-col="days">
+                    {spread(f.days_to_inspect, 'd', 0)}
+                  </td>
+                  <td class="num">{spread(percent(f.fouling_allowance), '%', 1)}</td>
+                </tr>
+              )),
+            )}
+          </tbody>
+        </table>
+      </div>
+      <p class="small muted">
+        From the health trend fits between cleanings (at least {s.options.min_fouling_trips} trips over{' '}
+        {s.options.min_fouling_span_days} days). The cleaning interval is the time from a cleaning to the
+        inspection threshold at the fitted rate.
+      </p>
+      <Caution />
+    </>
+  );
+}
+
+/** A spread of shares (0.15) as percent (15). */
+const percent = (x: Spread): Spread =>
+  x && {
+    ...x,
+    min: x.min * 100,
+    p25: x.p25 * 100,
+    median: x.median * 100,
+    p75: x.p75 * 100,
+    max: x.max * 100,
+  };
+
+function Derates({ s }: { s: SizingResultView }) {
+  const fleet = s.fleet.derate;
+  if (!fleet) return <Empty>No samples were read: derate figures need the stored samples.</Empty>;
+  return (
+    <div class="table-wrap">
+      <table class="grid" data-table="derates">
+        <thead>
+          <tr>
+            <th scope="col">Vehicle</th>
+            <th scope="col" class="num">
+              Events
+            </th>
+            <th scope="col" class="num">
+              Hours derated
+            </th>
+            <th scope="col" class="num">
+              Share of driving
+            </th>
+            <th scope="col" class="num">
+              Energy not delivered
+            </th>
+            <th scope="col" class="num">
+              Heat at onset (p50 / p95)
+            </th>
+          </tr>
+        </thead>
+        <tbody>
+          {s.vehicles.map((v) => (
+            <tr key={v.id} data-vehicle={v.id}>
+              <th scope="row">
+                <a href={href.vehicle(v.id)}>{v.id}</a>{' '}
+                <span class="small muted">{POWERTRAIN_WORD[v.powertrain]}</span>
+              </th>
+              <td class="num" data-col="events">
+                {v.derate?.events ?? '—'}
+              </td>
+              <td class="num">{num(v.derate?.hours, 'h', 2)}</td>
+              <td class="num">{num((v.derate?.share_of_time ?? Number.NaN) * 100, '%', 2)}</td>
+              <td class="num">{num(v.derate?.energy_not_delivered_kwh, 'kWh')}</td>
+              <td class="num">
+                {num(v.derate?.onset_heat_kw?.p50, '')} / {num(v.derate?.onset_heat_kw?.p95, 'kW')}
+              </td>
+            </tr>
+          ))}
+          <tr data-vehicle="fleet" class="total">
+            <th scope="row">Fleet</th>
+            <td class="num" data-col="events">
+              {fleet.events}
+            </td>
+            <td class="num">{num(fleet.hours, 'h', 2)}</td>
+            <td class="num">
+              {num(fleet.of_hours > 0 ? (100 * fleet.hours) / fleet.of_hours : null, '%', 2)}
+            </td>
+            <td class="num">{num(fleet.energy_not_delivered_kwh, 'kWh')}</td>
+            <td class="num">
+              {num(fleet.onset_heat_kw?.p50, '')} / {num(fleet.onset_heat_kw?.p95, 'kW')}
+            </td>
+          </tr>
+        </tbody>
+      </table>
+    </div>
+  );
+}
+
+function Duty({ s }: { s: SizingResultView }) {
+  const d = s.fleet.duty_cycle;
+  if (!d) return <Empty>No samples were read: the duty cycle needs the stored samples.</Empty>;
+  return (
+    <>
+      <div class="two-col">
+        <DutyChart duty={d} by="speed" />
+        <DutyChart duty={d} by="ambient" />
+      </div>
+      <p class="small muted" data-fig="time-above">
+        Time above the design heat:{' '}
+        {d.time_above
+          .map((t) => `${num(t.share_of_design * 100, '%', 0)} of design ${num(t.hours, 'h', 1)}`)
+          .join(' · ')}
+      </p>
+    </>
+  );
+}
+
+function Sheet({ r, session }: { r: SizingResponse; session: Session }) {
+  const s = r.sizing;
+  return (
+    <>
+      <dl class="figures">
+        <div>
+          <dt>Trips</dt>
+          <dd data-fig="trips">{s.period.trips}</dd>
+        </div>
+        <div>
+          <dt>Samples</dt>
+          <dd>{s.period.samples.toLocaleString('en')}</dd>
+        </div>
+        <div>
+          <dt>Period</dt>
+          <dd>
+            {when(s.period.first_trip, false)} … {when(s.period.last_trip, false)}
+          </dd>
+        </div>
+        <div>
+          <dt>Computed</dt>
+          <dd>
+            {when(r.computed_at)}
+            {r.trips_without_samples > 0 && (
+              <div class="small muted">{r.trips_without_samples} trips without samples</div>
+            )}
+          </dd>
+        </div>
+      </dl>
+      <section aria-labelledby="calc">
+        <h2 id="calc">Calculator</h2>
+        <SizingCalculator session={session} sizing={s} />
+      </section>
+      <section aria-labelledby="fieldk">
+        <h2 id="fieldk">Field k against the bench</h2>
+        <FieldK s={s} />
+      </section>
+      <section aria-labelledby="duty">
+        <h2 id="duty">Heat-load duty cycle</h2>
+        <Duty s={s} />
+      </section>
+      <section aria-labelledby="fouling">
+        <h2 id="fouling">Fouling rate and cleaning interval</h2>
+        <Fouling s={s} />
+      </section>
+      <section aria-labelledby="derates">
+        <h2 id="derates">Recorded derates</h2>
+        <Derates s={s} />
+      </section>
+    </>
+  );
+}
+
+/** Sizing sheet: what the fleet measured, as the assumptions for the next cooling package. */
+export function SizingSheet({ session }: { session: Session }) {
+  const live = useLive();
+  // New trip results (a live `trip` event bumps the version) can change the figures.
+  const res = useResource(() => session.api.sizing(), [session, live.version]);
+  return (
+    <div class="screen" data-screen="sizing">
+      <h1>Sizing sheet</h1>
+      <Loaded res={res} what="the fleet's sizing figures">
+        {(r) => <Sheet r={r} session={session} />}
+      </Loaded>
+    </div>
+  );
+}
