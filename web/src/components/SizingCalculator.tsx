@@ -8,6 +8,7 @@ import { useResource } from '../state/resource.ts';
 import { href } from '../state/route.ts';
 import type { Session } from '../state/session.ts';
 import { Loading } from './States.tsx';
+import { TableHead } from './TableHead.tsx';
 
 export const POWERTRAIN_WORD: Record<Powertrain, string> = {
   ice: 'engine',
@@ -110,29 +111,10 @@ function Answer({ a }: { a: CalculatorResponse }) {
       </p>
       <div class="table-wrap">
         <table class="grid" data-table="drivetrains">
-          <thead>
-            <tr>
-              <th scope="col">Drivetrain</th>
-              <th scope="col" class="num">
-                Efficiency
-              </th>
-              <th scope="col" class="num">
-                Heat to coolant
-              </th>
-              <th scope="col" class="num">
-                Coolant limit
-              </th>
-              <th scope="col" class="num">
-                ITD
-              </th>
-              <th scope="col" class="num">
-                Required area
-              </th>
-              <th scope="col" class="num">
-                × engine
-              </th>
-            </tr>
-          </thead>
+          <TableHead
+            text={['Drivetrain']}
+            figures={['Efficiency', 'Heat to coolant', 'Coolant limit', 'ITD', 'Required area', '× engine']}
+          />
           <tbody>
             {a.drivetrains.rows.map((r) => (
               <tr key={r.powertrain} data-powertrain={r.powertrain}>
@@ -176,29 +158,17 @@ function WhatIf({ w }: { w: NonNullable<CalculatorResponse['what_if']> }) {
       {derated.length > 0 && (
         <div class="table-wrap">
           <table class="grid" data-table="what-if">
-            <thead>
-              <tr>
-                <th scope="col">Vehicle</th>
-                <th scope="col" class="num">
-                  Design ambient
-                </th>
-                <th scope="col" class="num">
-                  Coolant limit
-                </th>
-                <th scope="col" class="num">
-                  Events
-                </th>
-                <th scope="col" class="num">
-                  Hours derated
-                </th>
-                <th scope="col" class="num">
-                  Days
-                </th>
-                <th scope="col" class="num">
-                  Not delivered
-                </th>
-              </tr>
-            </thead>
+            <TableHead
+              text={['Vehicle']}
+              figures={[
+                'Design ambient',
+                'Coolant limit',
+                'Events',
+                'Hours derated',
+                'Days',
+                'Not delivered',
+              ]}
+            />
             <tbody>
               {derated.map((v) => (
                 <tr key={v.id} data-vehicle={v.id}>

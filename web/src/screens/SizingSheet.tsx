@@ -8,6 +8,7 @@ import { useLive } from '../state/live.ts';
 import { useResource } from '../state/resource.ts';
 import { href } from '../state/route.ts';
 import type { Session } from '../state/session.ts';
+import { TableHead } from '../components/TableHead.tsx';
 
 const BAND_WORD = { ram: 'ram air', fan: 'fan at standstill' } as const;
 type Spread = GroupSizingView['field_k'][number]['ratio'];
@@ -34,27 +35,16 @@ function FieldK({ s }: { s: SizingResultView }) {
   return (
     <div class="table-wrap">
       <table class="grid" data-table="field-k">
-        <thead>
-          <tr>
-            <th scope="col">Vehicle</th>
-            <th scope="col">Band</th>
-            <th scope="col" class="num">
-              Trips
-            </th>
-            <th scope="col" class="num">
-              Field k (95 % interval)
-            </th>
-            <th scope="col" class="num">
-              Bench k
-            </th>
-            <th scope="col" class="num">
-              Field ÷ bench (95 % interval)
-            </th>
-            <th scope="col" class="num">
-              Clean ÷ bench
-            </th>
-          </tr>
-        </thead>
+        <TableHead
+          text={['Vehicle', 'Band']}
+          figures={[
+            'Trips',
+            'Field k (95 % interval)',
+            'Bench k',
+            'Field ÷ bench (95 % interval)',
+            'Clean ÷ bench',
+          ]}
+        />
         <tbody>
           {s.vehicles.flatMap((v) =>
             v.field_k.map((k) => (
@@ -102,24 +92,15 @@ function Fouling({ s }: { s: SizingResultView }) {
     <>
       <div class="table-wrap">
         <table class="grid" data-table="fouling">
-          <thead>
-            <tr>
-              <th scope="col">Group</th>
-              <th scope="col">Band</th>
-              <th scope="col" class="num">
-                k lost per month
-              </th>
-              <th scope="col" class="num">
-                k lost per 1000 km
-              </th>
-              <th scope="col" class="num">
-                Cleaning → inspection
-              </th>
-              <th scope="col" class="num">
-                Fouling allowance for {s.options.cleaning_interval_days} d
-              </th>
-            </tr>
-          </thead>
+          <TableHead
+            text={['Group', 'Band']}
+            figures={[
+              'k lost per month',
+              'k lost per 1000 km',
+              'Cleaning → inspection',
+              `Fouling allowance for ${s.options.cleaning_interval_days} d`,
+            ]}
+          />
           <tbody>
             {groups.flatMap((g) =>
               g.fouling.map((f) => (
@@ -167,26 +148,16 @@ function Derates({ s }: { s: SizingResultView }) {
   return (
     <div class="table-wrap">
       <table class="grid" data-table="derates">
-        <thead>
-          <tr>
-            <th scope="col">Vehicle</th>
-            <th scope="col" class="num">
-              Events
-            </th>
-            <th scope="col" class="num">
-              Hours derated
-            </th>
-            <th scope="col" class="num">
-              Share of driving
-            </th>
-            <th scope="col" class="num">
-              Energy not delivered
-            </th>
-            <th scope="col" class="num">
-              Heat at onset (p50 / p95)
-            </th>
-          </tr>
-        </thead>
+        <TableHead
+          text={['Vehicle']}
+          figures={[
+            'Events',
+            'Hours derated',
+            'Share of driving',
+            'Energy not delivered',
+            'Heat at onset (p50 / p95)',
+          ]}
+        />
         <tbody>
           {s.vehicles.map((v) => (
             <tr key={v.id} data-vehicle={v.id}>
