@@ -1,3 +1,4 @@
+import { setImmediate as nextTurn } from 'node:timers/promises';
 import type { TripResult } from '@thermargin/shared';
 import { openSampleStore, type ResultsStore, type SampleStore } from '@thermargin/store';
 import { createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis';
@@ -49,6 +50,9 @@ export async function vehicleSizingInput(
     const from = i === 0 ? 0 : starts[i]!;
     const to = j < trips.length ? starts[j]! : Date.parse(trips[j - 1]!.end) + 1;
     const piece = trips.slice(i, j);
+    // A turn of the event loop between pieces: a SQLite read resolves at once, and a fleet's pieces
+    // back to back would hold a server in the same process (the API) for seconds.
+    await nextTurn();
     const c = await samples.readSamples(v.id, from, to);
     try {
       if (c.n === 0) missing += piece.length;
