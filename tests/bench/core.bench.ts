@@ -45,37 +45,42 @@ function estimator(): void {
   );
 }
 
+/** One vehicle's rows in time order (trips one after another), as a logger's export writes them. */
 async function writeCsv(file: string, rows: number): Promise<void> {
   const out = createWriteStream(file);
   out.write(
     'time,vehicle,trip,speed_kmh,power_kw,coolant_in_c,coolant_out_c,ambient_c,fan_pct,coolant_flow_lpm,derate\n',
   );
-  const per = 250_000;
+  // Whole one-hour trips per piece; each piece starts 10 minutes (a stop, as between its trips) after the last.
+  const per = 70 * 3600;
+  let shift_ms = 0;
   for (let from = 0; from < rows; from += per) {
     const c = syntheticColumns(Math.min(per, rows - from), from + 1);
     const lines: string[] = [];
     for (let i = 0; i < c.n; i++) {
       lines.push(
-        `${new Date(c.time_ms[i]! + from * 1000).toISOString()},bus-01,,${c.speed_kmh[i]!.toFixed(2)},${c.power_kw[i]!.toFixed(2)},${c.coolant_in_c[i]!.toFixed(3)},,${c.ambient_c[i]},${c.fan_pct[i]},,0`,
+        `${new Date(c.time_ms[i]! + shift_ms).toISOString()},bus-01,,${c.speed_kmh[i]!.toFixed(2)},${c.power_kw[i]!.toFixed(2)},${c.coolant_in_c[i]!.toFixed(3)},,${c.ambient_c[i]},${c.fan_pct[i]},,0`,
       );
     }
+    shift_ms += c.time_ms[c.n - 1]! - c.time_ms[0]! + 600_000;
     if (!out.write(`${lines.join('\n')}\n`)) await new Promise<void>((r) => out.once('drain', () => r()));
   }
   await new Promise<void>((r) => out.end(() => r()));
 }
 
-/** The CLI in a child process; returns seconds and its peak RSS in MB. */
-function runAnalyze(fleet: string, csv: string): { s: number; rss_mb: number; code: number } {
+/** The CLI in a child process: wall seconds, its CPU seconds (user + system) and peak RSS in MB. */
+function runAnalyze(args: string[]): { s: number; cpu_s: number; rss_mb: number; code: number } {
   const script = `const { main } = await import(${JSON.stringify(join(import.meta.dirname, '../../services/cli/src/main.ts'))});
-const code = await main(['analyze', '--fleet', ${JSON.stringify(fleet)}, '--data', ${JSON.stringify(csv)}, '--out', '/dev/null']);
-process.stderr.write('\\nmaxrss_kb=' + process.resourceUsage().maxRSS + '\\n'); process.exitCode = code;`;
+const code = await main(${JSON.stringify(['analyze', ...args, '--out', '/dev/null'])});
+const u = process.resourceUsage();
+process.stderr.write('\\nusage=' + u.maxRSS + ',' + (u.userCPUTime + u.systemCPUTime) + '\\n'); process.exitCode = code;`;
   const t0 = process.hrtime.bigint();
   const r = spawnSync(process.execPath, ['--import', 'tsx', '--input-type=module', '-e', script], {
     encoding: 'utf8',
   });
   const s = Number(process.hrtime.bigint() - t0) / 1e9;
-  const rss = Number(/maxrss_kb=(\d+)/.exec(r.stderr)?.[1] ?? Number.NaN) / 1024;
-  return { s, rss_mb: rss, code: r.status ?? -1 };
+  const [, rss_kb, cpu_us] = /usage=(\d+),(\d+)/.exec(r.stderr) ?? [];
+  return { s, cpu_s: Number(cpu_us) / 1e6, rss_mb: Number(rss_kb) / 1024, code: r.status ?? -1 };
 }
 
 async function endToEnd(): Promise<void> {
@@ -93,8 +98,10 @@ async function endToEnd(): Promise<void> {
     for await (const chunk of createReadStream(full, { encoding: 'utf8', highWaterMark: 1 << 20 }))
       lines += (chunk as string).split('\n').length - 1;
     const baseS = Number(process.hrtime.bigint() - t0) / 1e9;
-    const h = runAnalyze(fleet, half);
-    const f = runAnalyze(fleet, full);
+    // Start-up alone: every module loaded, then a usage error (no --data) before any row is read.
+    const start = runAnalyze(['--fleet', fleet]);
+    const h = runAnalyze(['--fleet', fleet, '--data', half]);
+    const f = runAnalyze(['--fleet', fleet, '--data', full]);
     const rate = CSV_ROWS / f.s;
     console.log(
       `thermargin analyze end to end: ${fmt(CSV_ROWS)} rows, ${(statSync(full).size / 1048576).toFixed(0)} MB CSV`,
@@ -106,7 +113,10 @@ async function endToEnd(): Promise<void> {
       `  baseline read + split lines      ${fmt(lines / baseS)} rows/s   ratio ${(rate / (lines / baseS)).toFixed(3)}`,
     );
     console.log(
-      `  peak RSS: ${h.rss_mb.toFixed(0)} MB at ${fmt(CSV_ROWS / 2)} rows, ${f.rss_mb.toFixed(0)} MB at ${fmt(CSV_ROWS)} rows`,
+      `  CPU time: ${f.cpu_s.toFixed(2)} s at ${fmt(CSV_ROWS)} rows, ${h.cpu_s.toFixed(2)} s at ${fmt(CSV_ROWS / 2)}, ${start.cpu_s.toFixed(2)} s start-up alone (${start.s.toFixed(2)} s wall)`,
+    );
+    console.log(
+      `  peak RSS: ${h.rss_mb.toFixed(0)} MB at ${fmt(CSV_ROWS / 2)} rows, ${f.rss_mb.toFixed(0)} MB at ${fmt(CSV_ROWS)} rows (ratio ${(f.rss_mb / h.rss_mb).toFixed(2)}; ${start.rss_mb.toFixed(0)} MB start-up alone)`,
     );
   } finally {
     rmSync(dir, { recursive: true, force: true });

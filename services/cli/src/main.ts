@@ -1,36 +1,47 @@
-import { REANALYZE_USAGE, reanalyzeCommand } from '@thermargin/analyzer/reanalyze-command';
 import { InputError } from '@thermargin/shared';
-import { ANALYZE_USAGE, analyzeCommand } from './commands/analyze.ts';
-import { SIZING_USAGE, sizingCommand } from './commands/sizing.ts';
 
-const COMMANDS: Record<
-  string,
-  { usage: string; run: (argv: string[], log: (l: string) => void) => Promise<void> }
-> = {
-  analyze: { usage: ANALYZE_USAGE, run: analyzeCommand },
-  sizing: { usage: SIZING_USAGE, run: sizingCommand },
-  reanalyze: { usage: REANALYZE_USAGE, run: reanalyzeCommand },
+interface Command {
+  usage: string;
+  run: (argv: string[], log: (l: string) => void) => Promise<void>;
+}
+
+/** Each command's module loads only when needed: start-up counts in every run, and reanalyze pulls in the stores. */
+const COMMANDS: Record<string, () => Promise<Command>> = {
+  analyze: async () => {
+    const m = await import('./commands/analyze.ts');
+    return { usage: m.ANALYZE_USAGE, run: m.analyzeCommand };
+  },
+  sizing: async () => {
+    const m = await import('./commands/sizing.ts');
+    return { usage: m.SIZING_USAGE, run: m.sizingCommand };
+  },
+  reanalyze: async () => {
+    const m = await import('@thermargin/analyzer/reanalyze-command');
+    return { usage: m.REANALYZE_USAGE, run: m.reanalyzeCommand };
+  },
 };
 
-const USAGE = `thermargin — per-trip heat load, in-service radiator k and cooling margin from fleet telemetry
+async function usage(): Promise<string> {
+  const commands = await Promise.all(Object.values(COMMANDS).map((load) => load()));
+  return `thermargin — per-trip heat load, in-service radiator k and cooling margin from fleet telemetry
 
-${Object.values(COMMANDS)
-  .map((c) => c.usage)
-  .join('\n\n')}`;
+${commands.map((c) => c.usage).join('\n\n')}`;
+}
 
 /** Runs one command; returns the process exit code (0 done, 2 unusable input or usage, 1 failure). */
 export async function main(argv: string[]): Promise<number> {
   const log = (line: string) => process.stderr.write(`${line}\n`);
   const [name, ...rest] = argv;
   if (!name || name === '--help' || name === '-h' || name === 'help') {
-    process.stdout.write(`${USAGE}\n`);
+    process.stdout.write(`${await usage()}\n`);
     return name ? 0 : 2;
   }
-  const cmd = COMMANDS[name];
-  if (!cmd) {
-    log(`thermargin: unknown command "${name}"\n\n${USAGE}`);
+  const load = Object.hasOwn(COMMANDS, name) ? COMMANDS[name] : undefined;
+  if (!load) {
+    log(`thermargin: unknown command "${name}"\n\n${await usage()}`);
     return 2;
   }
+  const cmd = await load();
   try {
     await cmd.run(rest, log);
     return 0;

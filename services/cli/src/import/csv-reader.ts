@@ -70,13 +70,16 @@ export function splitCsvLine(line: string): string[] {
   return out;
 }
 
-/** Field boundaries of the line text[start, end) into `from`/`to` (at most their length); returns the count. */
-function fieldBounds(text: string, start: number, end: number, from: Int32Array, to: Int32Array): number {
+/** JavaScript's trim() whitespace within Latin-1: tab, LF, VT, FF, CR, space, no-break space. */
+const isBlank = (c: number) => c === 32 || (c >= 9 && c <= 13) || c === 160;
+
+/** Field boundaries of the line s[start, end) into `from`/`to` (at most their length); returns the count. */
+function fieldBounds(s: Uint8Array, start: number, end: number, from: Int32Array, to: Int32Array): number {
   let f = 0;
   let pos = start;
   while (f < from.length) {
-    let comma = text.indexOf(',', pos);
-    if (comma < 0 || comma > end) comma = end;
+    let comma = pos;
+    while (comma < end && s[comma] !== 44) comma++;
     from[f] = pos;
     to[f++] = comma;
     if (comma === end) break;
@@ -85,12 +88,19 @@ function fieldBounds(text: string, start: number, end: number, from: Int32Array,
   return f;
 }
 
-/** A field as text, reusing the previous string when the characters are the same (ids repeat row after row). */
-function fieldText(text: string, a: number, b: number, previous: string): string {
-  return b - a === previous.length && text.startsWith(previous, a) ? previous : text.slice(a, b).trim();
+/** Whether the bytes s[a, b) spell `text` (Latin-1). */
+function spells(s: Uint8Array, a: number, b: number, text: string): boolean {
+  if (b - a !== text.length) return false;
+  for (let i = 0; i < text.length; i++) if (s[a + i] !== text.charCodeAt(i)) return false;
+  return true;
 }
 
-/** Parses the rows of one file; positions of fields are kept in reusable arrays. */
+/** A field as trimmed text, reusing the previous string when the bytes are the same (ids repeat row after row). */
+function fieldText(s: Buffer, a: number, b: number, previous: string): string {
+  return spells(s, a, b, previous) ? previous : s.toString('latin1', a, b).trim();
+}
+
+/** Parses the rows of one file from its bytes; positions of fields are kept in reusable arrays. */
 class RowParser {
   private layout: Layout | null = null;
   private from = new Int32Array(0);
@@ -98,7 +108,9 @@ class RowParser {
   private values = new Float64Array(NUMERIC_COLUMNS.length);
   /** The last valid vehicle id seen (repeats are not validated again). */
   private vehicle = '';
+  /** The last trip id seen and whether it is valid (empty counts as valid: no trip given). */
   private trip = '';
+  private tripOk = true;
   line = 0;
   rows = 0;
 
@@ -107,45 +119,49 @@ class RowParser {
     private readonly sink: CsvSink,
   ) {}
 
-  /** One line: text[start, end); `quoted` when it holds a double quote. */
-  take(text: string, start: number, end: number, quoted: boolean): void {
+  /** One line: s[start, end); `quoted` when it holds a double quote. */
+  take(s: Buffer, start: number, end: number, quoted: boolean): void {
     this.line++;
     if (this.line === 1) {
-      this.layout = layoutOf(this.file, text.slice(start, end));
+      this.layout = layoutOf(this.file, s.toString('latin1', start, end));
       this.from = new Int32Array(this.layout.width);
       this.to = new Int32Array(this.layout.width);
       return;
     }
-    if (end === start || (text.charCodeAt(start) <= 32 && text.slice(start, end).trim() === '')) return;
+    if (end === start || (s[start]! <= 32 && isBlankLine(s, start, end))) return;
     if (quoted) {
       // Rare: rebuild the line unquoted, then read it like any other.
-      const fields = splitCsvLine(text.slice(start, end));
+      const fields = splitCsvLine(s.toString('latin1', start, end));
       if (fields.some((f) => f.includes(','))) {
         this.sink.bad(`${this.file}:${this.line}`, 'csv_comma_in_field');
         return;
       }
-      const flat = fields.join(',');
+      const flat = Buffer.from(fields.join(','), 'latin1');
       this.row(flat, fieldBounds(flat, 0, flat.length, this.from, this.to));
       return;
     }
-    this.row(text, fieldBounds(text, start, end, this.from, this.to));
+    this.row(s, fieldBounds(s, start, end, this.from, this.to));
   }
 
-  private row(text: string, fields: number): void {
+  private row(s: Buffer, fields: number): void {
     const l = this.layout!;
     const { from, to, values } = this;
     if (fields < l.width) {
       this.bad('csv_short_row');
       return;
     }
-    const vehicle = fieldText(text, from[l.vehicle]!, to[l.vehicle]!, this.vehicle);
+    const vehicle = fieldText(s, from[l.vehicle]!, to[l.vehicle]!, this.vehicle);
     if (vehicle !== this.vehicle && !isValidId(vehicle)) {
       this.bad('csv_bad_vehicle');
       return;
     }
     this.vehicle = vehicle;
     const tc = l.numeric[0]!;
-    const time = fastTime_ms(text.slice(from[tc]!, to[tc]!).trim());
+    let a = from[tc]!;
+    let b = to[tc]!;
+    while (a < b && isBlank(s[a]!)) a++;
+    while (b > a && isBlank(s[b - 1]!)) b--;
+    const time = fastTime_ms(s, a, b);
     if (!Number.isFinite(time)) {
       this.bad('csv_bad_time');
       return;
@@ -153,7 +169,7 @@ class RowParser {
     values[0] = time;
     for (let k = 1; k < l.numeric.length; k++) {
       const col = l.numeric[k]!;
-      const x = col < 0 ? undefined : readDecimal(text, from[col]!, to[col]!);
+      const x = col < 0 ? undefined : readDecimal(s, from[col]!, to[col]!);
       if (x === undefined) values[k] = Number.NaN;
       else if (Number.isNaN(x)) {
         this.bad(`csv_not_a_number:${NUMERIC_COLUMNS[k]}`);
@@ -162,12 +178,16 @@ class RowParser {
     }
     let trip: string | undefined;
     if (l.trip >= 0) {
-      this.trip = fieldText(text, from[l.trip]!, to[l.trip]!, this.trip);
-      trip = this.trip || undefined;
-      if (trip !== undefined && !isValidId(trip)) {
+      const text = fieldText(s, from[l.trip]!, to[l.trip]!, this.trip);
+      if (text !== this.trip) {
+        this.trip = text;
+        this.tripOk = text === '' || isValidId(text);
+      }
+      if (!this.tripOk) {
         this.bad('csv_bad_trip');
         return;
       }
+      trip = this.trip || undefined;
     }
     this.rows++;
     this.sink.sample(this.vehicle, values, trip);
@@ -178,45 +198,62 @@ class RowParser {
   }
 }
 
+/** Whether s[start, end) holds nothing but whitespace (such lines are skipped, not counted). */
+function isBlankLine(s: Uint8Array, start: number, end: number): boolean {
+  for (let i = start; i < end; i++) if (!isBlank(s[i]!)) return false;
+  return true;
+}
+
 /** bytes read per system call: few large reads win on these machines (≈ 1 µs per call). */
 const READ_BYTES = 4 << 20;
 
 /**
  * Reads one CSV file of the import format (header naming the contract's columns in any order,
- * unknown columns ignored, empty cell = missing) into `sink`, chunk by chunk. Decoded as Latin-1: every
+ * unknown columns ignored, empty cell = missing) into `sink`, chunk by chunk, parsing the bytes in
+ * place (no string per line or field; only a changed id becomes a string). Read as Latin-1: every
  * valid field is ASCII, and a stray byte makes an invalid id or number that is rejected, never a crash.
  * Throws InputError when the file itself is unusable (empty, no header, required columns missing);
  * bad rows go to `sink.bad` with file:line.
  */
 export function readCsvFile(file: string, sink: CsvSink, onBytes?: (n: number) => void): number {
   const p = new RowParser(file, sink);
-  const buf = Buffer.allocUnsafe(READ_BYTES);
+  let buf = Buffer.allocUnsafe(READ_BYTES);
   let fd: number;
   try {
     fd = openSync(file, 'r');
   } catch {
     throw new InputError([{ where: file, rule: 'cannot open the file' }]);
   }
-  let rest = '';
+  /** Bytes of an unfinished last line, carried at the front of `buf`. */
+  let kept = 0;
   try {
-    for (let n = readSync(fd, buf, 0, READ_BYTES, null); n > 0; n = readSync(fd, buf, 0, READ_BYTES, null)) {
-      const text = rest + buf.toString('latin1', 0, n);
+    for (;;) {
+      if (kept === buf.length) {
+        // One line longer than the buffer: make room for the rest of it.
+        const bigger = Buffer.allocUnsafe(buf.length * 2);
+        buf.copy(bigger, 0, 0, kept);
+        buf = bigger;
+      }
+      const n = readSync(fd, buf, kept, buf.length - kept, null);
+      if (n === 0) break;
+      const s = buf.subarray(0, kept + n);
       let start = 0;
       // Searched once per chunk, not per line: most files hold no quote at all.
-      let quote = text.indexOf('"');
-      for (let nl = text.indexOf('\n'); nl >= 0; nl = text.indexOf('\n', start)) {
-        if (quote >= 0 && quote < start) quote = text.indexOf('"', start);
-        p.take(text, start, text.charCodeAt(nl - 1) === 13 ? nl - 1 : nl, quote >= 0 && quote < nl);
+      let quote = s.indexOf(34);
+      for (let nl = s.indexOf(10); nl >= 0; nl = s.indexOf(10, start)) {
+        if (quote >= 0 && quote < start) quote = s.indexOf(34, start);
+        p.take(s, start, nl > start && s[nl - 1] === 13 ? nl - 1 : nl, quote >= 0 && quote < nl);
         start = nl + 1;
       }
-      rest = text.slice(start);
+      kept = s.length - start;
+      buf.copyWithin(0, start, s.length);
       onBytes?.(n);
     }
   } finally {
     closeSync(fd);
   }
-  if (rest.trim() !== '')
-    p.take(rest, 0, rest.endsWith('\r') ? rest.length - 1 : rest.length, rest.includes('"'));
+  if (!isBlankLine(buf, 0, kept))
+    p.take(buf, 0, buf[kept - 1] === 13 ? kept - 1 : kept, buf.subarray(0, kept).includes(34));
   if (p.line === 0) throw new InputError([{ where: file, rule: 'empty file (no header row)' }]);
   return p.rows;
 }

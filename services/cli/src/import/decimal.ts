@@ -1,16 +1,16 @@
 /**
- * Reads a plain decimal number (`-12.345`, spaces around allowed) from text[a, b) without making a
- * substring. Exact: digits ≤ 15 and a power of ten ≤ 10²² are exact doubles, so one division rounds
- * correctly, as Number() does. Anything else (exponents, long mantissas, text) goes through Number();
- * returns NaN for text that is not a number and undefined for an empty cell.
+ * Reads a plain decimal number (`-12.345`, spaces around allowed) from the Latin-1 bytes s[a, b)
+ * without making a string. Exact: digits ≤ 15 and a power of ten ≤ 10²² are exact doubles, so one
+ * division rounds correctly, as Number() does. Anything else (exponents, long mantissas, text) goes
+ * through Number(); returns NaN for text that is not a number and undefined for an empty cell.
  */
-export function readDecimal(text: string, a: number, b: number): number | undefined {
-  while (a < b && text.charCodeAt(a) === 32) a++;
-  while (b > a && text.charCodeAt(b - 1) === 32) b--;
+export function readDecimal(s: Buffer, a: number, b: number): number | undefined {
+  while (a < b && s[a] === 32) a++;
+  while (b > a && s[b - 1] === 32) b--;
   if (a === b) return undefined;
   let i = a;
   let neg = false;
-  const c0 = text.charCodeAt(i);
+  const c0 = s[i]!;
   if (c0 === 45 || c0 === 43) {
     neg = c0 === 45;
     i++;
@@ -20,15 +20,15 @@ export function readDecimal(text: string, a: number, b: number): number | undefi
   let scale = 0;
   let dot = false;
   for (; i < b; i++) {
-    const c = text.charCodeAt(i);
+    const c = s[i]!;
     if (c >= 48 && c <= 57) {
       mant = mant * 10 + (c - 48);
       digits++;
       if (dot) scale++;
     } else if (c === 46 && !dot) dot = true;
-    else return Number(text.slice(a, b));
+    else return Number(s.toString('latin1', a, b));
   }
-  if (digits === 0 || digits > 15 || scale > 22) return Number(text.slice(a, b));
+  if (digits === 0 || digits > 15 || scale > 22) return Number(s.toString('latin1', a, b));
   const x = scale ? mant / 10 ** scale : mant;
   return neg ? -x : x;
 }

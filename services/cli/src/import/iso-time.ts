@@ -1,6 +1,6 @@
 import { parseTime } from '@thermargin/shared';
 
-const d = (s: string, i: number) => s.charCodeAt(i) - 48;
+const d = (s: Uint8Array, i: number) => s[i]! - 48;
 
 /** Days since 1970-01-01 of a proleptic Gregorian date (Hinnant, "chrono-Compatible Low-Level Date Algorithms"). */
 function daysFromCivil(y: number, m: number, day: number): number {
@@ -14,30 +14,33 @@ function daysFromCivil(y: number, m: number, day: number): number {
 const DIGITS = [0, 1, 2, 3, 5, 6, 8, 9, 11, 12, 14, 15, 17, 18];
 const DIGITS_MS = [...DIGITS, 20, 21, 22];
 
-function digitsAt(s: string, at: readonly number[]): boolean {
+/** Whether bytes[a + i] is a digit for every i in `at`, with the colons and the dot where they belong. */
+function digitsAt(s: Uint8Array, a: number, n: number, at: readonly number[]): boolean {
   for (const i of at) {
-    const c = s.charCodeAt(i);
+    const c = s[a + i]!;
     if (c < 48 || c > 57) return false;
   }
-  return s.charCodeAt(13) === 58 && s.charCodeAt(16) === 58 && (s.length === 20 || s.charCodeAt(19) === 46);
+  return s[a + 13] === 58 && s[a + 16] === 58 && (n === 20 || s[a + 19] === 46);
 }
 
 const MONTH_DAYS = [31, 29, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
 
 /**
- * Epoch ms of `YYYY-MM-DDTHH:MM:SS[.sss]Z` read digit by digit (the form loggers write; several times
- * faster than Date.parse on millions of rows); anything else goes through the general parseTime.
+ * Epoch ms of the time written in the Latin-1 bytes s[a, b) (already trimmed): `YYYY-MM-DDTHH:MM:SS[.sss]Z`,
+ * the form loggers write, is read digit by digit without making a string (several times faster than
+ * Date.parse on millions of rows); anything else goes through the general parseTime.
  */
-export function fastTime_ms(s: string): number {
-  const n = s.length;
-  if (!((n === 20 || n === 24) && s.charCodeAt(n - 1) === 90 && s.charCodeAt(10) === 84)) return parseTime(s);
-  const y = d(s, 0) * 1000 + d(s, 1) * 100 + d(s, 2) * 10 + d(s, 3);
-  const mo = d(s, 5) * 10 + d(s, 6);
-  const day = d(s, 8) * 10 + d(s, 9);
-  const h = d(s, 11) * 10 + d(s, 12);
-  const mi = d(s, 14) * 10 + d(s, 15);
-  const sec = d(s, 17) * 10 + d(s, 18);
-  const ms = n === 24 ? d(s, 20) * 100 + d(s, 21) * 10 + d(s, 22) : 0;
+export function fastTime_ms(s: Buffer, a: number, b: number): number {
+  const n = b - a;
+  if (!((n === 20 || n === 24) && s[b - 1] === 90 && s[a + 10] === 84))
+    return parseTime(s.toString('latin1', a, b));
+  const y = d(s, a) * 1000 + d(s, a + 1) * 100 + d(s, a + 2) * 10 + d(s, a + 3);
+  const mo = d(s, a + 5) * 10 + d(s, a + 6);
+  const day = d(s, a + 8) * 10 + d(s, a + 9);
+  const h = d(s, a + 11) * 10 + d(s, a + 12);
+  const mi = d(s, a + 14) * 10 + d(s, a + 15);
+  const sec = d(s, a + 17) * 10 + d(s, a + 18);
+  const ms = n === 24 ? d(s, a + 20) * 100 + d(s, a + 21) * 10 + d(s, a + 22) : 0;
   const leapOk = mo !== 2 || day < 29 || (y % 4 === 0 && (y % 100 !== 0 || y % 400 === 0));
   const ok =
     mo >= 1 &&
@@ -51,8 +54,8 @@ export function fastTime_ms(s: string): number {
     ms >= 0 &&
     ms < 1000 &&
     y >= 0 &&
-    s.charCodeAt(4) === 45 &&
-    s.charCodeAt(7) === 45;
-  if (!ok || !digitsAt(s, n === 24 ? DIGITS_MS : DIGITS)) return Number.NaN;
+    s[a + 4] === 45 &&
+    s[a + 7] === 45;
+  if (!ok || !digitsAt(s, a, n, n === 24 ? DIGITS_MS : DIGITS)) return Number.NaN;
   return ((daysFromCivil(y, mo, day) * 24 + h) * 60 + mi) * 60_000 + sec * 1000 + ms;
 }
