@@ -19,6 +19,7 @@ export const ENV = {
   SESSION_EXPIRY_S: 'INGEST_SESSION_EXPIRY_S',
   FLEET_FILE: 'INGEST_FLEET_FILE',
   MAX_PAYLOAD_BYTES: 'INGEST_MAX_PAYLOAD_BYTES',
+  DECODE_WORKERS: 'INGEST_DECODE_WORKERS',
   BATCH_SAMPLES: 'INGEST_BATCH_SAMPLES',
   LINGER_MS: 'INGEST_LINGER_MS',
   SPOOL_DIR: 'INGEST_SPOOL_DIR',
@@ -56,6 +57,8 @@ export interface IngesterConfig {
   };
   fleet_file: string;
   max_payload_bytes: number;
+  /** Worker threads that decode payloads (0: the main thread decodes; see README "Throughput"). */
+  decode_workers: number;
   batch_samples: number;
   linger_ms: number;
   spool_dir: string;
@@ -118,6 +121,7 @@ export function readIngesterConfig(env: Env = process.env): IngesterConfig {
     },
     fleet_file: str(ENV.FLEET_FILE),
     max_payload_bytes: int(ENV.MAX_PAYLOAD_BYTES, DEFAULT_MAX_PAYLOAD_BYTES, 1),
+    decode_workers: int(ENV.DECODE_WORKERS, 0, 0),
     batch_samples: int(ENV.BATCH_SAMPLES, PIPELINE_DEFAULTS.batch_samples, 1),
     linger_ms: int(ENV.LINGER_MS, PIPELINE_DEFAULTS.linger_ms, 0),
     spool_dir: str(ENV.SPOOL_DIR, 'data/spool'),

@@ -4,6 +4,7 @@ import {
   SIGNALS,
   type Sample,
   TIME_MIN_MS,
+  type WireSample,
   formatPath,
   parseSampleTopic,
   toSample,
@@ -11,6 +12,7 @@ import {
 } from '@thermargin/shared';
 import { type DeadLetter, type RejectReason, excerpt } from '@thermargin/store';
 import type { z } from 'zod';
+import { quickSample } from './quick-sample.ts';
 
 export interface DecodeContext {
   /** Vehicle ids of the fleet file. */
@@ -91,21 +93,42 @@ export function decodeMessage(topic: string, payload: Buffer, ctx: DecodeContext
   return out;
 }
 
+/** decodeMessage, with a last guard: an unforeseen throw dead-letters the message instead of stopping us. */
+export function safeDecode(topic: string, payload: Buffer, ctx: DecodeContext): Decoded {
+  try {
+    return decodeMessage(topic, payload, ctx);
+  } catch (e) {
+    const letter = {
+      received_ms: ctx.now_ms,
+      vehicle: parseSampleTopic(topic) ?? '',
+      reason: 'schema' as const,
+      detail: `could not be decoded: ${(e as Error).message}`,
+      topic: excerpt(topic, 256),
+      excerpt: excerpt(payload.subarray(0, 4096).toString('utf8')),
+      payload_bytes: payload.length,
+    };
+    return { samples: [], rejects: [letter] };
+  }
+}
+
 /** One sample of `vehicle`'s topic: the sample to store, or why not. */
 function judgeSample(
   item: unknown,
   vehicle: string,
   now_ms: number,
 ): Sample | { reason: RejectReason; detail: string } {
-  const r = wireSampleSchema.safeParse(item);
-  if (!r.success) return { reason: issueReason(r.error.issues[0], item), detail: issueText(r.error) };
-  if (r.data.vehicle !== vehicle)
-    return { reason: 'vehicle_mismatch', detail: `vehicle ${r.data.vehicle} on ${vehicle}'s topic` };
-  const s = toSample(r.data);
-  if (s.time_ms < TIME_MIN_MS)
-    return { reason: 'time_past', detail: `time ${r.data.time} is before 2000-01-01` };
+  let s = quickSample(item, vehicle);
+  if (s === undefined) {
+    const r = wireSampleSchema.safeParse(item);
+    if (!r.success) return { reason: issueReason(r.error.issues[0], item), detail: issueText(r.error) };
+    s = toSample(r.data);
+  }
+  if (s.vehicle !== vehicle)
+    return { reason: 'vehicle_mismatch', detail: `vehicle ${s.vehicle} on ${vehicle}'s topic` };
+  const time = (item as WireSample).time;
+  if (s.time_ms < TIME_MIN_MS) return { reason: 'time_past', detail: `time ${time} is before 2000-01-01` };
   if (s.time_ms > now_ms + FUTURE_TOLERANCE_MS) {
-    return { reason: 'time_future', detail: `time ${r.data.time} is more than a day after the receive time` };
+    return { reason: 'time_future', detail: `time ${time} is more than a day after the receive time` };
   }
   return s;
 }

@@ -1,9 +1,10 @@
 import type { Server } from 'node:http';
-import { SAMPLE_TOPIC_FILTER, parseSampleTopic, sharedSampleFilter } from '@thermargin/shared';
-import { type SampleStore, excerpt } from '@thermargin/store';
+import { SAMPLE_TOPIC_FILTER, sharedSampleFilter } from '@thermargin/shared';
+import type { SampleStore } from '@thermargin/store';
 import mqtt, { type IClientOptions, type MqttClient } from 'mqtt';
 import type { IngesterConfig } from './config.ts';
-import { type DecodeContext, type Decoded, decodeMessage } from './decode.ts';
+import { DecodePool } from './decode-pool.ts';
+import { type Decoded, safeDecode } from './decode.ts';
 import { IngestMetrics, serverPort, startMetricsServer } from './metrics.ts';
 import { PIPELINE_DEFAULTS, Pipeline } from './pipeline.ts';
 import { Spool } from './spool.ts';
@@ -40,24 +41,6 @@ export const RECEIVE_MAXIMUM = 8;
 /** bytes: the broker drops larger packets for us; set its own message_size_limit lower (see README). */
 export const MAXIMUM_PACKET_BYTES = 16 * 1024 * 1024;
 
-/** decodeMessage, with a last guard: an unforeseen throw dead-letters the message instead of stopping us. */
-function safeDecode(topic: string, payload: Buffer, ctx: DecodeContext): Decoded {
-  try {
-    return decodeMessage(topic, payload, ctx);
-  } catch (e) {
-    const letter = {
-      received_ms: ctx.now_ms,
-      vehicle: parseSampleTopic(topic) ?? '',
-      reason: 'schema' as const,
-      detail: `could not be decoded: ${(e as Error).message}`,
-      topic: excerpt(topic, 256),
-      excerpt: excerpt(payload.subarray(0, 4096).toString('utf8')),
-      payload_bytes: payload.length,
-    };
-    return { samples: [], rejects: [letter] };
-  }
-}
-
 /** Ends a connection after its last acknowledgements went out; forced when that takes over 2 s. */
 async function endClient(client: MqttClient): Promise<void> {
   let timer: NodeJS.Timeout | undefined;
@@ -86,6 +69,11 @@ export function createIngester(config: IngesterConfig, deps: IngesterDeps): Inge
     throw new Error(
       `ingester: ${config.mqtt.connections} connections need a shared subscription (INGEST_SHARE_GROUP); without one use INGEST_CONNECTIONS=1`,
     );
+  const decodeContext = { known_vehicles: deps.known_vehicles, max_payload_bytes: config.max_payload_bytes };
+  const pool =
+    config.decode_workers > 0 ? new DecodePool(config.decode_workers, decodeContext, log) : undefined;
+  /** decodes in flight on the pool: stop() lets them reach the pipeline before its last flush */
+  const decodes = new Set<Promise<void>>();
   const clients: MqttClient[] = [];
   let stopping = false;
   let server: Server | undefined;
@@ -128,15 +116,16 @@ export function createIngester(config: IngesterConfig, deps: IngesterDeps): Inge
     client.handleMessage = (packet, done) => {
       if (stopping) return; // never acknowledged: the broker redelivers it to this session or the group
       const payload = Buffer.isBuffer(packet.payload) ? packet.payload : Buffer.from(packet.payload);
-      const decoded = safeDecode(packet.topic, payload, {
-        known_vehicles: deps.known_vehicles,
-        now_ms: clock(),
-        max_payload_bytes: config.max_payload_bytes,
-      });
-      metrics.messages_received++;
-      metrics.samples_received += decoded.samples.length;
-      for (const r of decoded.rejects) metrics.reject(r.vehicle, r.reason);
-      pipeline.submit({ samples: decoded.samples, letters: decoded.rejects, ack: () => done() });
+      const deliver = (decoded: Decoded) => {
+        metrics.messages_received++;
+        metrics.samples_received += decoded.samples.length;
+        for (const r of decoded.rejects) metrics.reject(r.vehicle, r.reason);
+        pipeline.submit({ samples: decoded.samples, letters: decoded.rejects, ack: () => done() });
+      };
+      if (!pool) return deliver(safeDecode(packet.topic, payload, { ...decodeContext, now_ms: clock() }));
+      const decoding = pool.decode(packet.topic, payload, clock()).then(deliver);
+      decodes.add(decoding);
+      void decoding.finally(() => decodes.delete(decoding));
     };
     return new Promise<void>((resolve) => {
       client.on('connect', () => {
@@ -170,8 +159,10 @@ export function createIngester(config: IngesterConfig, deps: IngesterDeps): Inge
     },
     async stop() {
       stopping = true;
+      await Promise.all(decodes);
       await pipeline.flush();
       pipeline.close();
+      await pool?.close();
       await Promise.all(clients.map(endClient));
       if (server) await new Promise<void>((resolve) => server!.close(() => resolve()));
       log('ingester_stopped', { acked: metrics.messages_acked, spool_segments: spool.segments });

@@ -1,3 +1,4 @@
+import { setTimeout as sleep } from 'node:timers/promises';
 import type { Sample } from '@thermargin/shared';
 import type { DeadLetter, SampleStore } from '@thermargin/store';
 import type { IngestMetrics } from './metrics.ts';
@@ -200,8 +201,4 @@ export class Pipeline {
     this.metrics.spool_bytes = this.spool.bytes;
     this.metrics.spool_segments = this.spool.segments;
   }
-}
-
-function sleep(ms: number): Promise<void> {
-  return new Promise((resolve) => setTimeout(resolve, ms));
 }

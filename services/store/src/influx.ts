@@ -22,7 +22,13 @@ export const INFLUX_DEFAULTS = {
   max_retry_delay_ms: 2000,
   /** ms: HTTP timeout of one request. */
   timeout_ms: 10_000,
+  /** Gzip write bodies (the client's default): pays on a slow link; on a LAN or loopback it only
+   *  costs CPU (≈ 0.8 µs per line here, about as much as formatting the line) and influxd's to inflate. */
+  gzip: false,
 };
+
+/** bytes: with `gzip`, smaller bodies go uncompressed (the client's own threshold). */
+const GZIP_MIN_BYTES = 1000;
 
 export interface InfluxStoreOptions {
   url: string;
@@ -45,6 +51,7 @@ export interface InfluxStoreOptions {
   min_retry_delay_ms?: number;
   max_retry_delay_ms?: number;
   timeout_ms?: number;
+  gzip?: boolean;
 }
 
 /** The bucket name used for writes and the db/rp pair used for InfluxQL, for either API. */
@@ -96,6 +103,7 @@ export function createInfluxStore(options: InfluxStoreOptions): SampleStore {
         maxRetryDelay: o.max_retry_delay_ms,
         maxRetryTime: (o.max_retries + 1) * (o.max_retry_delay_ms + o.timeout_ms),
         maxBufferLines: Math.max(lines.length, o.batch_lines),
+        gzipThreshold: o.gzip ? GZIP_MIN_BYTES : Number.POSITIVE_INFINITY,
         writeSuccess(done) {
           pending -= done.length;
           if (pending <= 0) finish();

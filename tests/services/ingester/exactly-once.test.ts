@@ -1,4 +1,5 @@
 import { join } from 'node:path';
+import { ENV } from '@thermargin/ingester/config';
 import { type SampleStore, createInfluxStore, createSqliteStore } from '@thermargin/store';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { type InfluxServer, startInflux } from '../../support/servers/influx.ts';
@@ -26,7 +27,7 @@ afterAll(async () => {
   await Promise.all([broker?.close(), influx?.close()]);
 });
 
-async function runThrough(store: SampleStore, name: string) {
+async function runThrough(store: SampleStore, name: string, env: Record<string, string> = {}) {
   const ingester = await startFleetIngester({
     mqtt_url: broker.url,
     dir,
@@ -36,6 +37,7 @@ async function runThrough(store: SampleStore, name: string) {
     share_group: `once-${name}`,
     spool: name,
     store,
+    env,
   });
   const stream = fleetStream(IDS, 2500);
   await publishStream(broker.url, stream, 50);
@@ -49,6 +51,15 @@ describe('every sample of a fleet stream arrives exactly once (real Mosquitto)',
   it('into SQLite', async () => {
     const store = createSqliteStore({ path: join(dir, 'once.db') });
     const { want, got, metrics } = await runThrough(store, 'sqlite');
+    expect(got).toEqual(want);
+    expect(metrics.samples_received).toBe(want.count);
+    expect(metrics.rejected_total).toBe(0);
+    await store.close();
+  });
+
+  it('into SQLite, decoded on worker threads', async () => {
+    const store = createSqliteStore({ path: join(dir, 'once-workers.db') });
+    const { want, got, metrics } = await runThrough(store, 'workers', { [ENV.DECODE_WORKERS]: '2' });
     expect(got).toEqual(want);
     expect(metrics.samples_received).toBe(want.count);
     expect(metrics.rejected_total).toBe(0);
