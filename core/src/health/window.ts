@@ -3,9 +3,12 @@
  * whole history. Each mirrors the Array method it replaces exactly (including its handling of odd counts).
  */
 
-/** First index whose value is ≥ x in ascending `a` (a.length when none): `a.filter(v => v >= x)` starts there. */
-export function lowerBound(a: ArrayLike<number>, x: number): number {
-  let lo = 0;
+/**
+ * First index ≥ `from` whose value is ≥ x in ascending `a` (a.length when none): with `from` 0,
+ * `a.filter(v => v >= x)` starts there.
+ */
+export function lowerBound(a: ArrayLike<number>, x: number, from = 0): number {
+  let lo = from;
   let hi = a.length;
   while (lo < hi) {
     const mid = (lo + hi) >>> 1;

@@ -15,21 +15,21 @@ import {
   type VehicleResponse,
 } from '@thermargin/shared';
 import type { ApiContext } from './context.ts';
+import { JsonPage } from './json-page.ts';
 import { type Route, route } from './route.ts';
 import { alertViews, isOpenAlert, maintenanceViews, vehicleSummary } from './views.ts';
 
 const iso = (ms: number) => new Date(ms).toISOString();
 const dayStart = (s: string) => Date.parse(s.length === 10 ? `${s}T00:00:00Z` : s);
 
-const jsonResponse = (json: string) =>
-  new Response(json, { headers: { 'content-type': 'application/json; charset=utf-8' } });
-
 export function readRoutes(x: ApiContext): Route[] {
   const { deps } = x;
-  const pages = new Map<string, { key: string; json: string }>();
+  const pages = new Map<string, { key: string; page: JsonPage }>();
   let fleetAt = deps.fleet.current().input;
   let fleetGen = 0;
-  let fleetPage: { key: string; latest: unknown; fleet: unknown; revision: number; json: string } | undefined;
+  let fleetPage:
+    | { key: string; latest: unknown; fleet: unknown; revision: number; page: JsonPage }
+    | undefined;
   return [
     route({
       method: 'get',
@@ -95,7 +95,7 @@ export function readRoutes(x: ApiContext): Route[] {
       summary:
         'Every vehicle: status, cause, health per band, margin, limiting ambient, projected date, trend',
       response: fleetResponseSchema,
-      handle: async () => {
+      handle: async ({ c }) => {
         const all = await x.reader.all();
         const latest = await x.reader.latest();
         const fleetNow = deps.fleet.current().input;
@@ -108,7 +108,7 @@ export function readRoutes(x: ApiContext): Route[] {
           fleetPage.fleet === fleetNow &&
           fleetPage.revision === deps.workflow.revision()
         )
-          return jsonResponse(fleetPage.json);
+          return fleetPage.page.respond(c);
         const actions = new Map<string, ReturnType<typeof deps.workflow.allAlertActions>>();
         for (const a of deps.workflow.allAlertActions())
           actions.set(a.vehicle, [...(actions.get(a.vehicle) ?? []), a]);
@@ -126,9 +126,9 @@ export function readRoutes(x: ApiContext): Route[] {
           vehicles,
           safety_caution: SAFETY_CAUTION,
         };
-        const json = JSON.stringify(body);
-        fleetPage = { key, latest, fleet: fleetNow, revision: deps.workflow.revision(), json };
-        return jsonResponse(json);
+        const page = new JsonPage(JSON.stringify(body));
+        fleetPage = { key, latest, fleet: fleetNow, revision: deps.workflow.revision(), page };
+        return page.respond(c);
       },
     }),
     route({
@@ -137,20 +137,20 @@ export function readRoutes(x: ApiContext): Route[] {
       role: 'viewer',
       summary: 'One vehicle: config, health and margin series, alerts, maintenance log, latest trips',
       response: vehicleResponseSchema,
-      handle: async ({ params }) => {
+      handle: async ({ c, params }) => {
         const id = params.id!;
         const model = x.model(id);
         const data = await x.reader.vehicle(id);
         const latest = (await x.reader.latest()).get(id);
         // The page changes only with the results, a write (any write bumps the revision), a new sample
-        // or a fleet reload: its JSON is kept per vehicle under that key.
+        // or a fleet reload: it is kept encoded per vehicle under that key.
         if (deps.fleet.current().input !== fleetAt) {
           fleetAt = deps.fleet.current().input;
           fleetGen++;
         }
         const key = `${data?.version}:${deps.workflow.revision()}:${latest?.time_ms}:${fleetGen}`;
         const hit = pages.get(id);
-        if (hit?.key === key) return jsonResponse(hit.json);
+        if (hit?.key === key) return hit.page.respond(c);
         const config = fleetAt.vehicles.find((v) => v.id === id)!;
         const alerts = alertViews(id, data?.result, deps.workflow.alertActions(id));
         const body: VehicleResponse = {
@@ -167,9 +167,9 @@ export function readRoutes(x: ApiContext): Route[] {
           trips_total: data?.result.trips.length ?? 0,
           safety_caution: SAFETY_CAUTION,
         };
-        const json = JSON.stringify(body);
-        pages.set(id, { key, json });
-        return jsonResponse(json);
+        const page = new JsonPage(JSON.stringify(body));
+        pages.set(id, { key, page });
+        return page.respond(c);
       },
     }),
     route({

@@ -1,4 +1,5 @@
 import { writeFileSync } from 'node:fs';
+import type { Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { join } from 'node:path';
 import { type Analyzer, createAnalyzer } from '@thermargin/analyzer/analyzer';
@@ -76,7 +77,11 @@ export async function startApiStack(
     events_poll_ms: 100,
     rate_limit: { per_minute: 60_000, burst: 10_000 },
   });
-  const server = serve({ fetch: app.fetch, port: 0, hostname: '127.0.0.1' });
+  const server = serve({ fetch: app.fetch, port: 0, hostname: '127.0.0.1' }) as Server;
+  // Client and server share this process: a test step that holds the event loop (an analyzer run, a
+  // CLI via spawnSync) past Node's 5 s keep-alive default lets the server drop an idle socket just as
+  // the client reuses it (ECONNRESET).
+  server.keepAliveTimeout = 120_000;
   await new Promise<void>((r) => server.once('listening', r));
   const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
   const auth = (role?: keyof typeof TOKENS | null): Record<string, string> =>
@@ -98,7 +103,7 @@ export async function startApiStack(
       await analyzer.stop();
       await new Promise<void>((r) => {
         server.close(() => r());
-        (server as unknown as { closeAllConnections(): void }).closeAllConnections();
+        server.closeAllConnections();
       });
       await anResults.close();
       await results.close();

@@ -1,0 +1,104 @@
+import { NUMERIC_COLUMNS, type SampleColumns, emptyColumns } from '@thermargin/shared';
+import { lowerBound } from '@thermargin/core/health/window';
+
+/**
+ * Sealed history of the SQLite adapter: one vehicle's consecutive samples packed column by column
+ * into one BLOB of Float64 (NaN = missing), so a read is a few memory copies instead of a row-to-column
+ * conversion per sample. Native byte order (little-endian on every supported platform).
+ */
+export const BLOCK_DEFAULTS = {
+  /** samples per block: 4096 × 9 columns × 8 bytes = 288 KiB. */
+  samples: 4096,
+  /** samples of one vehicle in one write call from which they are packed at once, with the rows
+   *  since its previous block (smaller writes become rows, packed once there are `samples` of them). */
+  min_pack: 256,
+  /** samples moved from rows into blocks in one write call at most (bounds its latency). */
+  max_compact_samples: 16 * 4096,
+};
+
+const WIDTH = NUMERIC_COLUMNS.length;
+
+/** A block as stored: its time range, count, the packed columns and the trip labels as runs. */
+export interface EncodedBlock {
+  first_ms: number;
+  last_ms: number;
+  n: number;
+  columns: Buffer;
+  /** JSON `[[index where a run starts, trip or null], …]`. */
+  trips: string;
+}
+
+export function encodeBlock(c: SampleColumns, from: number, to: number): EncodedBlock {
+  const n = to - from;
+  const packed = new Float64Array(WIDTH * n);
+  NUMERIC_COLUMNS.forEach((name, j) => {
+    packed.set(c[name].subarray(from, to), j * n);
+  });
+  const runs: [number, string | null][] = [];
+  for (let i = from; i < to; i++) {
+    const trip = c.trip[i] ?? null;
+    if (i === from || trip !== (c.trip[i - 1] ?? null)) runs.push([i - from, trip]);
+  }
+  return {
+    first_ms: c.time_ms[from]!,
+    last_ms: c.time_ms[to - 1]!,
+    n,
+    columns: Buffer.from(packed.buffer, packed.byteOffset, packed.byteLength),
+    trips: JSON.stringify(runs),
+  };
+}
+
+/** A stored block as columns viewing the blob (copied once only when it is not 8-byte aligned). */
+export function decodeBlock(n: number, columns: Uint8Array, trips: string): SampleColumns {
+  if (columns.byteLength !== WIDTH * n * 8)
+    throw new Error(`sample block: ${columns.byteLength} bytes for ${n} samples`);
+  const bytes = columns.byteOffset % 8 === 0 ? columns : new Uint8Array(columns);
+  const packed = new Float64Array(bytes.buffer, bytes.byteOffset, WIDTH * n);
+  const c = { n, trip: new Array<string | undefined>(n) } as SampleColumns;
+  NUMERIC_COLUMNS.forEach((name, j) => {
+    c[name] = packed.subarray(j * n, (j + 1) * n);
+  });
+  const runs = JSON.parse(trips) as [number, string | null][];
+  runs.forEach(([start, trip], k) => {
+    c.trip.fill(trip ?? undefined, start, runs[k + 1]?.[0] ?? n);
+  });
+  return c;
+}
+
+/** Copies rows [from, to) of `src` into `dst` at `at`. */
+export function copyRows(src: SampleColumns, from: number, to: number, dst: SampleColumns, at: number): void {
+  for (const name of NUMERIC_COLUMNS) dst[name].set(src[name].subarray(from, to), at);
+  for (let i = from; i < to; i++) dst.trip[at + i - from] = src.trip[i];
+}
+
+/** Rows [from, to) of `c` as a view sharing its memory (trip ids copied). */
+export function sliceRows(c: SampleColumns, from: number, to: number): SampleColumns {
+  const out = { n: to - from, trip: c.trip.slice(from, to) } as SampleColumns;
+  for (const name of NUMERIC_COLUMNS) out[name] = c[name].subarray(from, to);
+  return out;
+}
+
+/** Two time-sorted column sets as one; where both hold a time, `b`'s sample wins (the newer write). */
+export function mergeRows(a: SampleColumns, b: SampleColumns): SampleColumns {
+  const out = emptyColumns(a.n + b.n);
+  let i = 0;
+  let j = 0;
+  let n = 0;
+  while (i < a.n || j < b.n) {
+    const k = lowerBound(a.time_ms, j < b.n ? b.time_ms[j]! : Number.POSITIVE_INFINITY, i);
+    copyRows(a, i, k, out, n);
+    n += k - i;
+    i = k;
+    if (j === b.n) break;
+    const ta = i < a.n ? a.time_ms[i]! : Number.POSITIVE_INFINITY;
+    let l = lowerBound(b.time_ms, ta, j);
+    if (l < b.n && b.time_ms[l] === ta) {
+      l++;
+      i++; // replaced by b's sample of the same time
+    }
+    copyRows(b, j, l, out, n);
+    n += l - j;
+    j = l;
+  }
+  return sliceRows(out, 0, n);
+}
