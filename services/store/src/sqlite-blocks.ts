@@ -51,7 +51,9 @@ export function encodeBlock(c: SampleColumns, from: number, to: number): Encoded
 /** A stored block as columns viewing the blob (copied once only when it is not 8-byte aligned). */
 export function decodeBlock(n: number, columns: Uint8Array, trips: string): SampleColumns {
   if (columns.byteLength !== WIDTH * n * 8)
-    throw new Error(`sample block: ${columns.byteLength} bytes for ${n} samples`);
+    throw new Error(
+      `sample block: ${columns.byteLength} bytes for ${n} samples of ${WIDTH} columns (written with another signal list?)`,
+    );
   const bytes = columns.byteOffset % 8 === 0 ? columns : new Uint8Array(columns);
   const packed = new Float64Array(bytes.buffer, bytes.byteOffset, WIDTH * n);
   const c = { n, trip: new Array<string | undefined>(n) } as SampleColumns;
