@@ -9,7 +9,7 @@ import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { RECEIVE_MAXIMUM, createIngester } from '@thermargin/ingester/ingester';
 import { PIPELINE_DEFAULTS } from '@thermargin/ingester/pipeline';
-import { ENV, readIngesterConfig } from '@thermargin/ingester/config';
+import { DEFAULT_CONNECTIONS, ENV, readIngesterConfig } from '@thermargin/ingester/config';
 import {
   type Sample,
   encodeSamplePayload,
@@ -33,7 +33,7 @@ import {
 const IDS = Array.from({ length: 8 }, (_, i) => `bench-${String(i).padStart(2, '0')}`);
 const PER_VEHICLE = 25_000;
 const BATCH = Number(process.env.BENCH_BATCH ?? 250); // samples per message
-const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 16); // the ingester's (and the raw subscriber's)
+const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? DEFAULT_CONNECTIONS); // the ingester's (and the raw subscriber's)
 const STORE_CHUNK = 5000; // samples per store-alone write
 const TOTAL = IDS.length * PER_VEHICLE;
 

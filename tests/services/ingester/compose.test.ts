@@ -1,5 +1,5 @@
 import { existsSync, readFileSync } from 'node:fs';
-import { ENV, readIngesterConfig } from '@thermargin/ingester/config';
+import { DEFAULT_CONNECTIONS, ENV, readIngesterConfig } from '@thermargin/ingester/config';
 import { describe, expect, it } from 'vitest';
 
 /**
@@ -64,7 +64,7 @@ describe('readIngesterConfig', () => {
   it('defaults to SQLite and MQTT 5 with a shared subscription', () => {
     const c = readIngesterConfig({ [ENV.FLEET_FILE]: 'fleet.json' });
     expect(c.store).toEqual({ kind: 'sqlite', path: 'data/thermargin.db', synchronous: 'full' });
-    expect(c.mqtt).toMatchObject({ protocol: 5, share_group: 'ingesters', connections: 16 });
+    expect(c.mqtt).toMatchObject({ protocol: 5, share_group: 'ingesters', connections: DEFAULT_CONNECTIONS });
   });
   it('names every bad variable', () => {
     const bad = () =>
