@@ -9,6 +9,7 @@ import { href } from '../state/route.ts';
 import type { Session } from '../state/session.ts';
 import { Loading } from './States.tsx';
 import { TableHead } from './TableHead.tsx';
+import { Figure } from './Figure.tsx';
 
 export const POWERTRAIN_WORD: Record<Powertrain, string> = {
   ice: 'engine',
@@ -66,42 +67,29 @@ function Answer({ a }: { a: CalculatorResponse }) {
   return (
     <>
       <dl class="figures" data-answer="design">
-        <div>
-          <dt>Required net area</dt>
-          <dd data-fig="required-area">{num(d.required_area_m2, 'm²', 3)}</dd>
-        </div>
-        <div>
-          <dt>Heat the area carries</dt>
-          <dd data-fig="supported-heat">{num(d.supported_heat_kw, 'kW')}</dd>
-        </div>
-        <div>
-          <dt>Hottest ambient for the design heat</dt>
-          <dd data-fig="supported-ambient">{num(d.supported_ambient_c, '°C')}</dd>
-        </div>
-        <div>
-          <dt>Margin of the area</dt>
-          <dd data-fig="area-margin">{num(d.margin_pct, '%')}</dd>
-        </div>
-        <div>
-          <dt>ITD</dt>
-          <dd>{num(d.itd_k, 'K')}</dd>
-        </div>
-        <div>
-          <dt>k used</dt>
-          <dd data-fig="k">
-            {num(a.basis.k_w_m2k, 'W/(m²·K)', 0)}{' '}
-            <span class="small muted">
-              {SOURCE_WORD[a.basis.k_source]}; fouled {num(d.k_fouled_w_m2k, '', 0)}
-            </span>
-          </dd>
-        </div>
-        <div>
-          <dt>Fouling allowance</dt>
-          <dd data-fig="allowance">
-            {num(a.basis.fouling_allowance * 100, '%')}{' '}
-            <span class="small muted">{SOURCE_WORD[a.basis.allowance_source]}</span>
-          </dd>
-        </div>
+        <Figure label="Required net area" fig="required-area">
+          {num(d.required_area_m2, 'm²', 3)}
+        </Figure>
+        <Figure label="Heat the area carries" fig="supported-heat">
+          {num(d.supported_heat_kw, 'kW')}
+        </Figure>
+        <Figure label="Hottest ambient for the design heat" fig="supported-ambient">
+          {num(d.supported_ambient_c, '°C')}
+        </Figure>
+        <Figure label="Margin of the area" fig="area-margin">
+          {num(d.margin_pct, '%')}
+        </Figure>
+        <Figure label="ITD">{num(d.itd_k, 'K')}</Figure>
+        <Figure label="k used" fig="k">
+          {num(a.basis.k_w_m2k, 'W/(m²·K)', 0)}{' '}
+          <span class="small muted">
+            {SOURCE_WORD[a.basis.k_source]}; fouled {num(d.k_fouled_w_m2k, '', 0)}
+          </span>
+        </Figure>
+        <Figure label="Fouling allowance" fig="allowance">
+          {num(a.basis.fouling_allowance * 100, '%')}{' '}
+          <span class="small muted">{SOURCE_WORD[a.basis.allowance_source]}</span>
+        </Figure>
       </dl>
       <h3>Drivetrains on the same duty</h3>
       <p class="small muted">

@@ -5,6 +5,7 @@ import { useLive } from '../state/live.ts';
 import { useResource } from '../state/resource.ts';
 import { href } from '../state/route.ts';
 import type { Session } from '../state/session.ts';
+import { Figure } from '../components/Figure.tsx';
 
 /** The refusal reasons present in the answer, ingest first: the table's columns. */
 function reasons(r: RejectedResponse): { source: 'ingest' | 'cleaning'; reason: string }[] {
@@ -77,49 +78,28 @@ function Health({ s }: { s: StatusResponse }) {
   const stale = s.analyzer.watermarks.filter((w) => w.analysed_to === null);
   return (
     <dl class="figures">
-      <div>
-        <dt>Sample store</dt>
-        <dd data-fig="store">
-          {s.store.kind} · {s.store.up ? 'up' : `down: ${s.store.error ?? 'no answer'}`}
-        </dd>
-      </div>
-      <div>
-        <dt>Samples stored</dt>
-        <dd data-fig="samples">
-          {s.ingest.samples.toLocaleString('en')} from {s.ingest.vehicles} vehicles
-        </dd>
-      </div>
-      <div>
-        <dt>Newest sample</dt>
-        <dd>
-          {when(s.ingest.last_sample)} ({num(s.ingest.lag_s === null ? null : s.ingest.lag_s / 60, 'min', 0)}{' '}
-          behind)
-        </dd>
-      </div>
-      <div>
-        <dt>Messages refused at intake</dt>
-        <dd data-fig="dead-letters">{s.ingest.dead_letters}</dd>
-      </div>
-      <div>
-        <dt>Analyzer</dt>
-        <dd>
-          {s.analyzer.running ? 'running' : 'stopped'} · last run {ago(s.analyzer.last_run, now)}
-          {s.analyzer.last_error && <div class="bad small">{s.analyzer.last_error}</div>}
-        </dd>
-      </div>
-      <div>
-        <dt>Analysed</dt>
-        <dd>
-          {s.analyzer.trips_analysed} trips · {s.analyzer.samples_analysed.toLocaleString('en')} samples ·
-          backlog {s.analyzer.backlog_vehicles} vehicles
-        </dd>
-      </div>
-      {stale.length > 0 && (
-        <div>
-          <dt>Never analysed</dt>
-          <dd>{stale.map((w) => w.vehicle).join(', ')}</dd>
-        </div>
-      )}
+      <Figure label="Sample store" fig="store">
+        {s.store.kind} · {s.store.up ? 'up' : `down: ${s.store.error ?? 'no answer'}`}
+      </Figure>
+      <Figure label="Samples stored" fig="samples">
+        {s.ingest.samples.toLocaleString('en')} from {s.ingest.vehicles} vehicles
+      </Figure>
+      <Figure label="Newest sample">
+        {when(s.ingest.last_sample)} ({num(s.ingest.lag_s === null ? null : s.ingest.lag_s / 60, 'min', 0)}{' '}
+        behind)
+      </Figure>
+      <Figure label="Messages refused at intake" fig="dead-letters">
+        {s.ingest.dead_letters}
+      </Figure>
+      <Figure label="Analyzer">
+        {s.analyzer.running ? 'running' : 'stopped'} · last run {ago(s.analyzer.last_run, now)}
+        {s.analyzer.last_error && <div class="bad small">{s.analyzer.last_error}</div>}
+      </Figure>
+      <Figure label="Analysed">
+        {s.analyzer.trips_analysed} trips · {s.analyzer.samples_analysed.toLocaleString('en')} samples ·
+        backlog {s.analyzer.backlog_vehicles} vehicles
+      </Figure>
+      {stale.length > 0 && <Figure label="Never analysed">{stale.map((w) => w.vehicle).join(', ')}</Figure>}
     </dl>
   );
 }

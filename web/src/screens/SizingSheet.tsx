@@ -9,6 +9,7 @@ import { useResource } from '../state/resource.ts';
 import { href } from '../state/route.ts';
 import type { Session } from '../state/session.ts';
 import { TableHead } from '../components/TableHead.tsx';
+import { Figure } from '../components/Figure.tsx';
 
 const BAND_WORD = { ram: 'ram air', fan: 'fan at standstill' } as const;
 type Spread = GroupSizingView['field_k'][number]['ratio'];
@@ -220,29 +221,19 @@ function Sheet({ r, session }: { r: SizingResponse; session: Session }) {
   return (
     <>
       <dl class="figures">
-        <div>
-          <dt>Trips</dt>
-          <dd data-fig="trips">{s.period.trips}</dd>
-        </div>
-        <div>
-          <dt>Samples</dt>
-          <dd>{s.period.samples.toLocaleString('en')}</dd>
-        </div>
-        <div>
-          <dt>Period</dt>
-          <dd>
-            {when(s.period.first_trip, false)} … {when(s.period.last_trip, false)}
-          </dd>
-        </div>
-        <div>
-          <dt>Computed</dt>
-          <dd>
-            {when(r.computed_at)}
-            {r.trips_without_samples > 0 && (
-              <div class="small muted">{r.trips_without_samples} trips without samples</div>
-            )}
-          </dd>
-        </div>
+        <Figure label="Trips" fig="trips">
+          {s.period.trips}
+        </Figure>
+        <Figure label="Samples">{s.period.samples.toLocaleString('en')}</Figure>
+        <Figure label="Period">
+          {when(s.period.first_trip, false)} … {when(s.period.last_trip, false)}
+        </Figure>
+        <Figure label="Computed">
+          {when(r.computed_at)}
+          {r.trips_without_samples > 0 && (
+            <div class="small muted">{r.trips_without_samples} trips without samples</div>
+          )}
+        </Figure>
       </dl>
       <section aria-labelledby="calc">
         <h2 id="calc">Calculator</h2>

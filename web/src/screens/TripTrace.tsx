@@ -8,6 +8,7 @@ import { duration, num, when } from '../format.ts';
 import { useResource } from '../state/resource.ts';
 import { href } from '../state/route.ts';
 import type { Session } from '../state/session.ts';
+import { Figure } from '../components/Figure.tsx';
 
 const ci = (c: [number, number] | null) => (c ? ` (95 % CI ${num(c[0], '', 0)}…${num(c[1], '', 0)})` : '');
 
@@ -49,15 +50,11 @@ function TripFigures({ t }: { t: TraceResponse['trip'] }) {
   return (
     <dl class="figures">
       {rows.map(([k, label, value]) => (
-        <div key={k}>
-          <dt>{label}</dt>
-          <dd data-fig={k}>{value}</dd>
-        </div>
+        <Figure key={k} label={label} fig={k}>
+          {value}
+        </Figure>
       ))}
-      <div>
-        <dt>Status after trip</dt>
-        <dd>{t.status ? <StatusMark status={t.status} /> : '—'}</dd>
-      </div>
+      <Figure label="Status after trip">{t.status ? <StatusMark status={t.status} /> : '—'}</Figure>
     </dl>
   );
 }

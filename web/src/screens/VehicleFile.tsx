@@ -11,6 +11,7 @@ import { useLive } from '../state/live.ts';
 import { useResource } from '../state/resource.ts';
 import { href } from '../state/route.ts';
 import { canWrite, type Session } from '../state/session.ts';
+import { Figure } from '../components/Figure.tsx';
 
 /** Key figures of a vehicle: each number with its unit and what it means. */
 export function Figures({ v }: { v: VehicleResponse }) {
@@ -19,56 +20,36 @@ export function Figures({ v }: { v: VehicleResponse }) {
   const p = v.series?.projection;
   return (
     <dl class="figures">
-      <div>
-        <dt>Status</dt>
-        <dd data-fig="status">
-          <StatusMark status={s.status} />
-        </dd>
-      </div>
-      <div>
-        <dt>Cause</dt>
-        <dd data-fig="cause">{s.cause ? CAUSE_WORD[s.cause] : '—'}</dd>
-      </div>
-      <div>
-        <dt>Margin at design point</dt>
-        <dd data-fig="margin">{num(s.margin_pct, '%')}</dd>
-      </div>
-      <div>
-        <dt>Limiting ambient</dt>
-        <dd data-fig="lat">
-          {num(s.limiting_ambient_c, '°C')}
-          {route !== undefined && <span class="small muted"> route hottest {num(route, '°C')}</span>}
-        </dd>
-      </div>
-      <div>
-        <dt>Trend</dt>
-        <dd>
-          <TrendMark trend={s.trend} />
-        </dd>
-      </div>
-      <div>
-        <dt>Projected inspection</dt>
-        <dd data-fig="projected">
-          {when(s.projected_inspect_date, false)}
-          {p?.interval && (
-            <span class="small muted">
-              {' '}
-              ({when(p.interval[0], false)} … {when(p.interval[1], false)})
-            </span>
-          )}
-        </dd>
-      </div>
-      <div>
-        <dt>Health ram / fan</dt>
-        <dd data-fig="health">
-          {num(s.health.ram === null ? null : s.health.ram * 100, '%')} /{' '}
-          {num(s.health.fan === null ? null : s.health.fan * 100, '%')}
-        </dd>
-      </div>
-      <div>
-        <dt>Last seen</dt>
-        <dd>{when(s.last_seen)}</dd>
-      </div>
+      <Figure label="Status" fig="status">
+        <StatusMark status={s.status} />
+      </Figure>
+      <Figure label="Cause" fig="cause">
+        {s.cause ? CAUSE_WORD[s.cause] : '—'}
+      </Figure>
+      <Figure label="Margin at design point" fig="margin">
+        {num(s.margin_pct, '%')}
+      </Figure>
+      <Figure label="Limiting ambient" fig="lat">
+        {num(s.limiting_ambient_c, '°C')}
+        {route !== undefined && <span class="small muted"> route hottest {num(route, '°C')}</span>}
+      </Figure>
+      <Figure label="Trend">
+        <TrendMark trend={s.trend} />
+      </Figure>
+      <Figure label="Projected inspection" fig="projected">
+        {when(s.projected_inspect_date, false)}
+        {p?.interval && (
+          <span class="small muted">
+            {' '}
+            ({when(p.interval[0], false)} … {when(p.interval[1], false)})
+          </span>
+        )}
+      </Figure>
+      <Figure label="Health ram / fan" fig="health">
+        {num(s.health.ram === null ? null : s.health.ram * 100, '%')} /{' '}
+        {num(s.health.fan === null ? null : s.health.fan * 100, '%')}
+      </Figure>
+      <Figure label="Last seen">{when(s.last_seen)}</Figure>
     </dl>
   );
 }
