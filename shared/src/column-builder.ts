@@ -1,4 +1,4 @@
-import { emptyColumns, NUMERIC_COLUMNS, type SampleColumns } from './columns.ts';
+import { copyColumns, emptyColumns, NUMERIC_COLUMNS, type SampleColumns, sliceColumns } from './columns.ts';
 
 /** Appends samples into growable typed columns (doubling), then hands out SampleColumns views. */
 export class ColumnBuilder {
@@ -14,8 +14,7 @@ export class ColumnBuilder {
 
   private grow(): void {
     const next = emptyColumns(this.cols.n * 2);
-    for (const name of NUMERIC_COLUMNS) next[name].set(this.cols[name]);
-    for (let i = 0; i < this.length; i++) next.trip[i] = this.cols.trip[i];
+    copyColumns(this.cols, 0, this.cols.n, next, 0);
     this.cols = next;
     this.arrays = NUMERIC_COLUMNS.map((name) => next[name]);
   }
@@ -31,9 +30,7 @@ export class ColumnBuilder {
 
   /** The samples [from, to) as columns that share this builder's memory: valid until the next push or drop. */
   view(from = 0, to = this.length): SampleColumns {
-    const out = { n: to - from, trip: this.cols.trip.slice(from, to) } as SampleColumns;
-    for (const name of NUMERIC_COLUMNS) out[name] = this.cols[name].subarray(from, to);
-    return out;
+    return sliceColumns(this.cols, from, to);
   }
 
   /** Drops the samples before `from`, moving the rest to the front (no new memory). */

@@ -37,6 +37,25 @@ export function emptyColumns(n: number): SampleColumns {
   return c;
 }
 
+/** Rows [from, to) of `c` as a view sharing its memory (trip ids copied). */
+export function sliceColumns(c: SampleColumns, from: number, to: number): SampleColumns {
+  const out = { n: to - from, trip: c.trip.slice(from, to) } as SampleColumns;
+  for (const name of NUMERIC_COLUMNS) out[name] = c[name].subarray(from, to);
+  return out;
+}
+
+/** Copies rows [from, to) of `src` into `dst` at `at`. */
+export function copyColumns(
+  src: SampleColumns,
+  from: number,
+  to: number,
+  dst: SampleColumns,
+  at: number,
+): void {
+  for (const name of NUMERIC_COLUMNS) dst[name].set(src[name].subarray(from, to), at);
+  for (let i = from; i < to; i++) dst.trip[at + i - from] = src.trip[i];
+}
+
 /** Columns from sample objects (one vehicle), in the order given. */
 export function columnsFromSamples(samples: readonly Sample[]): SampleColumns {
   const c = emptyColumns(samples.length);

@@ -1,4 +1,10 @@
-import { NUMERIC_COLUMNS, type SampleColumns, emptyColumns } from '@thermargin/shared';
+import {
+  copyColumns,
+  NUMERIC_COLUMNS,
+  type SampleColumns,
+  emptyColumns,
+  sliceColumns,
+} from '@thermargin/shared';
 import { lowerBound } from '@thermargin/core/health/window';
 
 /**
@@ -67,19 +73,6 @@ export function decodeBlock(n: number, columns: Uint8Array, trips: string): Samp
   return c;
 }
 
-/** Copies rows [from, to) of `src` into `dst` at `at`. */
-export function copyRows(src: SampleColumns, from: number, to: number, dst: SampleColumns, at: number): void {
-  for (const name of NUMERIC_COLUMNS) dst[name].set(src[name].subarray(from, to), at);
-  for (let i = from; i < to; i++) dst.trip[at + i - from] = src.trip[i];
-}
-
-/** Rows [from, to) of `c` as a view sharing its memory (trip ids copied). */
-export function sliceRows(c: SampleColumns, from: number, to: number): SampleColumns {
-  const out = { n: to - from, trip: c.trip.slice(from, to) } as SampleColumns;
-  for (const name of NUMERIC_COLUMNS) out[name] = c[name].subarray(from, to);
-  return out;
-}
-
 /** Two time-sorted column sets as one; where both hold a time, `b`'s sample wins (the newer write). */
 export function mergeRows(a: SampleColumns, b: SampleColumns): SampleColumns {
   const out = emptyColumns(a.n + b.n);
@@ -88,7 +81,7 @@ export function mergeRows(a: SampleColumns, b: SampleColumns): SampleColumns {
   let n = 0;
   while (i < a.n || j < b.n) {
     const k = lowerBound(a.time_ms, j < b.n ? b.time_ms[j]! : Number.POSITIVE_INFINITY, i);
-    copyRows(a, i, k, out, n);
+    copyColumns(a, i, k, out, n);
     n += k - i;
     i = k;
     if (j === b.n) break;
@@ -98,9 +91,9 @@ export function mergeRows(a: SampleColumns, b: SampleColumns): SampleColumns {
       l++;
       i++; // replaced by b's sample of the same time
     }
-    copyRows(b, j, l, out, n);
+    copyColumns(b, j, l, out, n);
     n += l - j;
     j = l;
   }
-  return sliceRows(out, 0, n);
+  return sliceColumns(out, 0, n);
 }

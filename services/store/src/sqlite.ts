@@ -1,9 +1,17 @@
 import { mkdirSync } from 'node:fs';
 import { dirname } from 'node:path';
-import { SIGNAL_NAMES, SIGNALS, type Sample, type SampleColumns, emptyColumns } from '@thermargin/shared';
+import {
+  copyColumns,
+  SIGNAL_NAMES,
+  SIGNALS,
+  type Sample,
+  type SampleColumns,
+  emptyColumns,
+  sliceColumns,
+} from '@thermargin/shared';
 import { lowerBound } from '@thermargin/core/health/window';
 import Database from 'better-sqlite3';
-import { BLOCK_DEFAULTS, copyRows, decodeBlock, encodeBlock, mergeRows, sliceRows } from './sqlite-blocks.ts';
+import { BLOCK_DEFAULTS, decodeBlock, encodeBlock, mergeRows } from './sqlite-blocks.ts';
 import { createSqliteResults } from './sqlite-results.ts';
 import {
   type DeadLetter,
@@ -198,13 +206,13 @@ export function createSqliteStore(options: SqliteStoreOptions): SqliteStore {
       const hi = lowerBound(c.time_ms, m.last_ms + 1, lo);
       if (lo > i) outside.push([i, lo]);
       if (hi > lo) {
-        const merged = mergeRows(decode(blockById.get(m.id) as BlockRow), sliceRows(c, lo, hi));
+        const merged = mergeRows(decode(blockById.get(m.id) as BlockRow), sliceColumns(c, lo, hi));
         updateBlock.run({ id: m.id, ...encodeBlock(merged, 0, merged.n) });
       }
       i = hi;
     }
     if (i < c.n) outside.push([i, c.n]);
-    const rest = outside.length === 1 ? sliceRows(c, outside[0]![0], outside[0]![1]) : pick(c, outside);
+    const rest = outside.length === 1 ? sliceColumns(c, outside[0]![0], outside[0]![1]) : pick(c, outside);
     if (rest.n === 0) return;
     if (rest.n < block.min_pack) {
       insertRows(vehicle, rest);
@@ -223,8 +231,8 @@ export function createSqliteStore(options: SqliteStoreOptions): SqliteStore {
     deleteRows.run(vehicle, from, last);
     const newest = newestRow.get(vehicle) as number | null;
     const keep = newest === null || newest < last ? 1 : 0;
-    seal(vehicle, sliceRows(all, 0, all.n - keep), around);
-    if (keep) insertRows(vehicle, sliceRows(all, all.n - 1, all.n));
+    seal(vehicle, sliceColumns(all, 0, all.n - keep), around);
+    if (keep) insertRows(vehicle, sliceColumns(all, all.n - 1, all.n));
   }
 
   const writeSamples = db.transaction((samples: readonly Sample[]) => {
@@ -248,13 +256,13 @@ export function createSqliteStore(options: SqliteStoreOptions): SqliteStore {
     blocks.forEach((b, k) => {
       const [lo, hi] = ranges[k]!;
       const r2 = lowerBound(tail.time_ms, b.time_ms[0]!, r);
-      copyRows(tail, r, r2, out, at);
+      copyColumns(tail, r, r2, out, at);
       at += r2 - r;
       r = r2;
-      copyRows(b, lo, hi, out, at);
+      copyColumns(b, lo, hi, out, at);
       at += hi - lo;
     });
-    copyRows(tail, r, tail.n, out, at);
+    copyColumns(tail, r, tail.n, out, at);
     return out;
   });
 
@@ -336,7 +344,7 @@ function sortedUnique(list: readonly Sample[]): SampleColumns {
     c.trip[n] = s.trip;
     n++;
   }
-  return sliceRows(c, 0, n);
+  return sliceColumns(c, 0, n);
 }
 
 /** The rows of `c` in the given index ranges, as one column set. */
@@ -344,7 +352,7 @@ function pick(c: SampleColumns, ranges: readonly [number, number][]): SampleColu
   const out = emptyColumns(ranges.reduce((n, [lo, hi]) => n + hi - lo, 0));
   let at = 0;
   for (const [lo, hi] of ranges) {
-    copyRows(c, lo, hi, out, at);
+    copyColumns(c, lo, hi, out, at);
     at += hi - lo;
   }
   return out;
