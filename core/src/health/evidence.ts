@@ -39,8 +39,9 @@ export class EvidenceTracker {
   private readonly soakAt: number[] = [];
   private readonly dtAt: number[] = [];
   private readonly resets: Record<keyof Evidence, number[]>;
-  /** Flag latch: set when a window reaches the suspect share, cleared by a clean window or a reset. */
-  private flagHeld = false;
+  /** The flags as of the latest trip; `held` latches when a window reaches the suspect share and
+   *  clears after a clean window or a reset. */
+  private flags: Evidence['flags'] = { trips: 0, flagged: 0, examples: [], held: false };
   private flagFrom = 0;
   private cleanRun = 0;
 
@@ -65,27 +66,23 @@ export class EvidenceTracker {
     if (t.soak_offset_k !== null) this.soakAt.push(i);
     if (t.coolant_dt_per_kw !== null) this.dtAt.push(i);
     const from = this.since('flags');
+    let held = this.flags.held;
     if (from !== this.flagFrom) {
       this.flagFrom = from;
-      this.flagHeld = false;
+      held = false;
       this.cleanRun = 0;
     }
     this.cleanRun = t.sensor_flags.length > 0 ? 0 : this.cleanRun + 1;
-    const w = this.recentFlags();
-    if (w.trips > 0 && w.flagged / w.trips >= this.o.sensor_flag_share) this.flagHeld = true;
-    else if (this.cleanRun >= this.o.sensor_flag_window) this.flagHeld = false;
-  }
-
-  /** The last `sensor_flag_window` trips since the reset, and how many of them carry flags. */
-  private recentFlags(): { trips: number; flagged: number; examples: string[] } {
-    const n = this.trips.length;
-    const from = this.since('flags');
-    const recent = this.trips.slice(from + tailStart(n - from, this.o.sensor_flag_window));
-    const flagged = recent.filter((t) => t.sensor_flags.length > 0);
-    return {
+    // The last `sensor_flag_window` trips since the reset, and those of them that carry flags.
+    const recent = this.trips.slice(from + tailStart(this.trips.length - from, this.o.sensor_flag_window));
+    const flagged = recent.filter((r) => r.sensor_flags.length > 0);
+    if (flagged.length / recent.length >= this.o.sensor_flag_share) held = true;
+    else if (this.cleanRun >= this.o.sensor_flag_window) held = false;
+    this.flags = {
       trips: recent.length,
       flagged: flagged.length,
-      examples: flagged.flatMap((t) => t.sensor_flags).slice(0, 2),
+      examples: flagged.flatMap((r) => r.sensor_flags).slice(0, 2),
+      held,
     };
   }
 
@@ -126,7 +123,7 @@ export class EvidenceTracker {
         sign: below >= above ? -1 : 1,
         median_k: median0(soaks),
       },
-      flags: { ...this.recentFlags(), held: this.flagHeld },
+      flags: this.flags,
       saturation: this.split(n - satFrom, (k) => trips[satFrom + k]!.fan_saturated_share),
       coolant_dt: this.split(dtAt.length - dtFrom, (k) => trips[dtAt[dtFrom + k]!]!.coolant_dt_per_kw!),
     };
