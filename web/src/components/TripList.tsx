@@ -8,6 +8,7 @@ import { Pager } from './Pager.tsx';
 import { rowLink } from './rowKeys.ts';
 import { Loaded } from './States.tsx';
 import { StatusMark } from './StatusMark.tsx';
+import { TableHead } from './TableHead.tsx';
 
 const PAGE = 20;
 
@@ -15,30 +16,11 @@ function Rows({ vehicle, trips }: { vehicle: string; trips: readonly TripResult[
   return (
     <div class="table-wrap">
       <table class="grid">
-        <thead>
-          <tr>
-            <th scope="col">Trip start</th>
-            <th scope="col" class="num">
-              Duration
-            </th>
-            <th scope="col" class="num">
-              Distance
-            </th>
-            <th scope="col" class="num">
-              Heat mean / p95
-            </th>
-            <th scope="col" class="num">
-              k ram / fan (W/m²·K)
-            </th>
-            <th scope="col" class="num">
-              Margin
-            </th>
-            <th scope="col" class="num">
-              Derate
-            </th>
-            <th scope="col">Status</th>
-          </tr>
-        </thead>
+        <TableHead
+          text={['Trip start']}
+          figures={['Duration', 'Distance', 'Heat mean / p95', 'k ram / fan (W/m²·K)', 'Margin', 'Derate']}
+          after={['Status']}
+        />
         <tbody>
           {trips.map((t) => (
             <tr
