@@ -5,6 +5,7 @@
  * The publisher runs as a child process (this file with `publish`), as vehicles would.
  */
 import { spawn } from 'node:child_process';
+import { availableParallelism } from 'node:os';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { RECEIVE_MAXIMUM, createIngester } from '@thermargin/ingester/ingester';
@@ -21,6 +22,7 @@ import { type SampleStore, createInfluxStore, createSqliteStore } from '@thermar
 import mqtt from 'mqtt';
 import { startInflux } from '../support/servers/influx.ts';
 import { startMosquitto } from '../support/servers/mosquitto.ts';
+import { machineBusy_s, processCpu_s } from './cpu-meter.ts';
 import {
   INGESTER_USER,
   fleetStream,
@@ -63,6 +65,7 @@ async function publish(url: string): Promise<void> {
   );
   process.stdout.write('ready\n');
   await new Promise((r) => process.stdin.once('data', r));
+  const cpu0 = process.cpuUsage();
   await Promise.all(
     vehicles.map(async ({ c, topic, payloads }) => {
       const window: Promise<unknown>[] = [];
@@ -74,19 +77,26 @@ async function publish(url: string): Promise<void> {
       await c.endAsync();
     }),
   );
+  const cpu = process.cpuUsage(cpu0);
+  process.stdout.write(`${(cpu.user + cpu.system) / 1e6}\n`);
 }
 
-/** Starts the publisher child; resolves with `go`, which starts publishing and resolves when all is acknowledged. */
-async function preparePublisher(url: string): Promise<() => Promise<void>> {
+/**
+ * Starts the publisher child; resolves with `go`, which starts publishing and resolves when all is
+ * acknowledged, with the CPU seconds the publisher used for it.
+ */
+async function preparePublisher(url: string): Promise<() => Promise<number>> {
   const child = spawn(process.execPath, ['--import', 'tsx', import.meta.filename, 'publish', url], {
     stdio: ['pipe', 'pipe', 'inherit'],
   });
-  const exited = new Promise<void>((resolve, reject) =>
+  let report = '';
+  const exited = new Promise<number>((resolve, reject) =>
     child.once('exit', (code) =>
-      code === 0 ? resolve() : reject(new Error(`publisher exited with ${code}`)),
+      code === 0 ? resolve(Number(report)) : reject(new Error(`publisher exited with ${code}`)),
     ),
   );
   await new Promise((r) => child.stdout!.once('data', r));
+  child.stdout!.on('data', (d) => (report += d));
   return () => {
     child.stdin!.write('go\n');
     return exited;
@@ -100,7 +110,7 @@ const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
  * The broker's ceiling for the ingester's subscription shape: the same payloads and QoS, `CONNECTIONS`
  * sessions in one shared group with the ingester's receive maximum, each message acknowledged on arrival.
  */
-async function brokerCeiling(url: string, group: string): Promise<Measured> {
+async function brokerCeiling(url: string, servers: Servers, group: string): Promise<Measured> {
   let samples = 0;
   let done: () => void = () => {};
   const all = new Promise<void>((r) => (done = r));
@@ -122,9 +132,7 @@ async function brokerCeiling(url: string, group: string): Promise<Measured> {
     }),
   );
   const go = await preparePublisher(url);
-  const m = await measure(async () => {
-    await Promise.all([go(), all]);
-  });
+  const m = await measure(servers, async () => (await Promise.all([go(), all]))[0]);
   await Promise.all(subs.map((sub) => sub.endAsync()));
   return m;
 }
@@ -141,20 +149,21 @@ function countSamples(payload: Buffer): number {
  * (one message of each in turn: a store may favour a write of one vehicle's long run), as many writes
  * in flight as the ingester's pipeline allows, then the same query that ends an end-to-end run.
  */
-async function storeCeiling(store: SampleStore): Promise<Measured> {
+async function storeCeiling(store: SampleStore, servers: Servers): Promise<Measured> {
   const streams = fleetStream(IDS, PER_VEHICLE);
   const points: Sample[] = [];
   for (let i = 0; i < PER_VEHICLE; i += BATCH)
     for (const stream of streams) for (const w of stream.slice(i, i + BATCH)) points.push(toSample(w));
   const chunks: Sample[][] = [];
   for (let i = 0; i < points.length; i += STORE_CHUNK) chunks.push(points.slice(i, i + STORE_CHUNK));
-  const m = await measure(async () => {
+  const m = await measure(servers, async () => {
     await Promise.all(
       Array.from({ length: PIPELINE_DEFAULTS.max_concurrent_writes }, async () => {
         for (let c = chunks.shift(); c; c = chunks.shift()) await store.writeSamples(c);
       }),
     );
     await store.listVehicles();
+    return 0;
   });
   await store.close();
   return m;
@@ -162,21 +171,33 @@ async function storeCeiling(store: SampleStore): Promise<Measured> {
 
 /**
  * What one measurement gives: the rate; this process's CPU (all its threads) and its main thread's
- * busy time (event-loop utilisation: the thread that speaks MQTT and writes the store) over the span.
+ * busy time (event-loop utilisation: the thread that speaks MQTT and writes the store); the CPU of the
+ * publisher child and of the servers on the path; and the whole machine's busy CPU, all over the span.
+ * On 2 cores, a path whose machine is ≈ 2 cores busy is bound by the CPU that all its parts need.
  */
 interface Measured {
   rate: number;
   cpu_s: number;
   main_busy_s: number;
+  publisher_cpu_s: number;
+  server_cpu_s: number;
+  machine_busy_s: number;
   wall_s: number;
   peak_rss_mb?: number;
 }
 
-async function measure(run: () => Promise<void>): Promise<Measured> {
+/** Process ids of the servers a path runs through (their CPU is counted). */
+type Servers = readonly (number | undefined)[];
+
+/** Times `run`, which resolves with the publisher's CPU seconds (0 without a publisher). */
+async function measure(servers: Servers, run: () => Promise<number>): Promise<Measured> {
+  const serverCpu = () => servers.reduce((a: number, pid) => a + processCpu_s(pid), 0);
+  const server0 = serverCpu();
+  const machine0 = machineBusy_s();
   const cpu0 = process.cpuUsage();
   const elu0 = performance.eventLoopUtilization();
   const t0 = performance.now();
-  await run();
+  const publisher_cpu_s = await run();
   const ms = performance.now() - t0;
   const cpu = process.cpuUsage(cpu0);
   const elu = performance.eventLoopUtilization(elu0);
@@ -184,11 +205,14 @@ async function measure(run: () => Promise<void>): Promise<Measured> {
     rate: rate(TOTAL, ms),
     cpu_s: (cpu.user + cpu.system) / 1e6,
     main_busy_s: elu.active / 1000,
+    publisher_cpu_s,
+    server_cpu_s: serverCpu() - server0,
+    machine_busy_s: machineBusy_s() - machine0,
     wall_s: ms / 1000,
   };
 }
 
-async function endToEnd(url: string, store: SampleStore, name: string): Promise<Measured> {
+async function endToEnd(url: string, store: SampleStore, servers: Servers, name: string): Promise<Measured> {
   const config = readIngesterConfig({
     ...ingesterEnv({
       mqtt_url: url,
@@ -209,12 +233,13 @@ async function endToEnd(url: string, store: SampleStore, name: string): Promise<
   const sampler = setInterval(() => (peakRss = Math.max(peakRss, process.memoryUsage().rss)), 100);
   const go = await preparePublisher(url);
   let stored = 0;
-  const m = await measure(async () => {
-    await go();
+  const m = await measure(servers, async () => {
+    const publisher = await go();
     // The ingester's own counter says when the last write returned; one store query then proves the
     // samples queryable (polling the store meanwhile would load it and slow what is measured).
     while (ingester.metrics.samples_stored < TOTAL) await sleep(5);
     stored = (await store.listVehicles()).reduce((a, s) => a + s.count, 0);
+    return publisher;
   });
   clearInterval(sampler);
   await ingester.stop();
@@ -227,6 +252,9 @@ const ROUNDS = Number(process.env.BENCH_ROUNDS ?? 3);
 const dir = tempDir('bench');
 const broker = await startMosquitto([INGESTER_USER, ...IDS.map(vehicleUser)]);
 const influx = await startInflux();
+const mosquittoOnly: Servers = [broker.process.pid];
+const influxOnly: Servers = [influx.process.pid];
+const both: Servers = [broker.process.pid, influx.process.pid];
 const influxStore = async (database: string) => {
   await influx.createDatabase(database);
   return createInfluxStore({ url: influx.url, api: 'v1', database });
@@ -239,15 +267,16 @@ console.log(
 const PATHS = ['broker', 'sqlite_raw', 'influx_raw', 'sqlite_e2e', 'influx_e2e'] as const;
 const rounds: Record<(typeof PATHS)[number], Measured>[] = [];
 for (let r = 0; r < ROUNDS; r++) {
-  const broker_ = await brokerCeiling(broker.url, `bench-raw-${r}`);
-  const sqlite_raw = await storeCeiling(createSqliteStore({ path: join(dir, `raw-${r}.db`) }));
-  const influx_raw = await storeCeiling(await influxStore(`raw_${r}`));
+  const broker_ = await brokerCeiling(broker.url, mosquittoOnly, `bench-raw-${r}`);
+  const sqlite_raw = await storeCeiling(createSqliteStore({ path: join(dir, `raw-${r}.db`) }), []);
+  const influx_raw = await storeCeiling(await influxStore(`raw_${r}`), influxOnly);
   const sqlite_e2e = await endToEnd(
     broker.url,
     createSqliteStore({ path: join(dir, `e2e-${r}.db`) }),
+    mosquittoOnly,
     `sqlite-${r}`,
   );
-  const influx_e2e = await endToEnd(broker.url, await influxStore(`e2e_${r}`), `influx-${r}`);
+  const influx_e2e = await endToEnd(broker.url, await influxStore(`e2e_${r}`), both, `influx-${r}`);
   rounds.push({ broker: broker_, sqlite_raw, influx_raw, sqlite_e2e, influx_e2e });
   const pct = (e2e: number, ceilings: number[]) => `${Math.round((e2e / Math.min(...ceilings)) * 100)} %`;
   console.log(
@@ -259,14 +288,19 @@ const best = Object.fromEntries(
   PATHS.map((p) => [p, rounds.map((r) => r[p]).reduce((a, b) => (b.rate > a.rate ? b : a))]),
 ) as Record<(typeof PATHS)[number], Measured>;
 
-const perSample = (s: number) => ((s / TOTAL) * 1e6).toFixed(1).padStart(8);
+const perSample = (s: number) => ((s / TOTAL) * 1e6).toFixed(1).padStart(6);
 const row = (what: string, m: Measured, ceiling?: number) =>
   `| ${what.padEnd(52)} | ${String(m.rate).padStart(9)} | ${ceiling ? `${Math.round((m.rate / ceiling) * 100)} %`.padStart(6) : ''.padStart(6)} | ` +
-  `${perSample(m.cpu_s)} | ${perSample(m.main_busy_s)} | ${m.peak_rss_mb ? `peak RSS ${m.peak_rss_mb} MB` : ''}`;
+  `${perSample(m.cpu_s)} | ${perSample(m.main_busy_s)} | ${perSample(m.publisher_cpu_s)} | ${perSample(m.server_cpu_s)} | ` +
+  `${perSample(m.cpu_s + m.publisher_cpu_s + m.server_cpu_s)} | ${(m.machine_busy_s / m.wall_s).toFixed(2).padStart(5)} | ` +
+  `${m.peak_rss_mb ? `peak RSS ${m.peak_rss_mb} MB` : ''}`;
 console.log(
-  '\n| path (best round) | samples/s | of slower ceiling | µs CPU/sample (this process) | µs main thread busy/sample | notes',
+  `\nµs CPU per sample: this process (ingester, subscriber or store writer; its main thread apart), the publisher, the servers on the path (Mosquitto, InfluxDB), all of these; machine: cores busy of ${availableParallelism()}`,
 );
-console.log('|---|---:|---:|---:|---:|---');
+console.log(
+  '| path (best round) | samples/s | of slower ceiling | this process | main thread | publisher | servers | all | machine | notes',
+);
+console.log('|---|---:|---:|---:|---:|---:|---:|---:|---:|---');
 const lanes = PIPELINE_DEFAULTS.max_concurrent_writes;
 console.log(row(`broker alone (Mosquitto, ${CONNECTIONS} shared subscribers)`, best.broker));
 console.log(row(`SQLite alone (${STORE_CHUNK}-sample transactions, FULL)`, best.sqlite_raw));

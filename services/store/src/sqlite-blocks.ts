@@ -20,7 +20,20 @@ export const BLOCK_DEFAULTS = {
   min_pack: 256,
   /** samples moved from rows into blocks in one write call at most (bounds its latency). */
   max_compact_samples: 16 * 4096,
+  /** ms: a hole at least this long, and `gap_ratio` times the block's cadence, ends a block, so a
+   *  message that arrives after its successors (shared subscriptions reorder a burst) fills the hole
+   *  as a block of its own instead of rewriting the block around it. */
+  gap_ms: 5000,
+  gap_ratio: 4,
 };
+
+/**
+ * True where a block should end before an interval of `dt_ms` (see gap_ms). `cadence_ms`: the
+ * shortest interval in the block so far (null for a block of one sample, which any hole ends).
+ */
+export function isHole(dt_ms: number, cadence_ms: number | null, o: typeof BLOCK_DEFAULTS): boolean {
+  return dt_ms >= o.gap_ms && (cadence_ms === null || dt_ms >= o.gap_ratio * cadence_ms);
+}
 
 const WIDTH = NUMERIC_COLUMNS.length;
 

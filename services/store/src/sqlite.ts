@@ -11,7 +11,7 @@ import {
 } from '@thermargin/shared';
 import { lowerBound } from '@thermargin/core/health/window';
 import Database from 'better-sqlite3';
-import { BLOCK_DEFAULTS, decodeBlock, encodeBlock, mergeRows } from './sqlite-blocks.ts';
+import { BLOCK_DEFAULTS, decodeBlock, encodeBlock, isHole, mergeRows } from './sqlite-blocks.ts';
 import { createSqliteResults } from './sqlite-results.ts';
 import {
   type DeadLetter,
@@ -164,17 +164,26 @@ export function createSqliteStore(options: SqliteStoreOptions): SqliteStore {
     }
   }
 
-  /** Packs `c` (no row or block inside its range) into blocks, cut where another block lies between. */
+  /** Packs `c` (no row or block inside its range) into blocks, cut where another block or a hole lies between. */
   function seal(vehicle: string, c: SampleColumns, around: readonly BlockMeta[]): void {
     let from = 0;
     let b = 0;
+    let cadence: number | null = null;
     for (let i = 1; i <= c.n; i++) {
       while (b < around.length && around[b]!.last_ms < c.time_ms[i - 1]!) b++;
+      const dt = i < c.n ? c.time_ms[i]! - c.time_ms[i - 1]! : 0;
       const cut =
-        i === c.n || i - from === block.samples || (b < around.length && around[b]!.first_ms < c.time_ms[i]!);
-      if (!cut) continue;
+        i === c.n ||
+        i - from === block.samples ||
+        (b < around.length && around[b]!.first_ms < c.time_ms[i]!) ||
+        isHole(dt, cadence, block);
+      if (!cut) {
+        cadence = cadence === null ? dt : Math.min(cadence, dt);
+        continue;
+      }
       insertBlock.run({ vehicle, ...encodeBlock(c, from, i) });
       from = i;
+      cadence = null;
     }
   }
 

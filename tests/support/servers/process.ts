@@ -17,6 +17,11 @@ export class ServerProcess {
     return this.child !== undefined;
   }
 
+  /** The running server's process id (benchmarks read its CPU time). */
+  get pid(): number | undefined {
+    return this.child?.pid;
+  }
+
   async start(): Promise<void> {
     if (this.child) return;
     const log = createWriteStream(this.log_path, { flags: 'a' });
