@@ -101,7 +101,9 @@ export function generateScenario(s: ScenarioParams): Scenario {
       const dur = (1 + 2 * rng.uniform()) * 3_600_000;
       const seasonal = 18 + 9 * Math.sin((2 * Math.PI * (day - 20)) / 365);
       const ambient = seasonal + 3 * rng.normal();
-      const sinceClean = s.cleaning_day !== null && day >= s.cleaning_day ? day - s.cleaning_day : day;
+      // Fouling grows continuously: read at the trip's start, not at the start of its day.
+      const at = (t - START_MS) / DAY;
+      const sinceClean = s.cleaning_day !== null && day >= s.cleaning_day ? at - s.cleaning_day : at;
       const g = s.fouling ? 1 - Math.exp(-sinceClean / s.fouling.tau_days) : 0;
       let hRam = s.fouling ? 1 / (1 + s.fouling.a_ram * g) : 1;
       let hFan = s.fouling ? 1 / (1 + s.fouling.a_ram * s.fouling.fan_share * g) : 1;

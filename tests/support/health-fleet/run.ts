@@ -1,5 +1,5 @@
 import { assessVehicle, type VehicleAssessment } from '@thermargin/core/health/assess';
-import { generateScenario, type Scenario } from './generate.ts';
+import { generateScenario, type Scenario, type ScenarioParams } from './generate.ts';
 import {
   alertTrips,
   dayOf,
@@ -36,8 +36,14 @@ export interface Run {
 const d = (s: Scenario, got: number | null, ref: number | null) =>
   got === null || ref === null ? null : Number((dayOf(s, got)! - dayOf(s, ref)!).toFixed(1));
 
-export function run(set: SetName, scenario: ScenarioName, seed: number): Run {
-  const s = generateScenario(scenarioParams(set, scenario, seed));
+/** `change`: parameters that differ from the set's (the report's noise sweep). */
+export function run(
+  set: SetName,
+  scenario: ScenarioName,
+  seed: number,
+  change: Partial<ScenarioParams> = {},
+): Run {
+  const s = generateScenario({ ...scenarioParams(set, scenario, seed), ...change });
   const a = assessVehicle(s.vehicle, s.trips);
   const n = s.trips.length;
   let delay: number | null = null;
