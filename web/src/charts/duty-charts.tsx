@@ -15,6 +15,7 @@ const PERCENTILE_DASH = [DASH.dotted, DASH.dashed, DASH.long, DASH.solid, DASH.s
 export function DutyChart({ duty, by }: { duty: DutyCycleView; by: 'speed' | 'ambient' }) {
   const props = useMemo(() => {
     const bands = by === 'speed' ? duty.by_speed : duty.by_ambient;
+    const xLabel = by === 'speed' ? 'speed band' : 'ambient band';
     const keys = Object.keys(duty.overall.heat_kw ?? {});
     const label = (i: number) => bands[Math.round(i)]?.label ?? '';
     const series: uPlot.Series[] = [
@@ -43,7 +44,7 @@ export function DutyChart({ duty, by }: { duty: DutyCycleView; by: 'speed' | 'am
       bands.map((b) => b.hours),
     ];
     const axes: uPlot.Axis[] = [
-      valueAxis(by === 'speed' ? 'speed band' : 'ambient band', {
+      valueAxis(xLabel, {
         size: 40,
         splits: () => bands.map((_, i) => i),
         values: (_u, splits) => splits.map(label),
@@ -57,7 +58,7 @@ export function DutyChart({ duty, by }: { duty: DutyCycleView; by: 'speed' | 'am
       axes,
       x: {
         series: {
-          label: by === 'speed' ? 'speed band' : 'ambient band',
+          label: xLabel,
           value: (_u: uPlot, i: number) => label(i),
         },
         scale: { time: false, range: [-0.3, bands.length - 0.7] as uPlot.Range.MinMax },

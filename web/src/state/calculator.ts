@@ -1,3 +1,4 @@
+import { median } from '@thermargin/core/stats/quantile';
 import type { Powertrain } from '@thermargin/shared/fleet';
 import type { CalculatorBody, SizingResultView } from '@thermargin/shared/sizing-api';
 
@@ -18,11 +19,6 @@ export interface CalculatorForm {
   limit_drop_k: string;
 }
 
-const median = (xs: number[]): number => {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2;
-};
 const text = (x: number | undefined): string => (x === undefined || !Number.isFinite(x) ? '' : String(x));
 
 /** Starting inputs: the fleet's typical vehicle (median design point, limit and area), its comparison duty
