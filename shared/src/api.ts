@@ -149,7 +149,7 @@ export const bandSeriesSchema = z.object({
   ewma_lcl: col,
   cusum: col,
   cusum_h: z.number(),
-  change_points: z.array(z.object({ signal: iso, since: iso, detector: z.enum(['cusum', 'ewma']) })),
+  change_points: z.array(z.object({ signal: iso, since: iso, detector: z.enum(['cusum', 'ewma', 'step']) })),
   baselines: z.array(
     z.object({
       start: iso,

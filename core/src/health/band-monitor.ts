@@ -41,7 +41,8 @@ export interface ChangePoint {
   signal_ms: number;
   since_trip: number;
   since_ms: number;
-  detector: 'cusum' | 'ewma';
+  /** 'step': the step chart that watches for a further sudden fall after a change. */
+  detector: 'cusum' | 'ewma' | 'step';
 }
 
 /** What the rest of the assessment reads from a band after each trip. */
@@ -69,6 +70,10 @@ interface Period {
   points: BandPoint[];
   ewma: Ewma | null;
   cusum: Cusum | null;
+  /** After a change, a CUSUM tuned to large steps on the new segment's level, and the point it starts at. */
+  step: Cusum | null;
+  stepFrom: number;
+  stepRef: number;
   segmentFrom: number;
   alarmOn: boolean;
   /** Health of the in-control trips the reference is the median of (self-starting, until the first signal). */
@@ -117,6 +122,9 @@ export class BandMonitor {
       points: [],
       ewma: null,
       cusum: null,
+      step: null,
+      stepFrom: 0,
+      stepRef: 0,
       segmentFrom: 0,
       alarmOn: false,
       inControl: [],
@@ -175,28 +183,50 @@ export class BandMonitor {
       // The CUSUM's last zero can lie long before a sudden step when S wandered below h beforehand;
       // Hinkley's estimate inside that stretch finds the step itself, so the level is not diluted.
       const lastZero = N + (c.signal ? c.since : Math.max(0, charted - this.o.level_window_trips));
-      const from = shiftStart(
-        p.points.map((q) => q.health!),
-        p.record.reference!,
-        Math.min(lastZero, p.points.length - 1),
-      );
-      const first = p.points[from]!;
-      this.changes.push({
-        band: this.band,
-        signal_trip: trip,
-        signal_ms: t_ms,
-        since_trip: first.trip,
-        since_ms: first.t_ms,
-        detector: c.signal ? 'cusum' : 'ewma',
-      });
-      p.segmentFrom = Math.max(p.segmentFrom, from);
-    }
+      this.change(p, p.record.reference!, lastZero, c.signal ? 'cusum' : 'ewma');
+    } else if (alarm && p.step && p.points.length - 1 - p.segmentFrom >= this.o.min_level_trips) {
+      // The charts stay out of control after a change (on a fouled core, say), so a further fall, such
+      // as a fan failing, is found by the step chart against the new segment's level.
+      p.stepRef = this.level!.value; // the segment's level before this trip
+      const s = p.step.push(pt.health!);
+      if (s.signal) this.change(p, p.stepRef, p.stepFrom + s.since, 'step');
+    } else if (alarm && p.step) p.stepFrom = p.points.length; // too soon for a level: start with the next trip
+    if (!alarm) p.step = null;
     p.alarmOn = alarm;
     if (!alarm && this.changes.length === p.changesAtStart && p.inControl.length < this.o.reference_trips) {
       p.inControl.push(pt.health!);
       p.record.reference = median(p.inControl);
     }
     this.updateLevel(p);
+  }
+
+  /**
+   * Records a change whose shift (from `mu0`) began at or after point `from` (Hinkley's estimate),
+   * starts the current segment there and restarts the step chart on it.
+   */
+  private change(p: Period, mu0: number, from: number, detector: ChangePoint['detector']): void {
+    const at = shiftStart(
+      p.points.map((q) => q.health!),
+      mu0,
+      Math.min(from, p.points.length - 1),
+    );
+    const first = p.points[at]!;
+    const last = p.points[p.points.length - 1]!;
+    this.changes.push({
+      band: this.band,
+      signal_trip: last.trip,
+      signal_ms: last.t_ms,
+      since_trip: first.trip,
+      since_ms: first.t_ms,
+      detector,
+    });
+    p.segmentFrom = Math.max(p.segmentFrom, at);
+    p.step = createCusum(
+      { k: this.o.step_k, h: this.o.step_h },
+      () => p.stepRef,
+      () => this.sigmaNow,
+    );
+    p.stepFrom = p.points.length;
   }
 
   private addHealth(p: Period, i: number, base: number): void {

@@ -26,6 +26,15 @@ export interface HealthOptions {
   cusum_k: number;
   /** σ, 5: CUSUM decision interval h: one-sided in-control ARL 930.9 trips. */
   cusum_h: number;
+  /**
+   * σ, 1.5 and 3: the step chart, a CUSUM that watches the segment after a change for a further sudden
+   * fall (a fan failing on a fouled core), while the main charts stay out of control. Tuned to large
+   * steps: by Siegmund's approximation its in-control ARL is ≈ 6·10⁴ trips; by Monte Carlo a 2 σ step
+   * takes ≈ 6.4 trips and a 4 σ one ≈ 1.8 (tests/core/stats). Its reference is the segment's current
+   * level (a line while the segment falls significantly), so the drift of a fouling core is no step.
+   */
+  step_k: number;
+  step_h: number;
   /** health units, 0.01: floor on the trip noise σ, so a quiet start does not make the charts twitchy. */
   sigma_floor: number;
   /** trips, 30: most recent trips the current level (Theil–Sen) is estimated from. */
@@ -63,6 +72,8 @@ export const HEALTH_DEFAULTS: Readonly<HealthOptions> = Object.freeze({
   ewma_L: 2.814,
   cusum_k: 0.5,
   cusum_h: 5,
+  step_k: 1.5,
+  step_h: 3,
   sigma_floor: 0.01,
   level_window_trips: 30,
   min_level_trips: 3,

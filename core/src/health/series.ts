@@ -13,7 +13,7 @@ export interface BandSeries {
   /** σ units; the decision interval is `cusum_h`. */
   cusum: (number | null)[];
   cusum_h: number;
-  change_points: { signal: string; since: string; detector: 'cusum' | 'ewma' }[];
+  change_points: { signal: string; since: string; detector: 'cusum' | 'ewma' | 'step' }[];
   baselines: { start: string; k_w_m2k: number | null; source: 'bench' | 'trips'; reference: number | null }[];
 }
 

@@ -115,6 +115,18 @@ describe('health assessment on generated fleets', () => {
     }
   });
 
+  it('fan failing on a fouling core: cause fan within 5 fan-band trips, though the detectors were already out of control', () => {
+    for (const r of runs('fouled_fan')) {
+      expect(r.f.delay_trips, label(r)).not.toBeNull();
+      expect(r.f.delay_trips!, label(r)).toBeLessThanOrEqual(5);
+      expect(r.a.cause, label(r)).toBe('fan');
+      expect(
+        r.a.series.fan.change_points.map((c) => c.detector),
+        label(r),
+      ).toContain('step');
+    }
+  });
+
   it('after a recorded cleaning the vehicle recovers to ok', () => {
     for (const r of runs('cleaning')) {
       const ev = firstDay(r.s, EVENT_DAY.cleaning)!;

@@ -69,6 +69,16 @@ describe('tabular CUSUM k = 0.5 (check-values §4, Montgomery tables as computed
     // One-sided monitors a fall: a shift δ here is a fall of δ.
     expect(Math.abs(arl(RUNS, 7, -delta, cusum(h, sides)) / expected - 1)).toBeLessThan(TOL);
   });
+  it("the health step chart's design (k 1.5, h 3; options.ts): ARL0 ≈ 6·10⁴ by Siegmund, δ 2 → 6.4 and δ 4 → 1.8 by Monte Carlo", () => {
+    const d = { k: 1.5, h: 3 };
+    expect(siegmundArl(d, 0)).toBeGreaterThan(5e4);
+    const step = () => {
+      const c = createCusum(d, zero, one);
+      return (x: number) => c.push(x).signal;
+    };
+    expect(Math.abs(arl(RUNS, 7, -2, step) / siegmundArl(d, 2) - 1)).toBeLessThan(TOL);
+    expect(Math.abs(arl(RUNS, 7, -4, step) / 1.78 - 1)).toBeLessThan(TOL); // Siegmund: 1.59, loose this near 1
+  });
   it('estimates the change at the last zero of the statistic', () => {
     const c = createCusum({ k: 0.5, h: 2 }, zero, one);
     const pts = [0.3, 0.1, -2, -2, -2].map((x) => c.push(x));

@@ -58,12 +58,12 @@ export function run(
     delay = gi === null || ti === null ? null : gi - ti;
     delayDays = d(s, gi, ti);
     detail = `watch ${gw === null || tw === null ? 'never' : `${gw - tw} trips / ${d(s, gw, tw)} d`} vs true; inspect cause ${gi === null ? '-' : alertTrips(s, a).find((x) => x.trip === gi)?.cause}`;
-  } else if (scenario === 'fan') {
-    const ev = firstDay(s, EVENT_DAY.fan)!;
+  } else if (scenario === 'fan' || scenario === 'fouled_fan') {
+    const ev = firstDay(s, EVENT_DAY[scenario])!;
     const got = firstCause(s, a, 'fan', ev);
     delay = got === null ? null : s.truth.slice(ev, got + 1).filter((t) => t.fan_data).length;
     delayDays = d(s, got, ev);
-    detail = `delay counted in trips with fan-band data; ram health at end ${a.health.ram?.toFixed(3)}`;
+    detail = `delay counted in trips with fan-band data; ram health at end ${a.health.ram?.toFixed(3)}; final cause ${a.cause}`;
   } else if (scenario === 'sensor') {
     const ev = firstDay(s, EVENT_DAY.sensor)!;
     const got = firstCause(s, a, 'sensor', ev);

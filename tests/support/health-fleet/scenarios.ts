@@ -50,6 +50,7 @@ export const SCENARIOS = [
   'healthy',
   'fouling',
   'fan',
+  'fouled_fan',
   'cleaning',
   'sensor',
   'flags',
@@ -59,7 +60,14 @@ export const SCENARIOS = [
 export type ScenarioName = (typeof SCENARIOS)[number];
 
 /** Day the fault starts (fan, sensor bias, sensor flags, coolant flow) or the cleaning is done. */
-export const EVENT_DAY = { fan: 60, sensor: 60, flags: 60, coolant: 60, cleaning: 110 } as const;
+export const EVENT_DAY = {
+  fan: 60,
+  fouled_fan: 100,
+  sensor: 60,
+  flags: 60,
+  coolant: 60,
+  cleaning: 110,
+} as const;
 
 export function scenarioParams(set: SetName, name: ScenarioName, seed: number): ScenarioParams {
   const { tau_days, ...p } = PARAMETER_SETS[set];
@@ -81,6 +89,12 @@ export function scenarioParams(set: SetName, name: ScenarioName, seed: number): 
       return { ...base, fouling };
     case 'fan':
       return { ...base, fan_fault: { day: EVENT_DAY.fan, airflow_loss: 0.7 } };
+    case 'fouled_fan': // the fan fails on a core already fouling (the detectors are out of control by then)
+      return {
+        ...base,
+        fouling: { ...fouling, a_ram: 0.25 },
+        fan_fault: { day: EVENT_DAY.fouled_fan, airflow_loss: 0.7 },
+      };
     case 'cleaning':
       return { ...base, fouling: { ...fouling, tau_days: tau_days * 0.6 }, cleaning_day: EVENT_DAY.cleaning };
     case 'sensor':
