@@ -14,6 +14,10 @@ export interface Candidate {
 const ALIKE = 0.85;
 
 const pct = (x: number) => `${(100 * x).toFixed(0)} %`;
+const isoDay = (ms: number) => new Date(ms).toISOString().slice(0, 10);
+
+/** ms, one day: a change estimated to start this much before the first failing soak check still goes with it. */
+const SOAK_SLACK_MS = 86_400_000;
 
 /** z of a band's fall: (reference − level) / (σ · se factor). */
 export function fallZ(b: BandSummary): number {
@@ -90,6 +94,19 @@ export function rankCauses(
     const examples = ev.flags.examples.length ? ` (${ev.flags.examples.join('; ')})` : '';
     sensorParts.push(
       `implausible signals on ${ev.flags.flagged} of the last ${ev.flags.trips} trips${examples}${held}`,
+    );
+  }
+  // Coolant above ambient at key-on (ambient reading low, or coolant high) makes ITD look larger and k
+  // smaller: a fall that began with the soak checks failing so is the sensor's until they say otherwise.
+  const run = ev.soak.run;
+  const withRun = [ram, fan].filter(
+    (b) => run?.sign === 1 && fell(b, minDrop) && b.segment_start_ms >= run.since_ms - SOAK_SLACK_MS,
+  );
+  // 0.75: above a fan fault seen in the fan band alone (0.7), below one the holding ram band confirms.
+  if (run && withRun.length && sensor < 0.75) {
+    sensor = 0.75;
+    sensorParts.push(
+      `${withRun.map(describe).join(' and ')} since ${isoDay(withRun[0]!.segment_start_ms)}, when the soak check began failing: at key-on the coolant read more than ${o.soak_tolerance_k} K above ambient on the last ${run.checks} cold start${run.checks === 1 ? '' : 's'}, as an ambient sensor reading low (or a coolant sensor reading high) makes k look smaller`,
     );
   }
   const sensorSuspect = sensor >= o.cause_min_score;

@@ -6,8 +6,17 @@ import { headEnd, lowerBound, tailStart } from './window.ts';
 
 /** The trip-level signs (besides band k) that tell the causes apart, over recent trips. */
 export interface Evidence {
-  /** Last soak checks (key-on after a long stop): how many, how many beyond tolerance with the majority sign. */
-  soak: { checks: number; hits: number; sign: -1 | 1; median_k: number | null };
+  /**
+   * Last soak checks (key-on after a long stop): how many, how many beyond tolerance with the majority
+   * sign; `run`: the newest checks that are all beyond tolerance on one side, and when the first was.
+   */
+  soak: {
+    checks: number;
+    hits: number;
+    sign: -1 | 1;
+    median_k: number | null;
+    run: { checks: number; sign: -1 | 1; since_ms: number } | null;
+  };
   /**
    * Recent trips with sensor flags. `held`: the flagged share reached the suspect level since the last
    * sensor replacement and the trips have not run clean for a whole window since, so a bad sensor that
@@ -114,6 +123,13 @@ export class EvidenceTracker {
     const tol = this.o.soak_tolerance_k;
     const below = soaks.filter((v) => v < -tol).length;
     const above = soaks.filter((v) => v > tol).length;
+    // The newest checks beyond tolerance on the side of the latest one.
+    const side = (v: number): -1 | 0 | 1 => (v > tol ? 1 : v < -tol ? -1 : 0);
+    const sign = soaks.length ? side(soaks[soaks.length - 1]!) : 0;
+    let first = soaks.length;
+    while (sign !== 0 && first > 0 && side(soaks[first - 1]!) === sign) first--;
+    const run =
+      sign === 0 ? null : { checks: soaks.length - first, sign, since_ms: this.times[soakIdx[first]!]! };
     const satFrom = this.since('saturation');
     const dtFrom = lowerBound(dtAt, this.since('coolant_dt'));
     return {
@@ -122,6 +138,7 @@ export class EvidenceTracker {
         hits: Math.max(below, above),
         sign: below >= above ? -1 : 1,
         median_k: median0(soaks),
+        run,
       },
       flags: this.flags,
       saturation: this.split(n - satFrom, (k) => trips[satFrom + k]!.fan_saturated_share),

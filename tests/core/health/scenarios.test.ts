@@ -168,6 +168,21 @@ describe('health assessment on generated fleets', () => {
   });
 
   // With half the trips flagged, 3 flagged of the last 10 comes within 16 trips in all but ≈ 0.2 % of runs (binomial).
+  it('ambient sensor 6 K low (k looks smaller): sensor within 5 cold starts, radiator not blamed once a cold start shows it', () => {
+    for (const r of runs('sensor_low')) {
+      expect(r.f.delay_trips, label(r)).not.toBeNull();
+      expect(r.f.delay_trips!, label(r)).toBeLessThanOrEqual(5);
+      expect(r.a.cause, label(r)).toBe('sensor');
+      const ev = firstDay(r.s, EVENT_DAY.sensor_low)!;
+      const cold = r.s.truth.findIndex((t, i) => i >= ev && t.cold_start);
+      const since = r.a.alerts.filter((a) => Date.parse(a.time) >= Date.parse(r.s.trips[cold]!.start));
+      expect(
+        since.map((a) => a.cause),
+        label(r),
+      ).toEqual(since.map(() => 'sensor'));
+    }
+  });
+
   it('sensor flags on half the trips: cause sensor within 16 trips and held while they go on', () => {
     for (const r of runs('flags')) {
       expect(r.f.delay_trips, label(r)).not.toBeNull();

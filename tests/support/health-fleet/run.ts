@@ -64,8 +64,8 @@ export function run(
     delay = got === null ? null : s.truth.slice(ev, got + 1).filter((t) => t.fan_data).length;
     delayDays = d(s, got, ev);
     detail = `delay counted in trips with fan-band data; ram health at end ${a.health.ram?.toFixed(3)}; final cause ${a.cause}`;
-  } else if (scenario === 'sensor') {
-    const ev = firstDay(s, EVENT_DAY.sensor)!;
+  } else if (scenario === 'sensor' || scenario === 'sensor_low') {
+    const ev = firstDay(s, EVENT_DAY[scenario])!;
     const got = firstCause(s, a, 'sensor', ev);
     delay = got === null ? null : s.truth.slice(ev, got + 1).filter((t) => t.cold_start).length;
     delayDays = d(s, got, ev);

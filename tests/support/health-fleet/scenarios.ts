@@ -53,6 +53,7 @@ export const SCENARIOS = [
   'fouled_fan',
   'cleaning',
   'sensor',
+  'sensor_low',
   'flags',
   'coolant',
   'sparse',
@@ -64,6 +65,7 @@ export const EVENT_DAY = {
   fan: 60,
   fouled_fan: 100,
   sensor: 60,
+  sensor_low: 60,
   flags: 60,
   coolant: 60,
   cleaning: 110,
@@ -99,6 +101,8 @@ export function scenarioParams(set: SetName, name: ScenarioName, seed: number): 
       return { ...base, fouling: { ...fouling, tau_days: tau_days * 0.6 }, cleaning_day: EVENT_DAY.cleaning };
     case 'sensor':
       return { ...base, ambient_bias: { day: EVENT_DAY.sensor, k: 6 } };
+    case 'sensor_low': // reading low makes k look smaller: a fall the radiator must not take the blame for
+      return { ...base, ambient_bias: { day: EVENT_DAY.sensor_low, k: -6 } };
     case 'flags':
       return { ...base, sensor_flags: { day: EVENT_DAY.flags, share: 0.5 } };
     case 'coolant':
