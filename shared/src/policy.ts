@@ -17,7 +17,8 @@ export const POLICY_DEFAULTS = {
   inspect_health_ratio: 0.7,
   /** %: watched when a change detector has signalled and the band's k sits this far below its reference. */
   watch_health_drop_pct: 8,
-  /** % points: a margin must climb this far back above a threshold before the status steps down. */
+  /** % points: a margin must climb this far back above a threshold before the status steps down (and a
+   *  fall of k that made a watch must come back within the watch drop less these points of k). */
   hysteresis_margin_pct: 2,
   /** K: the same deadband for the limiting ambient temperature. */
   hysteresis_lat_k: 1,

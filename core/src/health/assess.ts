@@ -129,11 +129,13 @@ export function assessVehicle(
     candidates = rankCauses(ram, fan, evidence.read(), o, minDrop);
     const c = pickCause(candidates, o.cause_min_score);
     const sensorSuspect = c.cause === 'sensor';
-    const detected = [ram, fan].some((b) => b.alarm && (b.drop ?? 0) >= minDrop && fallZ(b) >= 2);
+    const fallen = (drop: number) =>
+      [ram, fan].some((b) => b.alarm && (b.drop ?? 0) >= drop && fallZ(b) >= 2);
     const step = machine.step({
       margin_pct: m,
       health: [ram.level?.value ?? null, fan.level?.value ?? null],
-      detected_drop: detected,
+      detected_drop: fallen(minDrop),
+      detected_drop_held: fallen(minDrop - p.hysteresis_margin_pct / 100),
       sensor_suspect: sensorSuspect,
       coolant_suspect: c.cause === 'coolant_flow',
       margin_falling: (level?.slope_per_day ?? 0) < 0,

@@ -12,6 +12,8 @@ export interface StatusInput {
   health: readonly (number | null)[];
   /** A detector signals a fall of at least the policy's watch drop. */
   detected_drop: boolean;
+  /** The same with the deadband: a fall of at least the watch drop less `hysteresis_margin_pct` points. */
+  detected_drop_held: boolean;
   sensor_suspect: boolean;
   /** The radiator's temperature drop per kW has risen: the coolant side is suspect before k shows it. */
   coolant_suspect: boolean;
@@ -67,9 +69,9 @@ export class StatusMachine {
       reasons.push(`a change detector signals k ≥ ${this.p.watch_health_drop_pct} % below its reference`);
     if (x.sensor_suspect) reasons.push('a sensor is suspect');
     if (x.coolant_suspect) reasons.push('the coolant side is suspect');
-    const flag = x.detected_drop || x.sensor_suspect || x.coolant_suspect ? 1 : 0;
-    enter = Math.max(enter, flag);
-    hold = Math.max(hold, flag);
+    const flag = x.sensor_suspect || x.coolant_suspect ? 1 : 0;
+    enter = Math.max(enter, flag, x.detected_drop ? 1 : 0);
+    hold = Math.max(hold, flag, x.detected_drop_held ? 1 : 0);
 
     const now = RANK[this.status];
     let next = now;

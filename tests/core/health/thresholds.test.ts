@@ -24,11 +24,12 @@ describe('LAT thresholds as margins (field notes: margin and LAT from the same k
 describe('status hysteresis', () => {
   const p = resolvePolicy();
   const t = marginThresholds(p, 70, 40);
-  const step = (m: StatusMachine, margin: number | null) =>
+  const step = (m: StatusMachine, margin: number | null, drop: 0 | 1 | 2 = 0) =>
     m.step({
       margin_pct: margin,
       health: [1, 1],
-      detected_drop: false,
+      detected_drop: drop === 2,
+      detected_drop_held: drop >= 1,
       sensor_suspect: false,
       coolant_suspect: false,
       margin_falling: false,
@@ -39,6 +40,13 @@ describe('status hysteresis', () => {
     expect(step(m, 11)).toBe('watch'); // inside the 2-point deadband
     for (let i = 0; i < p.clear_trips - 1; i++) expect(step(m, 13)).toBe('watch');
     expect(step(m, 13)).toBe('ok');
+  });
+  it('a fall of k enters watch at the watch drop and holds it down to the drop less the deadband', () => {
+    const m = new StatusMachine(t, p);
+    expect(step(m, 20, 2)).toBe('watch');
+    for (let i = 0; i < 10; i++) expect(step(m, 20, 1)).toBe('watch'); // 6–8 % below: held
+    for (let i = 0; i < p.clear_trips - 1; i++) expect(step(m, 20)).toBe('watch');
+    expect(step(m, 20)).toBe('ok');
   });
   it('holds while the margin is not judged (right after maintenance)', () => {
     const m = new StatusMachine(t, p);
