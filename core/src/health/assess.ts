@@ -4,7 +4,7 @@ import type { Band } from '../trip/bands.ts';
 import { designBand } from '../trip/design-point.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
 import { BandMonitor, DAY_MS } from './band-monitor.ts';
-import { type Candidate, fallZ, rankCauses } from './causes.ts';
+import { type Candidate, FAN_OVER_RAM, type FanStep, fallZ, rankCauses } from './causes.ts';
 import { EvidenceTracker } from './evidence.ts';
 import { currentLevel } from './level.ts';
 import { type HealthOptions, resolveHealthOptions } from './options.ts';
@@ -126,7 +126,14 @@ export function assessVehicle(
     const m =
       level && primary.alarm ? (asymptotic(primary.period_start_ms) ?? level.value) : (level?.value ?? null);
     marginLevel[i] = m;
-    candidates = rankCauses(ram, fan, evidence.read(), o, minDrop);
+    candidates = rankCauses(
+      ram,
+      fan,
+      evidence.read(),
+      o,
+      minDrop,
+      fanStep(bands.fan, bands.ram, o.min_level_trips),
+    );
     const c = pickCause(candidates, o.cause_min_score);
     const sensorSuspect = c.cause === 'sensor';
     const fallen = (drop: number) =>
@@ -249,6 +256,31 @@ export function assessVehicle(
       },
     },
   };
+}
+
+/**
+ * Of the fan band's changes since its baseline, the one that took most from the fan band alone: each
+ * band's level just before the change against the median of its trips since (a windowed level lags).
+ */
+function fanStep(fan: BandMonitor, ram: BandMonitor, min_trips: number): FanStep | null {
+  const f = fan.summary().reference;
+  const r = ram.summary().reference;
+  if (f === null || r === null) return null;
+  let best: FanStep | null = null;
+  for (const c of fan.periodChanges()) {
+    const fanSince = fan.healthSince(c.since_ms, min_trips);
+    if (c.level_before === null || fanSince === null) continue;
+    const before = ram.levelBefore(c.since_ms);
+    const since = ram.healthSince(c.since_ms, min_trips);
+    const step: FanStep = {
+      since_ms: c.since_ms,
+      fall: (c.level_before - fanSince) / f,
+      ram_fall: before === null || since === null ? null : (before - since) / r,
+    };
+    const lead = (x: FanStep) => x.fall - FAN_OVER_RAM * Math.max(0, x.ram_fall ?? Number.POSITIVE_INFINITY);
+    if (best === null || lead(step) > lead(best)) best = step;
+  }
+  return best;
 }
 
 /** trips: fewest since the re-baseline for a Kern–Seaton level. */

@@ -5,6 +5,7 @@ import { RunningDiffSigma } from '../stats/diff-sigma.ts';
 import { createEwma, type Ewma } from '../stats/ewma.ts';
 import type { Band } from '../trip/bands.ts';
 import { currentLevel, type Level } from './level.ts';
+import { lowerBound } from './window.ts';
 import type { HealthOptions } from './options.ts';
 
 export const DAY_MS = 86_400_000;
@@ -43,6 +44,8 @@ export interface ChangePoint {
   since_ms: number;
   /** 'step': the step chart that watches for a further sudden fall after a change. */
   detector: 'cusum' | 'ewma' | 'step';
+  /** Health units: the band's level just before the change was found (null when not judged yet). */
+  level_before: number | null;
 }
 
 /** What the rest of the assessment reads from a band after each trip. */
@@ -89,6 +92,8 @@ interface Period {
  */
 export class BandMonitor {
   readonly points: BandPoint[] = [];
+  /** Epoch ms of `points`, for searches by time. */
+  private readonly times: number[] = [];
   readonly baselines: BaselinePeriod[] = [];
   readonly changes: ChangePoint[] = [];
   private readonly diffs = new RunningDiffSigma();
@@ -152,6 +157,7 @@ export class BandMonitor {
     };
     p.points.push(pt);
     this.points.push(pt);
+    this.times.push(t_ms);
     const N = this.o.baseline_trips;
     if (p.record.k_w_m2k === null && p.points.length === N)
       p.record.k_w_m2k = median(p.points.map((q) => q.k_w_m2k));
@@ -219,6 +225,7 @@ export class BandMonitor {
       since_trip: first.trip,
       since_ms: first.t_ms,
       detector,
+      level_before: this.level?.value ?? null,
     });
     p.segmentFrom = Math.max(p.segmentFrom, at);
     p.step = createCusum(
@@ -247,6 +254,27 @@ export class BandMonitor {
       seg.map((q) => q.health!),
     );
     p.points[p.points.length - 1]!.level = this.level.value;
+  }
+
+  /** Median health of the band's trips from `t_ms` on; null with fewer than `min` of them. */
+  healthSince(t_ms: number, min: number): number | null {
+    const from = lowerBound(this.times, t_ms);
+    const h = this.points.slice(from).map((q) => q.health);
+    return h.length >= min && h.every((x) => x !== null) ? median(h as number[]) : null;
+  }
+
+  /** The changes found since the current baseline period began, oldest first. */
+  periodChanges(): readonly ChangePoint[] {
+    return this.period ? this.changes.slice(this.period.changesAtStart) : [];
+  }
+
+  /** The band's level as it was after its last trip before `t_ms` (null when none was judged by then). */
+  levelBefore(t_ms: number): number | null {
+    for (let i = lowerBound(this.times, t_ms) - 1; i >= 0; i--) {
+      const l = this.points[i]!.level;
+      if (l !== null) return l;
+    }
+    return null;
   }
 
   summary(): BandSummary {

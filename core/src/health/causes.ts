@@ -3,6 +3,22 @@ import type { BandSummary } from './band-monitor.ts';
 import type { Evidence } from './evidence.ts';
 import type { HealthOptions } from './options.ts';
 
+/**
+ * –, 3: a fan fault takes k from the fan band alone, while fouling, the coolant side and a biased sensor
+ * take at least as much from the ram band: a fan band falling 3× more than the ram band from the same
+ * time on points at the fan (our choice).
+ */
+export const FAN_OVER_RAM = 3;
+
+/** A change of the fan band against the ram band over the same trips (falls of k, as fractions). */
+export interface FanStep {
+  since_ms: number;
+  /** Fan-band level just before the change less the median of its trips since, over its reference. */
+  fall: number;
+  /** The same for the ram band from the same time on; null when it was not driven before and since. */
+  ram_fall: number | null;
+}
+
 export interface Candidate {
   cause: Cause;
   /** 0–1: how well the evidence fits this cause (our weighting, documented below). */
@@ -62,6 +78,7 @@ export function rankCauses(
   ev: Evidence,
   o: HealthOptions,
   minDrop: number,
+  fanStep: FanStep | null = null,
 ): Candidate[] {
   const out: Candidate[] = [];
   const sat = rose(ev.saturation, o.fan_saturation_rise, true);
@@ -120,9 +137,20 @@ export function rankCauses(
     let text: string;
     // The ram band only speaks for the fan if it was driven since the fan band fell.
     const ramSince = ram.last_ms !== null && ram.last_ms >= fan.segment_start_ms;
+    // On a core already fouling the ram band has fallen too: what tells is what fell at the fan's change.
+    // Unless the fall came with the soak check failing: then the sensor explains it as well.
+    const stepped =
+      !withRun.includes(fan) &&
+      fanStep !== null &&
+      fanStep.fall >= minDrop &&
+      fanStep.ram_fall !== null &&
+      fanStep.fall >= FAN_OVER_RAM * fanStep.ram_fall;
     if (ramSince && held(ram, minDrop)) {
       score = 0.6;
       text = `${describe(fan)} while the ${describe(ram)}`;
+    } else if (stepped) {
+      score = 0.6;
+      text = `fan-band k fell ${pct(fanStep!.fall)} from ${isoDay(fanStep!.since_ms)} on, while the ram-band k moved ${pct(fanStep!.ram_fall!)} over the same trips (${describe(fan)}; ${describe(ram)})`;
     } else if (ram.drop === null || !ramSince) {
       score = 0.4;
       text = `${describe(fan)}; the ram band was not reached since, so fouling or a coolant-side loss cannot be ruled out`;

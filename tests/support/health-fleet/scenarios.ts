@@ -91,10 +91,10 @@ export function scenarioParams(set: SetName, name: ScenarioName, seed: number): 
       return { ...base, fouling };
     case 'fan':
       return { ...base, fan_fault: { day: EVENT_DAY.fan, airflow_loss: 0.7 } };
-    case 'fouled_fan': // the fan fails on a core already fouling (the detectors are out of control by then)
+    case 'fouled_fan': // the fan fails on a core already well fouled (the detectors are out of control by then)
       return {
         ...base,
-        fouling: { ...fouling, a_ram: 0.25 },
+        fouling: { ...fouling, a_ram: 0.4 },
         fan_fault: { day: EVENT_DAY.fouled_fan, airflow_loss: 0.7 },
       };
     case 'cleaning':
