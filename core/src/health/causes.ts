@@ -116,8 +116,14 @@ export function rankCauses(
   // Coolant above ambient at key-on (ambient reading low, or coolant high) makes ITD look larger and k
   // smaller: a fall that began with the soak checks failing so is the sensor's until they say otherwise.
   const run = ev.soak.run;
+  // The fall goes with the run when it began after the last check before the run (none passed since),
+  // or at most a day before the run's first check.
   const withRun = [ram, fan].filter(
-    (b) => run?.sign === 1 && fell(b, minDrop) && b.segment_start_ms >= run.since_ms - SOAK_SLACK_MS,
+    (b) =>
+      run?.sign === 1 &&
+      fell(b, minDrop) &&
+      (b.segment_start_ms >= run.since_ms - SOAK_SLACK_MS ||
+        (run.previous_ms !== null && b.segment_start_ms > run.previous_ms)),
   );
   // 0.75: above a fan fault seen in the fan band alone (0.7), below one the holding ram band confirms.
   if (run && withRun.length && sensor < 0.75) {

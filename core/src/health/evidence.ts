@@ -8,14 +8,15 @@ import { headEnd, lowerBound, tailStart } from './window.ts';
 export interface Evidence {
   /**
    * Last soak checks (key-on after a long stop): how many, how many beyond tolerance with the majority
-   * sign; `run`: the newest checks that are all beyond tolerance on one side, and when the first was.
+   * sign; `run`: the newest checks that are all beyond tolerance on one side, when the first was, and
+   * when the check before them was (null when none since the last sensor replacement).
    */
   soak: {
     checks: number;
     hits: number;
     sign: -1 | 1;
     median_k: number | null;
-    run: { checks: number; sign: -1 | 1; since_ms: number } | null;
+    run: { checks: number; sign: -1 | 1; since_ms: number; previous_ms: number | null } | null;
   };
   /**
    * Recent trips with sensor flags. `held`: the flagged share reached the suspect level since the last
@@ -118,7 +119,8 @@ export class EvidenceTracker {
     const { trips, soakAt, dtAt } = this;
     const n = trips.length;
     const soakFrom = lowerBound(soakAt, this.since('soak'));
-    const soakIdx = soakAt.slice(soakFrom + tailStart(soakAt.length - soakFrom, this.o.soak_window));
+    const window = soakFrom + tailStart(soakAt.length - soakFrom, this.o.soak_window);
+    const soakIdx = soakAt.slice(window);
     const soaks = soakIdx.map((i) => trips[i]!.soak_offset_k!);
     const tol = this.o.soak_tolerance_k;
     const below = soaks.filter((v) => v < -tol).length;
@@ -128,8 +130,16 @@ export class EvidenceTracker {
     const sign = soaks.length ? side(soaks[soaks.length - 1]!) : 0;
     let first = soaks.length;
     while (sign !== 0 && first > 0 && side(soaks[first - 1]!) === sign) first--;
+    const before = window + first - 1 >= soakFrom ? soakAt[window + first - 1]! : null;
     const run =
-      sign === 0 ? null : { checks: soaks.length - first, sign, since_ms: this.times[soakIdx[first]!]! };
+      sign === 0
+        ? null
+        : {
+            checks: soaks.length - first,
+            sign,
+            since_ms: this.times[soakIdx[first]!]!,
+            previous_ms: before === null ? null : this.times[before]!,
+          };
     const satFrom = this.since('saturation');
     const dtFrom = lowerBound(dtAt, this.since('coolant_dt'));
     return {
