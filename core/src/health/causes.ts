@@ -159,7 +159,7 @@ export function rankCauses(
       text = `fan-band k fell ${pct(fanStep!.fall)} from ${isoDay(fanStep!.since_ms)} on, while the ram-band k moved ${pct(fanStep!.ram_fall!)} over the same trips (${describe(fan)}; ${describe(ram)})`;
     } else if (ram.drop === null || !ramSince) {
       score = 0.4;
-      text = `${describe(fan)}; the ram band was not reached since, so fouling or a coolant-side loss cannot be ruled out`;
+      text = `${describe(fan)}; the ram band was not reached since, so fouling, a coolant-side loss or a biased temperature sensor cannot be ruled out`;
     } else if (fan.drop! > 2 * ram.drop + minDrop) {
       score = 0.45;
       text = `${describe(fan)}, far more than the ${describe(ram)}`;
