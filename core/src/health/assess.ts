@@ -126,13 +126,8 @@ export function assessVehicle(
     const m =
       level && primary.alarm ? (asymptotic(primary.period_start_ms) ?? level.value) : (level?.value ?? null);
     marginLevel[i] = m;
-    candidates = rankCauses(
-      ram,
-      fan,
-      evidence.read(),
-      o,
-      minDrop,
-      fanStep(bands.fan, bands.ram, o.min_level_trips),
+    candidates = rankCauses(ram, fan, evidence.read(), o, minDrop, () =>
+      fanStep(bands.fan, bands.ram, fan.reference, ram.reference, o.min_level_trips),
     );
     const c = pickCause(candidates, o.cause_min_score);
     const sensorSuspect = c.cause === 'sensor';
@@ -261,10 +256,15 @@ export function assessVehicle(
 /**
  * Of the fan band's changes since its baseline, the one that took most from the fan band alone: each
  * band's level just before the change against the median of its trips since (a windowed level lags).
+ * `f`, `r`: the bands' references.
  */
-function fanStep(fan: BandMonitor, ram: BandMonitor, min_trips: number): FanStep | null {
-  const f = fan.summary().reference;
-  const r = ram.summary().reference;
+function fanStep(
+  fan: BandMonitor,
+  ram: BandMonitor,
+  f: number | null,
+  r: number | null,
+  min_trips: number,
+): FanStep | null {
   if (f === null || r === null) return null;
   let best: FanStep | null = null;
   for (const c of fan.periodChanges()) {

@@ -76,7 +76,6 @@ interface Period {
   /** After a change, a CUSUM tuned to large steps on the new segment's level, and the point it starts at. */
   step: Cusum | null;
   stepFrom: number;
-  stepRef: number;
   segmentFrom: number;
   alarmOn: boolean;
   /** Health of the in-control trips the reference is the median of (self-starting, until the first signal). */
@@ -129,7 +128,6 @@ export class BandMonitor {
       cusum: null,
       step: null,
       stepFrom: 0,
-      stepRef: 0,
       segmentFrom: 0,
       alarmOn: false,
       inControl: [],
@@ -193,9 +191,8 @@ export class BandMonitor {
     } else if (alarm && p.step && p.points.length - 1 - p.segmentFrom >= this.o.min_level_trips) {
       // The charts stay out of control after a change (on a fouled core, say), so a further fall, such
       // as a fan failing, is found by the step chart against the new segment's level.
-      p.stepRef = this.level!.value; // the segment's level before this trip
       const s = p.step.push(pt.health!);
-      if (s.signal) this.change(p, p.stepRef, p.stepFrom + s.since, 'step');
+      if (s.signal) this.change(p, this.level!.value, p.stepFrom + s.since, 'step');
     } else if (alarm && p.step) p.stepFrom = p.points.length; // too soon for a level: start with the next trip
     if (!alarm) p.step = null;
     p.alarmOn = alarm;
@@ -228,9 +225,10 @@ export class BandMonitor {
       level_before: this.level?.value ?? null,
     });
     p.segmentFrom = Math.max(p.segmentFrom, at);
+    // Its reference is the segment's level before each trip (the level is updated after the push).
     p.step = createCusum(
       { k: this.o.step_k, h: this.o.step_h },
-      () => p.stepRef,
+      () => this.level!.value,
       () => this.sigmaNow,
     );
     p.stepFrom = p.points.length;

@@ -78,7 +78,8 @@ export function rankCauses(
   ev: Evidence,
   o: HealthOptions,
   minDrop: number,
-  fanStep: FanStep | null = null,
+  /** Read only when the fan band has fallen (it searches the band's history). */
+  fanStep: () => FanStep | null = () => null,
 ): Candidate[] {
   const out: Candidate[] = [];
   const sat = rose(ev.saturation, o.fan_saturation_rise, true);
@@ -114,10 +115,9 @@ export function rankCauses(
     );
   }
   // Coolant above ambient at key-on (ambient reading low, or coolant high) makes ITD look larger and k
-  // smaller: a fall that began with the soak checks failing so is the sensor's until they say otherwise.
+  // smaller: a fall that began with the soak checks failing so (after the last check before them, or at
+  // most a day before the first of them) is the sensor's until they say otherwise.
   const run = ev.soak.run;
-  // The fall goes with the run when it began after the last check before the run (none passed since),
-  // or at most a day before the run's first check.
   const withRun = [ram, fan].filter(
     (b) =>
       run?.sign === 1 &&
@@ -145,18 +145,18 @@ export function rankCauses(
     const ramSince = ram.last_ms !== null && ram.last_ms >= fan.segment_start_ms;
     // On a core already fouling the ram band has fallen too: what tells is what fell at the fan's change.
     // Unless the fall came with the soak check failing: then the sensor explains it as well.
+    const step = withRun.includes(fan) ? null : fanStep();
     const stepped =
-      !withRun.includes(fan) &&
-      fanStep !== null &&
-      fanStep.fall >= minDrop &&
-      fanStep.ram_fall !== null &&
-      fanStep.fall >= FAN_OVER_RAM * fanStep.ram_fall;
+      step !== null &&
+      step.fall >= minDrop &&
+      step.ram_fall !== null &&
+      step.fall >= FAN_OVER_RAM * step.ram_fall;
     if (ramSince && held(ram, minDrop)) {
       score = 0.6;
       text = `${describe(fan)} while the ${describe(ram)}`;
     } else if (stepped) {
       score = 0.6;
-      text = `fan-band k fell ${pct(fanStep!.fall)} from ${isoDay(fanStep!.since_ms)} on, while the ram-band k moved ${pct(fanStep!.ram_fall!)} over the same trips (${describe(fan)}; ${describe(ram)})`;
+      text = `fan-band k fell ${pct(step!.fall)} from ${isoDay(step!.since_ms)} on, while the ram-band k moved ${pct(step!.ram_fall!)} over the same trips (${describe(fan)}; ${describe(ram)})`;
     } else if (ram.drop === null || !ramSince) {
       score = 0.4;
       text = `${describe(fan)}; the ram band was not reached since, so fouling, a coolant-side loss or a biased temperature sensor cannot be ruled out`;
