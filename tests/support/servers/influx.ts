@@ -2,7 +2,7 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { freePort, waitFor } from './free-port.ts';
-import { ServerProcess } from './process.ts';
+import { retryOnPortClash, ServerProcess } from './process.ts';
 
 /** Debian's InfluxDB 1.6 (the only one installable here), on a free loopback port in a temp dir. */
 export const INFLUXD = '/usr/bin/influxd';
@@ -16,7 +16,11 @@ export interface InfluxServer {
   close(): Promise<void>;
 }
 
-export async function startInflux(): Promise<InfluxServer> {
+export function startInflux(): Promise<InfluxServer> {
+  return retryOnPortClash(startOnFreshPorts);
+}
+
+async function startOnFreshPorts(): Promise<InfluxServer> {
   const dir = mkdtempSync(join(tmpdir(), 'thermargin-influx-'));
   const [port, rpcPort] = [await freePort(), await freePort()];
   const conf = join(dir, 'influxdb.conf');
@@ -47,10 +51,18 @@ bind-address = "127.0.0.1:${rpcPort}"
   );
   const url = `http://127.0.0.1:${port}`;
   const ping = async () => (await fetch(`${url}/ping`)).status === 204;
-  const proc = new ServerProcess('influxd', INFLUXD, ['run', '-config', conf], join(dir, 'influxd.log'), () =>
-    waitFor('influxd', ping),
+  const proc = new ServerProcess(
+    'influxd',
+    INFLUXD,
+    ['run', '-config', conf],
+    join(dir, 'influxd.log'),
+    port,
+    () => waitFor('influxd', ping),
   );
-  await proc.start();
+  await proc.start().catch((e) => {
+    rmSync(dir, { recursive: true, force: true });
+    throw e;
+  });
   return {
     url,
     dir,
@@ -60,7 +72,10 @@ bind-address = "127.0.0.1:${rpcPort}"
         method: 'POST',
         body: new URLSearchParams({ q: `CREATE DATABASE "${name}"` }),
       });
-      if (!r.ok) throw new Error(`createDatabase ${name}: HTTP ${r.status} ${await r.text()}`);
+      // InfluxQL reports a failed statement with HTTP 200 and an `error` in its result.
+      const body = await r.text();
+      if (!r.ok || body.includes('"error"'))
+        throw new Error(`createDatabase ${name}: HTTP ${r.status} ${body}`);
     },
     async close() {
       await proc.stop();

@@ -5,7 +5,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { type BrokerUser, renderMosquittoAcl } from '@thermargin/broker/acl';
 import { freePort, waitFor } from './free-port.ts';
-import { ServerProcess } from './process.ts';
+import { retryOnPortClash, ServerProcess } from './process.ts';
 
 /** Debian's Mosquitto 2.0 with our auth/ACL rules, on a free loopback port in a temp dir. */
 export const MOSQUITTO = '/usr/sbin/mosquitto';
@@ -23,7 +23,11 @@ export interface MosquittoServer {
  * The shipped config/mosquitto/mosquitto.conf settings, with paths and port of the temp dir: the
  * password file is generated with `mosquitto_passwd -b` from the test users given (never a real one).
  */
-export async function startMosquitto(users: readonly BrokerUser[]): Promise<MosquittoServer> {
+export function startMosquitto(users: readonly BrokerUser[]): Promise<MosquittoServer> {
+  return retryOnPortClash(() => startOnFreshPort(users));
+}
+
+async function startOnFreshPort(users: readonly BrokerUser[]): Promise<MosquittoServer> {
   const dir = mkdtempSync(join(tmpdir(), 'thermargin-mosquitto-'));
   const port = await freePort();
   const passwd = join(dir, 'passwd');
@@ -58,10 +62,13 @@ log_type warning
       });
       socket.on('error', () => resolve(false));
     });
-  const proc = new ServerProcess('mosquitto', MOSQUITTO, ['-c', conf], join(dir, 'mosquitto.log'), () =>
+  const proc = new ServerProcess('mosquitto', MOSQUITTO, ['-c', conf], join(dir, 'mosquitto.log'), port, () =>
     waitFor('mosquitto', reachable),
   );
-  await proc.start();
+  await proc.start().catch((e) => {
+    rmSync(dir, { recursive: true, force: true });
+    throw e;
+  });
   return {
     url: `mqtt://127.0.0.1:${port}`,
     port,

@@ -1,7 +1,26 @@
 import { type ChildProcess, spawn } from 'node:child_process';
 import { createWriteStream } from 'node:fs';
+import { waitFor } from './free-port.ts';
+import { listensOn } from './port-owner.ts';
 
-/** A server binary run as a child process, its output kept in `log_path` for post-mortems. */
+/** The server's port was bound by another process first; a start on fresh ports may succeed. */
+export class PortClashError extends Error {}
+
+/** Runs `start` again (up to `attempts` times in all) while it fails with a PortClashError. */
+export async function retryOnPortClash<T>(start: () => Promise<T>, attempts = 3): Promise<T> {
+  for (let i = 1; ; i++) {
+    try {
+      return await start();
+    } catch (e) {
+      if (!(e instanceof PortClashError) || i >= attempts) throw e;
+    }
+  }
+}
+
+/**
+ * A server binary run as a child process listening on 127.0.0.1:`port`, its output kept in
+ * `log_path` for post-mortems. Ready once `ready` resolves and the listener is the child's own.
+ */
 export class ServerProcess {
   private child: ChildProcess | undefined;
 
@@ -10,6 +29,7 @@ export class ServerProcess {
     private readonly command: string,
     private readonly args: string[],
     private readonly log_path: string,
+    private readonly port: number,
     private readonly ready: () => Promise<void>,
   ) {}
 
@@ -37,6 +57,15 @@ export class ServerProcess {
       if (this.child === child) this.child = undefined;
     });
     await this.ready();
+    const pid = child.pid ?? -1;
+    try {
+      await waitFor(`${this.name} listening on ${this.port}`, async () => listensOn(pid, this.port), 2_000);
+    } catch {
+      await this.stop('SIGKILL');
+      throw new PortClashError(
+        `${this.name}: port ${this.port} is held by another process (log: ${this.log_path})`,
+      );
+    }
   }
 
   /** SIGTERM (a clean shutdown: Mosquitto saves its sessions), SIGKILL after 10 s. */
