@@ -9,6 +9,14 @@ export const STATUSES = ['ok', 'watch', 'inspect'] as const;
 export type Status = (typeof STATUSES)[number];
 export const CAUSES = ['none', 'fouling', 'fan', 'coolant_flow', 'sensor'] as const;
 export type Cause = (typeof CAUSES)[number];
+/** The causes in words, for alerts and screens (the codes stay in data and the CLI's columns). */
+export const CAUSE_WORD: Record<Cause, string> = {
+  none: 'no fault found',
+  fouling: 'radiator fouling',
+  fan: 'fan fault',
+  coolant_flow: 'low coolant flow',
+  sensor: 'sensor fault',
+};
 
 /** Per-trip result of the core computation (see core/trip/analyze-trip.ts). */
 export const tripResultSchema = z.object({

@@ -1,19 +1,14 @@
 import type { Trend } from '@thermargin/shared/api';
 import type { Cause, Status } from '@thermargin/shared/results';
 
+export { CAUSE_WORD } from '@thermargin/shared/results';
+
 /** Words for the contract's codes: a status always reads as a word, never as a colour alone. */
 export const STATUS_WORD: Record<Status | 'none', string> = {
   ok: 'OK',
   watch: 'Watch',
   inspect: 'Inspect',
   none: 'Unassessed',
-};
-export const CAUSE_WORD: Record<Cause, string> = {
-  none: 'no fault found',
-  fouling: 'radiator fouling',
-  fan: 'fan fault',
-  coolant_flow: 'low coolant flow',
-  sensor: 'sensor fault',
 };
 export const TREND_WORD: Record<Trend, string> = { falling: 'falling', steady: 'steady', rising: 'rising' };
 export const ACTION_WORD = {

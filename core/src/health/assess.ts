@@ -1,4 +1,5 @@
 import type { Alert, Cause, Status, TripResult } from '@thermargin/shared';
+import { CAUSE_WORD } from '@thermargin/shared/results';
 import { median } from '../stats/quantile.ts';
 import type { Band } from '../trip/bands.ts';
 import { designBand } from '../trip/design-point.ts';
@@ -155,7 +156,7 @@ export function assessVehicle(
     if (step.changed || (step.status !== 'ok' && c.cause !== 'none' && c.cause !== alertedCause)) {
       alertedCause = c.cause;
       const because = step.reasons.length ? step.reasons.join('; ') : 'levels back inside the thresholds';
-      const detail = `${step.status}: ${because}${c.cause === 'none' ? '' : `; likely ${c.cause}: ${c.evidence}`}`;
+      const detail = `${step.status}: ${because}${c.cause === 'none' ? '' : `; likely ${CAUSE_WORD[c.cause]}: ${c.evidence}`}`;
       alerts.push({
         time,
         status: step.status,

@@ -36,15 +36,17 @@ const utc = (ms: number) => uPlot.tzDate(new Date(ms), 'Etc/UTC');
 const DAY_MS = 86_400_000;
 const pad2 = (n: number) => String(n).padStart(2, '0');
 
-/** Tick labels in 24 h UTC: dates for spans of days, clock times within a day. */
-function timeTicks(u: uPlot, splits: number[]): string[] {
-  const x = u.scales.x!;
-  const span = (x.max ?? 0) - (x.min ?? 0);
+/**
+ * Tick labels in 24 h UTC: dates when ticks are a day or more apart; otherwise the clock time, with
+ * the date at midnight so a span of days still shows which day each tick is on.
+ */
+function timeTicks(_u: uPlot, splits: number[]): string[] {
+  const step = splits.length > 1 ? splits[1]! - splits[0]! : DAY_MS;
   return splits.map((ms) => {
     const d = new Date(ms);
     const date = `${pad2(d.getUTCMonth() + 1)}-${pad2(d.getUTCDate())}`;
     const time = `${pad2(d.getUTCHours())}:${pad2(d.getUTCMinutes())}`;
-    return span > 3 * DAY_MS ? date : span > DAY_MS / 2 ? `${date} ${time}` : time;
+    return step >= DAY_MS || ms % DAY_MS === 0 ? date : time;
   });
 }
 
