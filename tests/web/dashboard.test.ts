@@ -153,6 +153,13 @@ describe('dashboard in a real browser against the running API', () => {
     }, mid);
     expect(scales.length).toBe(6);
     for (const s of scales) expect(s).toEqual([mid.min, mid.max]);
+    // One time axis for all: each plot area spans the same pixels, so a moment lines up down the page.
+    const plots = await page.evaluate(() =>
+      Object.entries(window.__thermargin!.charts)
+        .filter(([id]) => id.startsWith('trip-'))
+        .map(([, u]) => [u.bbox.left, u.bbox.width]),
+    );
+    expect(new Set(plots.map((p) => p.join())).size).toBe(1);
     await page.getByRole('button', { name: 'Reset zoom' }).click();
     await screenshot(page, '3-trip-trace');
     await page.close();

@@ -50,17 +50,21 @@ function timeTicks(_u: uPlot, splits: number[]): string[] {
   });
 }
 
+/** A value axis's width in px: its tick labels and its title. */
+export const AXIS_SIZE = 56;
+export const AXIS_LABEL_SIZE = 20;
+
 export const timeAxis = (label = 'time (UTC)'): uPlot.Axis => ({
   ...axisStyle,
   label,
-  labelSize: 20,
+  labelSize: AXIS_LABEL_SIZE,
   values: timeTicks,
 });
 export const valueAxis = (label: string, o: Partial<uPlot.Axis> = {}): uPlot.Axis => ({
   ...axisStyle,
   label,
-  labelSize: 20,
-  size: 56,
+  labelSize: AXIS_LABEL_SIZE,
+  size: AXIS_SIZE,
   ...o,
 });
 

@@ -2,7 +2,7 @@ import type { TraceColumn, TraceResponse } from '@thermargin/shared/api';
 import { useMemo } from 'preact/hooks';
 import type uPlot from 'uplot';
 import { num } from '../format.ts';
-import { Chart, timeAxis, valueAxis } from './Chart.tsx';
+import { AXIS_LABEL_SIZE, AXIS_SIZE, Chart, timeAxis, valueAxis } from './Chart.tsx';
 import type { ZoomLink } from './link.ts';
 import { overlays, runs } from './overlays.ts';
 import { DASH, INK, SHADE } from './palette.ts';
@@ -30,7 +30,19 @@ const s = (label: string, stroke: string, unit: string, o: Partial<uPlot.Series>
 /** A lane drawn as a thick bar where the flag is 1: which samples counted for a band. */
 const lane = (flag: Col, at: number): Col => flag.map((f) => (f === 1 ? at : null));
 
-/** The trip's synchronised charts; derate intervals shaded on each. */
+/** Every trip chart's left axis is this wide, so the plots line up under one another. */
+const LEFT_SIZE = 64;
+const left = (label: string, o: Partial<uPlot.Axis> = {}) => valueAxis(label, { size: LEFT_SIZE, ...o });
+/** An empty right axis as wide as the power axis, for the charts that have none. */
+const RIGHT_SPACER: uPlot.Axis = {
+  side: 1,
+  size: AXIS_SIZE + AXIS_LABEL_SIZE,
+  values: () => [],
+  grid: { show: false },
+  ticks: { show: false },
+};
+
+/** The trip's synchronised charts, aligned on one time axis; derate intervals shaded on each. */
 export function TripCharts({ trace, link }: { trace: TraceResponse; link: ZoomLink }) {
   const charts = useMemo(() => {
     const c = traceColumns(trace);
@@ -51,7 +63,7 @@ export function TripCharts({ trace, link }: { trace: TraceResponse; link: ZoomLi
         ],
         axes: [
           t,
-          valueAxis('speed (km/h)'),
+          left('speed (km/h)'),
           valueAxis('power (kW)', { scale: 'kW', side: 1, grid: { show: false } }),
         ],
       },
@@ -64,14 +76,14 @@ export function TripCharts({ trace, link }: { trace: TraceResponse; link: ZoomLi
           s('coolant out', INK.blue, '°C', { dash: DASH.long }),
           s('ambient', INK.slate, '°C', { dash: DASH.dotted }),
         ],
-        axes: [t, valueAxis('temperature (°C)')],
+        axes: [t, left('temperature (°C)')],
       },
       {
         id: 'trip-fan',
         title: 'Fan duty (%)',
         data: [x, c.fan_pct],
         series: [s('fan duty', INK.teal, '%', { fill: 'rgba(15, 123, 108, 0.12)' })],
-        axes: [t, valueAxis('fan duty (%)')],
+        axes: [t, left('fan duty (%)')],
         scales: { y: { range: [0, 100] as uPlot.Range.MinMax } },
         height: 150,
       },
@@ -83,14 +95,14 @@ export function TripCharts({ trace, link }: { trace: TraceResponse; link: ZoomLi
           s('heat generated', INK.orange, 'kW'),
           s('heat rejected', INK.violet, 'kW', { dash: DASH.long, width: 2 }),
         ],
-        axes: [t, valueAxis('heat (kW)')],
+        axes: [t, left('heat (kW)')],
       },
       {
         id: 'trip-k',
         title: 'k of the valid window each sample belongs to (W/m²·K)',
         data: [x, c.k_w_m2k],
         series: [s('k', INK.blue, 'W/m²·K', { width: 2 })],
-        axes: [t, valueAxis('k (W/m²·K)', { size: 64 })],
+        axes: [t, left('k (W/m²·K)')],
         height: 170,
       },
       {
@@ -109,7 +121,7 @@ export function TripCharts({ trace, link }: { trace: TraceResponse; link: ZoomLi
         ],
         axes: [
           t,
-          valueAxis('band', {
+          left('band', {
             splits: () => [1, 2],
             values: (_u, v) => v.map((y) => (y === 2 ? 'ram' : y === 1 ? 'fan' : '')),
           }),
@@ -117,7 +129,12 @@ export function TripCharts({ trace, link }: { trace: TraceResponse; link: ZoomLi
         scales: { y: { range: [0.4, 2.6] as uPlot.Range.MinMax } },
         height: 150,
       },
-    ].map((ch) => ({ ...ch, data: ch.data as uPlot.AlignedData, plugins }));
+    ].map((ch) => ({
+      ...ch,
+      axes: ch.axes.length === 2 ? [...ch.axes, RIGHT_SPACER] : ch.axes,
+      data: ch.data as uPlot.AlignedData,
+      plugins,
+    }));
   }, [trace]);
   const n = trace.points;
   return (
