@@ -3,6 +3,7 @@ import { NUMERIC_COLUMNS } from './columns.ts';
 import { MAINTENANCE_ACTIONS, maintenanceEntrySchema, vehicleConfigSchema } from './fleet.ts';
 import { idSchema } from './ids.ts';
 import { CAUSES, STATUSES, tripResultSchema } from './results.ts';
+import { REJECT_REASONS } from './telemetry.ts';
 
 /**
  * The HTTP API's contract (services/api): every request and response body as a zod schema, shared by the
@@ -288,6 +289,33 @@ export const rejectedResponseSchema = z.object({
   total: z.number().int(),
 });
 export type RejectedResponse = z.infer<typeof rejectedResponseSchema>;
+
+// ---- GET /api/rejected/letters?vehicle=&reason=&limit= (viewer): the refused messages themselves
+export const deadLettersQuerySchema = z.strictObject({
+  /** '' for messages whose vehicle could not be read. */
+  vehicle: z.string().max(64).optional(),
+  reason: z.enum(REJECT_REASONS).optional(),
+  limit: z.coerce.number().int().min(1).max(500).default(50),
+});
+export type DeadLettersQuery = z.infer<typeof deadLettersQuerySchema>;
+
+export const deadLettersResponseSchema = z.object({
+  /** Newest first. */
+  letters: z.array(
+    z.object({
+      received: iso,
+      vehicle: z.string(),
+      reason: z.enum(REJECT_REASONS),
+      /** The rule the message broke, in words, with where (`samples[3].speed_kmh ...`). */
+      detail: z.string(),
+      topic: z.string(),
+      /** The payload or the offending sample, cut to 2 KiB. */
+      excerpt: z.string(),
+      payload_bytes: z.number().int(),
+    }),
+  ),
+});
+export type DeadLettersResponse = z.infer<typeof deadLettersResponseSchema>;
 
 // ---- Writes (each recorded in the audit log with who and when)
 export const alertActionBodySchema = z.strictObject({ note: z.string().trim().min(1).max(2000) });

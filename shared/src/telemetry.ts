@@ -95,3 +95,17 @@ export function toWire(s: Sample): WireSample {
   for (const [k, v] of Object.entries(rest)) if (v !== undefined) out[k] = v;
   return out as WireSample;
 }
+
+/** Why a message or sample was refused. */
+export const REJECT_REASONS = [
+  'json', // not parseable JSON (truncated, binary, too deep)
+  'schema', // wrong shape or type, missing or unknown field
+  'range', // a signal outside its plausible range (SIGNALS), or not finite
+  'time_past', // before TIME_MIN_MS
+  'time_future', // beyond now + FUTURE_TOLERANCE_MS
+  'unknown_vehicle', // not in the fleet file
+  'vehicle_mismatch', // the sample's vehicle differs from the topic's
+  'topic', // not a sample topic
+  'oversize', // payload over the byte limit, or too many samples in one message
+] as const;
+export type RejectReason = (typeof REJECT_REASONS)[number];

@@ -202,6 +202,17 @@ describe('dashboard in a real browser against the running API', () => {
         expect(await text(page, `${row} [data-reason="${reason}"]`)).toBe(String(n));
     }
     expect(await text(page, 'tr[data-vehicle="bus-03"] [data-reason="range"]')).toBe('2');
+    // The messages themselves, newest first; a count picks those of its vehicle and reason.
+    const letterRows = page.locator('[data-table="letters"] tbody tr');
+    await letterRows.first().waitFor();
+    expect(await letterRows.count()).toBe(3);
+    await page.locator('tr[data-vehicle="bus-03"] [data-reason="range"] button').click();
+    await page.locator('[data-letters-filter]', { hasText: 'bus-03 · out of range' }).waitFor();
+    expect(await letterRows.count()).toBe(2);
+    expect(await letterRows.locator('[data-col="detail"]').allTextContents()).toEqual([
+      'coolant_in_c must be within -40…150',
+      'coolant_in_c must be within -40…150',
+    ]);
     await page.locator('[data-fig="samples"]').waitFor();
     await screenshot(page, '6-intake-check');
     await page.close();

@@ -18,6 +18,20 @@ export const ACTION_WORD = {
   sensor_replaced: 'sensor replaced',
 } as const;
 
+/** The ingester's refusal codes in words; the cleaning's codes read with spaces for underscores. */
+const REFUSAL_WORD: Record<string, string> = {
+  json: 'not JSON',
+  schema: 'wrong shape',
+  range: 'out of range',
+  time_past: 'time too old',
+  time_future: 'time ahead',
+  unknown_vehicle: 'unknown vehicle',
+  vehicle_mismatch: 'vehicle ≠ topic',
+  topic: 'not a sample topic',
+  oversize: 'too large',
+};
+export const refusalWord = (code: string): string => REFUSAL_WORD[code] ?? code.replaceAll('_', ' ');
+
 /** Urgency rank: inspect first, unassessed last. */
 export const STATUS_RANK: Record<Status | 'none', number> = { inspect: 0, watch: 1, ok: 2, none: 3 };
 

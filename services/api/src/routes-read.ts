@@ -1,4 +1,8 @@
 import {
+  type DeadLettersQuery,
+  type DeadLettersResponse,
+  deadLettersQuerySchema,
+  deadLettersResponseSchema,
   fleetResponseSchema,
   healthResponseSchema,
   rejectedResponseSchema,
@@ -225,6 +229,18 @@ export function readRoutes(x: ApiContext): Route[] {
         }
         const vehicles = [...rows.values()].sort((a, b) => a.vehicle.localeCompare(b.vehicle));
         return { vehicles, total: vehicles.reduce((n, r) => n + r.total, 0) };
+      },
+    }),
+    route({
+      method: 'get',
+      path: '/api/rejected/letters',
+      role: 'viewer',
+      summary: 'The refused messages, newest first: rule broken, topic and payload excerpt',
+      query: deadLettersQuerySchema,
+      response: deadLettersResponseSchema,
+      handle: async ({ query }: { query: DeadLettersQuery }): Promise<DeadLettersResponse> => {
+        const letters = await deps.samples.readDeadLetters(query);
+        return { letters: letters.map(({ received_ms, ...l }) => ({ received: iso(received_ms), ...l })) };
       },
     }),
   ];

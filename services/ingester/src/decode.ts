@@ -1,6 +1,7 @@
 import {
   FUTURE_TOLERANCE_MS,
   MAX_SAMPLES_PER_MESSAGE,
+  type RejectReason,
   SIGNALS,
   type Sample,
   TIME_MIN_MS,
@@ -10,7 +11,7 @@ import {
   toSample,
   wireSampleSchema,
 } from '@thermargin/shared';
-import { type DeadLetter, type RejectReason, excerpt } from '@thermargin/store';
+import { type DeadLetter, excerpt } from '@thermargin/store';
 import type { z } from 'zod';
 import { quickSample } from './quick-sample.ts';
 

@@ -1,6 +1,6 @@
 import { type Server, createServer } from 'node:http';
 import type { AddressInfo } from 'node:net';
-import type { RejectReason } from '@thermargin/store';
+import type { RejectReason } from '@thermargin/shared';
 
 /** The ingester's counters and gauges, rendered in the Prometheus text format on GET /metrics. */
 export class IngestMetrics {

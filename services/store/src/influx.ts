@@ -1,16 +1,15 @@
 import { HttpError, InfluxDB, type Transport, type WriteOptions } from '@influxdata/influxdb-client';
-import { SIGNAL_NAMES, type Sample, type SampleColumns, emptyColumns } from '@thermargin/shared';
+import {
+  type RejectReason,
+  SIGNAL_NAMES,
+  type Sample,
+  type SampleColumns,
+  emptyColumns,
+} from '@thermargin/shared';
 import { DEAD_LETTERS_MEASUREMENT, SAMPLES_MEASUREMENT, deadLetterLine, sampleLine } from './influx-line.ts';
 import { v1Transport } from './influx-transport.ts';
 import { type InfluxSeries, idLiteral, influxql, timeLiteral } from './influxql.ts';
-import type {
-  DeadLetter,
-  DeadLetterCount,
-  DeadLetterQuery,
-  RejectReason,
-  SampleStore,
-  VehicleSpan,
-} from './store.ts';
+import type { DeadLetter, DeadLetterCount, DeadLetterQuery, SampleStore, VehicleSpan } from './store.ts';
 
 export const INFLUX_DEFAULTS = {
   /** lines per HTTP write: the client splits larger calls (≈ the ceilings doc's best batch size). */

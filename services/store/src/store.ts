@@ -1,4 +1,4 @@
-import type { Sample, SampleColumns, TripResult, VehicleResult } from '@thermargin/shared';
+import type { RejectReason, Sample, SampleColumns, TripResult, VehicleResult } from '@thermargin/shared';
 
 /**
  * The storage interface every adapter implements (SQLite, InfluxDB). Times are epoch milliseconds,
@@ -34,20 +34,6 @@ export interface VehicleSpan {
   last_ms: number;
   count: number;
 }
-
-/** Why a message or sample was refused. */
-export const REJECT_REASONS = [
-  'json', // not parseable JSON (truncated, binary, too deep)
-  'schema', // wrong shape or type, missing or unknown field
-  'range', // a signal outside its plausible range (SIGNALS), or not finite
-  'time_past', // before TIME_MIN_MS
-  'time_future', // beyond now + FUTURE_TOLERANCE_MS
-  'unknown_vehicle', // not in the fleet file
-  'vehicle_mismatch', // the sample's vehicle differs from the topic's
-  'topic', // not a sample topic
-  'oversize', // payload over the byte limit, or too many samples in one message
-] as const;
-export type RejectReason = (typeof REJECT_REASONS)[number];
 
 /** One refused message or sample, kept with what it was and why. */
 export interface DeadLetter {

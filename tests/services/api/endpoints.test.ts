@@ -12,6 +12,8 @@ import {
   vehicleResponseSchema,
   statusResponseSchema,
   rejectedResponseSchema,
+  deadLettersResponseSchema,
+  sampleTopic,
   VEHICLE_RECENT_TRIPS,
 } from '@thermargin/shared';
 import { createInfluxStore, type SampleStore } from '@thermargin/store';
@@ -22,8 +24,11 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { type InfluxServer, startInflux } from '../../support/servers/influx.ts';
 import { type MosquittoServer, startMosquitto } from '../../support/servers/mosquitto.ts';
 import {
+  connectAs,
   INGESTER_USER,
   ingesterEnv,
+  oneSample,
+  sleep,
   tempDir,
   vehicleUser,
   waitForCount,
@@ -195,6 +200,36 @@ describe('API against the running stack (Mosquitto → ingester → InfluxDB →
           .concat(Object.values(v.cleaning))
           .reduce((a, b) => a + b, 0),
       );
+  });
+
+  it('refused messages: newest first with the rule broken, filtered by vehicle and reason', async () => {
+    const [a, b] = [IDS[0]!, IDS[1]!];
+    const pub = await connectAs(broker.url, a);
+    await pub.publishAsync(
+      sampleTopic(a),
+      JSON.stringify({ ...oneSample(a, END_MS - 1000), speed_kmh: 400 }),
+      {
+        qos: 1,
+      },
+    );
+    await pub.publishAsync(sampleTopic(a), '{"time": 17', { qos: 1 });
+    await pub.endAsync();
+    const deadline = Date.now() + 30_000;
+    const counted = async () => (await samples.countDeadLetters()).reduce((n, c) => n + c.count, 0);
+    while ((await counted()) < 2 && Date.now() < deadline) await sleep(100);
+    const letters = async (q: string) =>
+      deadLettersResponseSchema.parse(await (await stack.get(`/api/rejected/letters${q}`)).json()).letters;
+    const all = await letters('');
+    expect(all.map((l) => l.reason)).toEqual(['json', 'range']);
+    expect(all[0]!.excerpt).toBe('{"time": 17');
+    const range = await letters(`?reason=range&vehicle=${a}`);
+    expect(range).toHaveLength(1);
+    expect(range[0]!.detail).toMatch(/speed_kmh/);
+    expect(range[0]!.topic).toBe(sampleTopic(a));
+    expect(await letters(`?vehicle=${b}`)).toEqual([]);
+    const bad = await stack.get('/api/rejected/letters?reason=late');
+    expect(bad.status).toBe(400);
+    expect(JSON.stringify(await bad.json())).toMatch(/reason/);
   });
 
   it('maintenance through the API re-baselines exactly as the fleet file entry would', async () => {

@@ -1,7 +1,7 @@
 import { join } from 'node:path';
 import { decodeMessage } from '@thermargin/ingester/decode';
-import { sampleTopic, toWire } from '@thermargin/shared';
-import { REJECT_REASONS, createSqliteStore } from '@thermargin/store';
+import { REJECT_REASONS, sampleTopic, toWire } from '@thermargin/shared';
+import { createSqliteStore } from '@thermargin/store';
 import fc from 'fast-check';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { type MosquittoServer, startMosquitto } from '../../support/servers/mosquitto.ts';

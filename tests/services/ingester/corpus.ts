@@ -1,4 +1,4 @@
-import type { RejectReason } from '@thermargin/store';
+import type { RejectReason } from '@thermargin/shared';
 
 /** A hostile message: what is published, by whom, and the reason it must be refused with. */
 export interface BadMessage {

@@ -1,6 +1,7 @@
 import type {
   AlertView,
   ApiError,
+  DeadLettersResponse,
   FleetResponse,
   MaintenanceBody,
   MaintenanceResponse,
@@ -69,6 +70,13 @@ export class ApiClient {
   fleet = () => this.request<FleetResponse>('GET', '/api/fleet');
   status = () => this.request<StatusResponse>('GET', '/api/status');
   rejected = () => this.request<RejectedResponse>('GET', '/api/rejected');
+  /** The newest refused messages, of one vehicle ('' when unreadable) and reason when given. */
+  letters = (f: { vehicle?: string; reason?: string }, limit: number) => {
+    const q = new URLSearchParams({ limit: String(limit) });
+    if (f.vehicle !== undefined) q.set('vehicle', f.vehicle);
+    if (f.reason !== undefined) q.set('reason', f.reason);
+    return this.request<DeadLettersResponse>('GET', `/api/rejected/letters?${q}`);
+  };
   vehicle = (id: string) => this.request<VehicleResponse>('GET', `/api/vehicles/${enc(id)}`);
   trips = (id: string, offset: number, limit: number) =>
     this.request<TripsResponse>('GET', `/api/vehicles/${enc(id)}/trips?offset=${offset}&limit=${limit}`);

@@ -1,6 +1,7 @@
-import type { RejectedResponse, StatusResponse } from '@thermargin/shared/api';
+import type { DeadLettersResponse, RejectedResponse, StatusResponse } from '@thermargin/shared/api';
+import { useState } from 'preact/hooks';
 import { Empty, Loaded } from '../components/States.tsx';
-import { ago, num, when } from '../format.ts';
+import { ago, num, refusalWord, when } from '../format.ts';
 import { useLive } from '../state/live.ts';
 import { useResource } from '../state/resource.ts';
 import { href } from '../state/route.ts';
@@ -16,7 +17,16 @@ function reasons(r: RejectedResponse): { source: 'ingest' | 'cleaning'; reason: 
   return [...pick('ingest'), ...pick('cleaning')];
 }
 
-function Rejected({ r }: { r: RejectedResponse }) {
+/** Which refused messages to list: one vehicle's ('' when unreadable) of one reason, or all. */
+interface LetterFilter {
+  vehicle?: string;
+  reason?: string;
+}
+const LETTERS_SHOWN = 50;
+/** Characters of a payload shown before it is opened. */
+const EXCERPT_PREVIEW = 60;
+
+function Rejected({ r, pick }: { r: RejectedResponse; pick: (f: LetterFilter) => void }) {
   if (!r.vehicles.length) return <Empty>No data was refused: every message and sample passed.</Empty>;
   const cols = reasons(r);
   const rows = [...r.vehicles].sort((a, b) => b.total - a.total || a.vehicle.localeCompare(b.vehicle));
@@ -27,12 +37,12 @@ function Rejected({ r }: { r: RejectedResponse }) {
           <tr>
             <th scope="col">Vehicle</th>
             {cols.map((c) => (
-              <th key={`${c.source}:${c.reason}`} scope="col" class="num">
+              <th key={`${c.source}:${c.reason}`} scope="col" class="num" title={c.reason}>
                 <span class="small muted">
                   {c.source === 'ingest' ? 'refused at intake' : 'removed in cleaning'}
                 </span>
                 <br />
-                {c.reason}
+                {refusalWord(c.reason)}
               </th>
             ))}
             <th scope="col" class="num">
@@ -54,7 +64,18 @@ function Rejected({ r }: { r: RejectedResponse }) {
                     class={`num${n ? ' bad' : ' muted'}`}
                     data-reason={c.reason}
                   >
-                    {n || '·'}
+                    {n && c.source === 'ingest' ? (
+                      <button
+                        type="button"
+                        class="btn btn-quiet bad"
+                        title="Show these messages below"
+                        onClick={() => pick({ vehicle: v.vehicle, reason: c.reason })}
+                      >
+                        {n}
+                      </button>
+                    ) : (
+                      n || '·'
+                    )}
                   </td>
                 );
               })}
@@ -67,8 +88,72 @@ function Rejected({ r }: { r: RejectedResponse }) {
       </table>
       <p class="small muted">
         Total refused: {r.total}. A vehicle with many refusals of one reason usually has a misconfigured
-        logger.
+        logger. Pick a count refused at intake to read those messages below.
       </p>
+    </div>
+  );
+}
+
+function Letters({ d, filter, all }: { d: DeadLettersResponse; filter: LetterFilter; all: () => void }) {
+  const which =
+    filter.reason === undefined
+      ? `the newest ${LETTERS_SHOWN}, all vehicles and reasons`
+      : `${filter.vehicle || 'vehicle unreadable'} · ${refusalWord(filter.reason)}, newest first`;
+  return (
+    <div class="table-wrap">
+      <p class="small muted" data-letters-filter>
+        Showing {which}.{' '}
+        {filter.reason !== undefined && (
+          <button type="button" class="btn" onClick={all}>
+            Show all
+          </button>
+        )}
+      </p>
+      {d.letters.length === 0 ? (
+        <Empty>No refused messages.</Empty>
+      ) : (
+        <table class="grid" data-table="letters">
+          <thead>
+            <tr>
+              <th scope="col">Received</th>
+              <th scope="col">Vehicle</th>
+              <th scope="col">Reason</th>
+              <th scope="col">Rule broken</th>
+              <th scope="col">Topic</th>
+              <th scope="col" class="num">
+                Bytes
+              </th>
+              <th scope="col">Payload (first 2 KiB)</th>
+            </tr>
+          </thead>
+          <tbody>
+            {d.letters.map((l, i) => (
+              <tr key={`${l.received}:${i}`} data-reason={l.reason}>
+                <td>{when(l.received)}</td>
+                <td>{l.vehicle || <em>unreadable</em>}</td>
+                <td title={l.reason}>{refusalWord(l.reason)}</td>
+                <td data-col="detail">{l.detail}</td>
+                <td>
+                  <code>{l.topic}</code>
+                </td>
+                <td class="num">{l.payload_bytes}</td>
+                <td>
+                  {l.excerpt.length <= EXCERPT_PREVIEW ? (
+                    <code>{l.excerpt}</code>
+                  ) : (
+                    <details>
+                      <summary>
+                        <code>{l.excerpt.slice(0, EXCERPT_PREVIEW)}…</code>
+                      </summary>
+                      <pre>{l.excerpt}</pre>
+                    </details>
+                  )}
+                </td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      )}
     </div>
   );
 }
@@ -104,10 +189,19 @@ function Health({ s }: { s: StatusResponse }) {
   );
 }
 
-/** Intake check: data refused per vehicle and reason, and the health of intake and analysis. */
+/**
+ * Intake check: data refused per vehicle and reason, the refused messages themselves, and the health
+ * of intake and analysis.
+ */
 export function IntakeCheck({ session }: { session: Session }) {
   const live = useLive();
+  const [filter, setFilter] = useState<LetterFilter>({});
   const rejected = useResource(() => session.api.rejected(), [session, live.version]);
+  // The answer carries the filter it was asked with: the caption then always describes the rows shown.
+  const letters = useResource(
+    () => session.api.letters(filter, LETTERS_SHOWN).then((d) => ({ d, filter })),
+    [session, live.version, filter.vehicle, filter.reason],
+  );
   const status = useResource(() => session.api.status(), [session, live.version]);
   return (
     <div class="screen" data-screen="intake">
@@ -115,7 +209,13 @@ export function IntakeCheck({ session }: { session: Session }) {
       <section aria-labelledby="refused">
         <h2 id="refused">Refused data per vehicle and reason</h2>
         <Loaded res={rejected} what="refused data">
-          {(r) => <Rejected r={r} />}
+          {(r) => <Rejected r={r} pick={setFilter} />}
+        </Loaded>
+      </section>
+      <section aria-labelledby="letters">
+        <h2 id="letters">Refused messages</h2>
+        <Loaded res={letters} what="the refused messages">
+          {({ d, filter }) => <Letters d={d} filter={filter} all={() => setFilter({})} />}
         </Loaded>
       </section>
       <section aria-labelledby="pipeline">
