@@ -78,6 +78,8 @@ interface Period {
   stepFrom: number;
   segmentFrom: number;
   alarmOn: boolean;
+  /** Trips since the charts last signalled (a new change needs `rearm_trips` of them). */
+  quietTrips: number;
   /** Health of the in-control trips the reference is the median of (self-starting, until the first signal). */
   inControl: number[];
   changesAtStart: number;
@@ -130,6 +132,7 @@ export class BandMonitor {
       stepFrom: 0,
       segmentFrom: 0,
       alarmOn: false,
+      quietTrips: this.o.rearm_trips,
       inControl: [],
       changesAtStart: this.changes.length,
       withHealth: 0,
@@ -182,7 +185,9 @@ export class BandMonitor {
     pt.lcl = e.lower;
     pt.cusum = c.s;
     const alarm = e.signal === -1 || c.signal;
-    if (alarm && !p.alarmOn) {
+    // A signal after only a short lapse is the last change going on (a statistic hovering at its
+    // limit), not a new one: no new change point, and the step chart keeps watching.
+    if (alarm && !p.alarmOn && p.quietTrips >= this.o.rearm_trips) {
       const charted = p.points.length - N; // observations the charts have seen
       // The CUSUM's last zero can lie long before a sudden step when S wandered below h beforehand;
       // Hinkley's estimate inside that stretch finds the step itself, so the level is not diluted.
@@ -194,7 +199,8 @@ export class BandMonitor {
       const s = p.step.push(pt.health!);
       if (s.signal) this.change(p, this.level!.value, p.stepFrom + s.since, 'step');
     } else if (alarm && p.step) p.stepFrom = p.points.length; // too soon for a level: start with the next trip
-    if (!alarm) p.step = null;
+    p.quietTrips = alarm ? 0 : p.quietTrips + 1;
+    if (p.quietTrips >= this.o.rearm_trips) p.step = null;
     p.alarmOn = alarm;
     if (!alarm && this.changes.length === p.changesAtStart && p.inControl.length < this.o.reference_trips) {
       p.inControl.push(pt.health!);

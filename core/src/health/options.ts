@@ -35,6 +35,11 @@ export interface HealthOptions {
    */
   step_k: number;
   step_h: number;
+  /**
+   * trips, 5: the charts must stay in control this long after a signal before the next one counts as a
+   * new change; a shorter lapse continues the last change.
+   */
+  rearm_trips: number;
   /** health units, 0.01: floor on the trip noise σ, so a quiet start does not make the charts twitchy. */
   sigma_floor: number;
   /** trips, 30: most recent trips the current level (Theil–Sen) is estimated from. */
@@ -74,6 +79,7 @@ export const HEALTH_DEFAULTS: Readonly<HealthOptions> = Object.freeze({
   cusum_h: 5,
   step_k: 1.5,
   step_h: 3,
+  rearm_trips: 5,
   sigma_floor: 0.01,
   level_window_trips: 30,
   min_level_trips: 3,
