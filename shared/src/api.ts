@@ -59,8 +59,13 @@ export const statusResponseSchema = z.object({
     last_error: z.string().nullable(),
     trips_analysed: z.number().int(),
     samples_analysed: z.number().int(),
-    /** Vehicles with samples newer than their watermark. */
+    /** Vehicles with samples newer than their watermark, not counting those on a trip now. */
     backlog_vehicles: z.number().int(),
+    /**
+     * Vehicles whose last sample came within the trip gap (300 s) of now and is newer than their
+     * watermark: a trip going on, analysed once it ends.
+     */
+    on_trip_vehicles: z.number().int(),
     watermarks: z.array(z.object({ vehicle: z.string(), analysed_to: iso.nullable() })),
   }),
 });

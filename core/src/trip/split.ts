@@ -19,6 +19,11 @@ export function tripIdFromTime(time_ms: number): string {
     .replace(/\.\d{3}/, '');
 }
 
+/** True when a vehicle whose last sample came at `last_ms` may still be on that trip at `now_ms`. */
+export function tripGoingOn(last_ms: number, now_ms: number, gap_s = TRIP_GAP_S): boolean {
+  return now_ms - last_ms < gap_s * 1000;
+}
+
 /** True when time-sorted sample i (i ≥ 1) starts a new trip. */
 export function startsTrip(
   c: Pick<SampleColumns, 'trip' | 'time_ms'>,

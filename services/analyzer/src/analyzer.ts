@@ -1,6 +1,7 @@
 import type { MaintenanceEntry, Status, TripResult } from '@thermargin/shared';
 import type { SampleStore } from '@thermargin/store';
 import type { AnalysisStore } from '@thermargin/store/sqlite-analysis';
+import { tripGoingOn } from '@thermargin/core/trip/split';
 import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
 import { type AnalysisState, catchUpVehicle } from './catch-up.ts';
 import { assessAndCommit } from './commit.ts';
@@ -30,6 +31,7 @@ export interface AnalyzerStats {
   last_error: string | null;
   trips_analysed: number;
   samples_analysed: number;
+  /** Vehicles left with samples past their watermark after the last pass, not counting a trip going on. */
   backlog_vehicles: number;
 }
 
@@ -116,7 +118,8 @@ export function createAnalyzer(deps: AnalyzerDeps, options: Partial<AnalyzerOpti
           ...(delete_from_ms === undefined ? {} : { delete_from_ms }),
         });
       }
-      if (got.state.analysed_to_ms <= span.last_ms) backlog++;
+      if (got.state.analysed_to_ms <= span.last_ms && !tripGoingOn(span.last_ms, clock(), o.trip_gap_s))
+        backlog++;
     }
     stats.backlog_vehicles = backlog;
   }

@@ -2,7 +2,7 @@ import type { TripResult } from '@thermargin/shared';
 import type { SampleStore, VehicleSpan } from '@thermargin/store';
 import type { VehicleAnalysis } from '@thermargin/store/sqlite-analysis';
 import { analyzeVehicle } from '@thermargin/core/analyze';
-import { startsTrip } from '@thermargin/core/trip/split';
+import { startsTrip, tripGoingOn } from '@thermargin/core/trip/split';
 import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
 import type { AnalyzerOptions } from './options.ts';
 import { sliceColumns } from './slice.ts';
@@ -37,7 +37,6 @@ export async function catchUpVehicle(
   now_ms: number,
   o: AnalyzerOptions,
 ): Promise<CatchUp> {
-  const gap_ms = o.trip_gap_s * 1000;
   const state: AnalysisState = { ...start, rejected: { ...start.rejected } };
   const trips: TripResult[] = [];
   let from = state.analysed_to_ms;
@@ -62,7 +61,7 @@ export async function catchUpVehicle(
     const more = to <= span.last_ms;
     let b = c.n - 1;
     while (b > 0 && !startsTrip(c, b, o.trip_gap_s)) b--;
-    const open = c.n > 0 && (more || now_ms - c.time_ms[c.n - 1]! < gap_ms);
+    const open = c.n > 0 && (more || tripGoingOn(c.time_ms[c.n - 1]!, now_ms, o.trip_gap_s));
     const end = open ? Math.max(b, 0) : c.n;
     if (end === 0) {
       if (c.n > 0 && more) {

@@ -25,7 +25,8 @@ export class RateLimiter {
     let b = this.buckets.get(key);
     if (b) this.buckets.delete(key);
     else b = { tokens: this.o.burst, at_ms: now };
-    b.tokens = Math.min(this.o.burst, b.tokens + (now - b.at_ms) * rate_ms);
+    // A clock stepped back (NTP) refills nothing, and must not take tokens away.
+    b.tokens = Math.min(this.o.burst, b.tokens + Math.max(0, now - b.at_ms) * rate_ms);
     b.at_ms = now;
     this.buckets.set(key, b); // re-inserted: the map's order is least recently used first
     if (this.buckets.size > this.o.max_keys) this.buckets.delete(this.buckets.keys().next().value!);

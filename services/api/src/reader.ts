@@ -9,7 +9,8 @@ function cached<T>(ttl_ms: number, clock: () => number, load: () => Promise<T>):
   let value: Promise<T> | undefined;
   return () => {
     const now = clock();
-    if (!value || now - at >= ttl_ms) {
+    // A clock stepped back (NTP) expires the value too, or it would be kept until the clock caught up.
+    if (!value || now - at >= ttl_ms || now < at) {
       at = now;
       value = load();
       value.catch(() => {

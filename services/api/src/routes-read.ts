@@ -18,6 +18,7 @@ import {
   type TripsQuery,
   type VehicleResponse,
 } from '@thermargin/shared';
+import { tripGoingOn } from '@thermargin/core/trip/split';
 import type { ApiContext } from './context.ts';
 import { JsonPage } from './json-page.ts';
 import { type Route, route } from './route.ts';
@@ -64,6 +65,8 @@ export function readRoutes(x: ApiContext): Route[] {
         const last = spans.reduce((m, s) => Math.max(m, s.last_ms), Number.NEGATIVE_INFINITY);
         const letters = up ? (await deps.samples.countDeadLetters()).reduce((n, l) => n + l.count, 0) : 0;
         const s = deps.analyzer?.stats;
+        const behind = spans.filter((sp) => (wm.get(sp.vehicle) ?? 0) <= sp.last_ms);
+        const onTrip = behind.filter((sp) => tripGoingOn(sp.last_ms, x.clock())).length;
         const lastRun = analyses.reduce((m, a) => Math.max(m, a.updated_ms), Number.NEGATIVE_INFINITY);
         return {
           time: iso(x.clock()),
@@ -83,7 +86,8 @@ export function readRoutes(x: ApiContext): Route[] {
             last_error: s?.last_error ?? null,
             trips_analysed: s?.trips_analysed ?? 0,
             samples_analysed: s?.samples_analysed ?? 0,
-            backlog_vehicles: spans.filter((sp) => (wm.get(sp.vehicle) ?? 0) <= sp.last_ms).length,
+            backlog_vehicles: behind.length - onTrip,
+            on_trip_vehicles: onTrip,
             watermarks: spans.map((sp) => {
               const w = wm.get(sp.vehicle);
               return { vehicle: sp.vehicle, analysed_to: w === undefined ? null : iso(w) };

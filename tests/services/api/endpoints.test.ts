@@ -305,8 +305,16 @@ describe('API against the running stack (Mosquitto → ingester → InfluxDB →
         fan_pct: 10,
       })),
     );
-    now_ms = t0 + 3_600_000;
+    // A minute after its last sample the trip may go on: counted as on a trip, not as a backlog.
+    const status = async () =>
+      statusResponseSchema.parse(await (await stack.get('/api/status')).json()).analyzer;
+    now_ms = t0 + 660_000;
     await stack.analyzer.runOnce();
+    expect(await status()).toMatchObject({ backlog_vehicles: 0, on_trip_vehicles: 1 });
+    now_ms = t0 + 3_600_000;
+    expect(await status()).toMatchObject({ backlog_vehicles: 1, on_trip_vehicles: 0 });
+    await stack.analyzer.runOnce();
+    expect(await status()).toMatchObject({ backlog_vehicles: 0, on_trip_vehicles: 0 });
     const reader = res.body!.getReader();
     let text = '';
     while (!/"trip":"live-1"/.test(text) || !/event: sample/.test(text))

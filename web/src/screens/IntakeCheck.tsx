@@ -182,7 +182,7 @@ function Health({ s }: { s: StatusResponse }) {
       </Figure>
       <Figure label="Analysed">
         {s.analyzer.trips_analysed} trips · {s.analyzer.samples_analysed.toLocaleString('en')} samples ·
-        backlog {s.analyzer.backlog_vehicles} vehicles
+        backlog {s.analyzer.backlog_vehicles} vehicles · {s.analyzer.on_trip_vehicles} on a trip now
       </Figure>
       {stale.length > 0 && <Figure label="Never analysed">{stale.map((w) => w.vehicle).join(', ')}</Figure>}
     </dl>
