@@ -65,8 +65,8 @@ export async function runStack(
 /** Waits until the analyzer has caught up with everything stored. */
 export async function analysed(stack: RunningStack): Promise<FleetResponse> {
   // Two passes completed after the history was in (the stack announces only then) have analysed every
-  // closed trip. Waiting for no backlog instead would wait on a vehicle driving at the cut: its open trip
-  // stays past its watermark until it parks, hours of wall time at some times of day.
+  // closed trip. A vehicle driving at the cut keeps its open trip past its watermark until it parks
+  // (status counts it on a trip, not in the backlog): hours of wall time at some times of day.
   let first: number | undefined;
   await waitFor(
     'the analyzer catching up',
