@@ -155,7 +155,15 @@ export const bandSeriesSchema = z.object({
   ewma_lcl: col,
   cusum: col,
   cusum_h: z.number(),
-  change_points: z.array(z.object({ signal: iso, since: iso, detector: z.enum(['cusum', 'ewma', 'step']) })),
+  change_points: z.array(
+    z.object({
+      signal: iso,
+      since: iso,
+      detector: z.enum(['cusum', 'ewma', 'step']),
+      /** The level at the end of the change's segment less the median health before the change began, in points (absent in results stored before it). */
+      shift_pct: num.optional(),
+    }),
+  ),
   baselines: z.array(
     z.object({
       start: iso,

@@ -227,8 +227,8 @@ export function assessVehicle(
     notes,
     series: {
       time_ms: [...times],
-      ram: bandSeries(bands.ram, order, o.cusum_h),
-      fan: bandSeries(bands.fan, order, o.cusum_h),
+      ram: bandSeries(bands.ram, order, o),
+      fan: bandSeries(bands.fan, order, o),
       margin: {
         basis,
         pct: trips.map((t) => t.margin_pct),

@@ -1,6 +1,8 @@
 import type { Band } from '../trip/bands.ts';
 import type { BandMonitor } from './band-monitor.ts';
 import { DAY_MS } from './band-monitor.ts';
+import { median } from '../stats/quantile.ts';
+import type { HealthOptions } from './options.ts';
 import type { Projection } from './projection.ts';
 
 /** One band for charts: per trip (input order), null where the trip had no k in the band. */
@@ -13,7 +15,16 @@ export interface BandSeries {
   /** σ units; the decision interval is `cusum_h`. */
   cusum: (number | null)[];
   cusum_h: number;
-  change_points: { signal: string; since: string; detector: 'cusum' | 'ewma' | 'step' }[];
+  /**
+   * `shift_pct`: the band's level at the end of the change's segment (the next change, re-baseline or
+   * the latest trip) less the median health of the trips before the change began, in points of health.
+   */
+  change_points: {
+    signal: string;
+    since: string;
+    detector: 'cusum' | 'ewma' | 'step';
+    shift_pct: number | null;
+  }[];
   baselines: { start: string; k_w_m2k: number | null; source: 'bench' | 'trips'; reference: number | null }[];
 }
 
@@ -49,8 +60,36 @@ export interface HealthSeries {
 export const isoOfMs = (ms: number) => new Date(ms).toISOString();
 export const isoOfDay = (d: number | null) => (d === null ? null : isoOfMs(Math.round(d * DAY_MS)));
 
+/**
+ * Level at the end of change j's segment less the median health of the `window` trips before the
+ * change began (its estimated start, which the signal can follow by many trips), in points.
+ */
+function changeShift(m: BandMonitor, j: number, window: number): number | null {
+  const c = m.changes[j]!;
+  const ends = [m.changes[j + 1]?.signal_ms, ...m.baselines.map((b) => b.start_ms)].filter(
+    (t): t is number => t !== undefined && t > c.signal_ms,
+  );
+  const end = Math.min(Number.POSITIVE_INFINITY, ...ends);
+  const start = Math.max(
+    Number.NEGATIVE_INFINITY,
+    ...m.baselines.map((b) => b.start_ms).filter((t) => t <= c.since_ms),
+  );
+  const before: number[] = [];
+  let after: number | null = null;
+  for (const p of m.points) {
+    if (p.t_ms >= start && p.t_ms < c.since_ms && p.health !== null) before.push(p.health);
+    if (p.t_ms >= c.signal_ms && p.t_ms < end && p.level !== null) after = p.level;
+  }
+  if (!before.length || after === null) return null;
+  return (after - median(before.slice(-window))) * 100;
+}
+
 /** Spreads a band monitor's points over the input order (`inputIndex[timeOrderIndex]`). */
-export function bandSeries(m: BandMonitor, inputIndex: readonly number[], cusum_h: number): BandSeries {
+export function bandSeries(
+  m: BandMonitor,
+  inputIndex: readonly number[],
+  o: Pick<HealthOptions, 'cusum_h' | 'level_window_trips'>,
+): BandSeries {
   const n = inputIndex.length;
   const col = () => new Array<number | null>(n).fill(null);
   const s: BandSeries = {
@@ -59,11 +98,12 @@ export function bandSeries(m: BandMonitor, inputIndex: readonly number[], cusum_
     ewma: col(),
     ewma_lcl: col(),
     cusum: col(),
-    cusum_h,
-    change_points: m.changes.map((c) => ({
+    cusum_h: o.cusum_h,
+    change_points: m.changes.map((c, j) => ({
       signal: isoOfMs(c.signal_ms),
       since: isoOfMs(c.since_ms),
       detector: c.detector,
+      shift_pct: changeShift(m, j, o.level_window_trips),
     })),
     baselines: m.baselines.map((b) => ({
       start: isoOfMs(b.start_ms),

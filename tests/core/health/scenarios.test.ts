@@ -74,6 +74,18 @@ describe('health assessment on generated fleets', () => {
     expect(changes).toBeGreaterThan(0);
   });
 
+  it('each change point says how far the level moved: a few points on healthy bands, tens for a failed fan', () => {
+    const shifts = (sc: ScenarioName, band: 'ram' | 'fan') =>
+      runs(sc).flatMap((r) => (r.a.series[band]?.change_points ?? []).map((c) => c.shift_pct));
+    const healthy = [...shifts('healthy', 'ram'), ...shifts('healthy', 'fan')];
+    expect(healthy.length).toBeGreaterThan(0);
+    for (const x of healthy) expect(Math.abs(x!)).toBeLessThan(5);
+    for (const r of runs('fan')) {
+      const fell = (r.a.series.fan?.change_points ?? []).map((c) => c.shift_pct ?? 0);
+      expect(Math.min(...fell), label(r)).toBeLessThan(-30);
+    }
+  });
+
   it('asymptotic fouling: watch, then inspect with cause fouling, never while the truth is ok', () => {
     for (const r of runs('fouling')) {
       const gw = firstStatus(r.a, 'watch')!;

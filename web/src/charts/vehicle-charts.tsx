@@ -57,7 +57,10 @@ export function HealthChart({
       ...s.fan.change_points.map((c) => ['fan', c] as const),
     ].map(([band, c]) => ({
       x: Date.parse(c.signal),
-      label: `change: ${band} (${c.detector})`,
+      label:
+        c.shift_pct === null || c.shift_pct === undefined
+          ? `change: ${band} (${c.detector})`
+          : `change: ${band} ${c.shift_pct > 0 ? '+' : ''}${num(c.shift_pct, 'pts')} (${c.detector})`,
       color: INK.red,
       dash: DASH.dashed,
     }));
