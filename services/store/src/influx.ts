@@ -171,7 +171,9 @@ export function createInfluxStore(options: InfluxStoreOptions): SampleStore {
     },
     async readDeadLetters(q: DeadLetterQuery = {}) {
       const where: string[] = [];
-      if (q.vehicle !== undefined) where.push(`vehicle = ${idLiteral(q.vehicle)}`);
+      // A letter without a vehicle has no vehicle tag, which `= ''` does not match in InfluxQL.
+      if (q.vehicle === '') where.push('vehicle !~ /./');
+      else if (q.vehicle !== undefined) where.push(`vehicle = ${idLiteral(q.vehicle)}`);
       if (q.reason !== undefined) where.push(`reason = ${idLiteral(q.reason)}`);
       const [series = []] = await query(
         `SELECT reason, vehicle, detail, topic, excerpt, payload_bytes FROM ${DEAD_LETTERS_MEASUREMENT}` +
