@@ -181,6 +181,13 @@ describe('dashboard in a real browser against the running API', () => {
     }
     await page.locator('[data-queue] [data-alert]').first().waitFor();
     expect(await page.getByRole('button', { name: 'Log maintenance…' }).count()).toBe(queue.length);
+    // A raise with no cause named does not read "no fault found".
+    const unnamed = (await Promise.all(queue.map((id) => api<VehicleResponse>(`/api/vehicles/${id}`))))
+      .flatMap((v) => v.alerts)
+      .filter((a) => a.cause === 'none' && a.status !== 'ok');
+    expect(unnamed.length).toBeGreaterThan(0);
+    for (const a of unnamed)
+      expect(await text(page, `[data-alert="${a.id}"] .alert-head`)).toContain('cause not named yet');
     await screenshot(page, '4-workshop-queue');
     await page.goto(`${stack.url}/#/work-order/${queue[0]}`);
     await page.getByRole('button', { name: 'Print' }).waitFor();

@@ -1,7 +1,7 @@
 import type { Trend } from '@thermargin/shared/api';
-import type { Cause, Status } from '@thermargin/shared/results';
+import { CAUSE_WORD, type Cause, type Status } from '@thermargin/shared/results';
 
-export { CAUSE_WORD } from '@thermargin/shared/results';
+export { CAUSE_WORD };
 
 /** Words for the contract's codes: a status always reads as a word, never as a colour alone. */
 export const STATUS_WORD: Record<Status | 'none', string> = {
@@ -31,6 +31,17 @@ const REFUSAL_WORD: Record<string, string> = {
   oversize: 'too large',
 };
 export const refusalWord = (code: string): string => REFUSAL_WORD[code] ?? code.replaceAll('_', ' ');
+
+/**
+ * A vehicle's or alert's cause in words. No cause named reads "no fault found" while all is well,
+ * but under watch or inspect the margin is short for a reason not yet seen: it reads so.
+ */
+export function causeWord(cause: Cause | null | undefined, status: Status | null | undefined): string {
+  if (!cause) return DASH;
+  return cause === 'none' && (status === 'watch' || status === 'inspect')
+    ? 'cause not named yet'
+    : CAUSE_WORD[cause];
+}
 
 /** Urgency rank: inspect first, unassessed last. */
 export const STATUS_RANK: Record<Status | 'none', number> = { inspect: 0, watch: 1, ok: 2, none: 3 };

@@ -1,6 +1,6 @@
 import type { AlertView } from '@thermargin/shared/api';
 import { useState } from 'preact/hooks';
-import { CAUSE_WORD, when } from '../format.ts';
+import { causeWord, when } from '../format.ts';
 import { canWrite, type Session } from '../state/session.ts';
 import { Empty } from './States.tsx';
 import { StatusMark } from './StatusMark.tsx';
@@ -80,7 +80,7 @@ export function AlertList({
         <li key={a.id} class={`alert alert-${a.state}`} data-alert={a.id} data-state={a.state}>
           <div class="alert-head">
             <StatusMark status={a.status} />
-            <span>{CAUSE_WORD[a.cause]}</span>
+            <span>{causeWord(a.cause, a.status)}</span>
             <span class="muted">{when(a.time)}</span>
             <span class={`pill pill-${a.state}`}>{STATE_WORD[a.state]}</span>
           </div>

@@ -7,7 +7,7 @@ import { rowLink } from '../components/rowKeys.ts';
 import { SortHeader } from '../components/SortHeader.tsx';
 import { Empty, Loaded } from '../components/States.tsx';
 import { StatusMark, TrendMark } from '../components/StatusMark.tsx';
-import { ago, CAUSE_WORD, num, STATUS_WORD, when } from '../format.ts';
+import { ago, causeWord, num, STATUS_WORD, when } from '../format.ts';
 import {
   DEFAULT_QUERY,
   type FleetQuery,
@@ -131,7 +131,7 @@ function FleetTable({ fleet }: { fleet: FleetResponse }) {
                     <td data-col="status">
                       <StatusMark status={v.status} />
                     </td>
-                    <td data-col="cause">{v.cause ? CAUSE_WORD[v.cause] : '—'}</td>
+                    <td data-col="cause">{causeWord(v.cause, v.status)}</td>
                     <td class="num" data-col="margin">
                       {num(v.margin_pct, '%')}
                     </td>

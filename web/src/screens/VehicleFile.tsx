@@ -6,7 +6,7 @@ import { MaintenanceForm } from '../components/MaintenanceForm.tsx';
 import { Empty, Loaded } from '../components/States.tsx';
 import { StatusMark, TrendMark } from '../components/StatusMark.tsx';
 import { TripList } from '../components/TripList.tsx';
-import { ACTION_WORD, CAUSE_WORD, num, when } from '../format.ts';
+import { ACTION_WORD, CAUSE_WORD, causeWord, num, when } from '../format.ts';
 import { useLive } from '../state/live.ts';
 import { useResource } from '../state/resource.ts';
 import { href } from '../state/route.ts';
@@ -24,7 +24,7 @@ export function Figures({ v }: { v: VehicleResponse }) {
         <StatusMark status={s.status} />
       </Figure>
       <Figure label="Cause" fig="cause">
-        {s.cause ? CAUSE_WORD[s.cause] : '—'}
+        {causeWord(s.cause, s.status)}
       </Figure>
       <Figure label="Margin at design point" fig="margin">
         {num(s.margin_pct, '%')}

@@ -1,6 +1,6 @@
 import { Caution } from '../components/Caution.tsx';
 import { Loaded } from '../components/States.tsx';
-import { ACTION_WORD, CAUSE_WORD, num, RECOMMENDATION, when } from '../format.ts';
+import { ACTION_WORD, causeWord, num, RECOMMENDATION, when } from '../format.ts';
 import { useResource } from '../state/resource.ts';
 import { href } from '../state/route.ts';
 import type { Session } from '../state/session.ts';
@@ -37,7 +37,8 @@ export function WorkOrder({ session, id }: { session: Session; id: string }) {
               <section>
                 <h2>Finding</h2>
                 <p>
-                  <strong>{CAUSE_WORD[cause]}</strong>: {v.cause_evidence ?? 'no evidence recorded'}
+                  <strong>{causeWord(cause, v.summary.status)}</strong>:{' '}
+                  {v.cause_evidence ?? 'no evidence recorded'}
                 </p>
                 <h2>Recommended work</h2>
                 <p data-fig="recommendation">{RECOMMENDATION[cause]}</p>

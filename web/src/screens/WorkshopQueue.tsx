@@ -6,7 +6,7 @@ import { MaintenanceForm } from '../components/MaintenanceForm.tsx';
 import { Pager } from '../components/Pager.tsx';
 import { Empty, Loaded } from '../components/States.tsx';
 import { StatusMark } from '../components/StatusMark.tsx';
-import { CAUSE_WORD, num, RECOMMENDATION, when } from '../format.ts';
+import { causeWord, num, RECOMMENDATION, when } from '../format.ts';
 import { useLive } from '../state/live.ts';
 import { inspectionQueue } from '../state/queue.ts';
 import { useResource } from '../state/resource.ts';
@@ -44,7 +44,7 @@ function QueueItem({
           <a href={href.vehicle(v.id)}>{v.id}</a> <span class="muted small">{v.type}</span>
         </h2>
         <StatusMark status={v.status} />
-        <span>{v.cause ? CAUSE_WORD[v.cause] : '—'}</span>
+        <span>{causeWord(v.cause, v.status)}</span>
         <span class="num">margin {num(v.margin_pct, '%')}</span>
         <span class="num">limiting ambient {num(v.limiting_ambient_c, '°C')}</span>
         <span>inspect by {when(v.projected_inspect_date, false)}</span>

@@ -1,6 +1,6 @@
 import type { VehicleSummary } from '@thermargin/shared/api';
 import type { Status } from '@thermargin/shared/results';
-import { CAUSE_WORD } from '../format.ts';
+import { causeWord } from '../format.ts';
 import { byUrgency } from './queue.ts';
 
 /** A fleet row. */
@@ -31,7 +31,7 @@ const TREND_RANK = { falling: 0, steady: 1, rising: 2 } as const;
 function key(v: FleetRow, k: Exclude<SortKey, 'status'>): string | number | null {
   switch (k) {
     case 'cause':
-      return v.cause ? CAUSE_WORD[v.cause] : null;
+      return v.cause ? causeWord(v.cause, v.status) : null;
     case 'trend':
       return v.trend ? TREND_RANK[v.trend] : null;
     case 'projected_inspect_date':
@@ -50,7 +50,8 @@ export function fleetView(rows: readonly FleetRow[], q: FleetQuery): FleetRow[] 
   const out = rows.filter((v) => {
     if (q.status !== 'all' && (v.status ?? 'none') !== q.status) return false;
     if (!words.length) return true;
-    const hay = `${v.id} ${v.type} ${v.powertrain} ${v.cause ? CAUSE_WORD[v.cause] : ''}`.toLowerCase();
+    const hay =
+      `${v.id} ${v.type} ${v.powertrain} ${v.cause ? causeWord(v.cause, v.status) : ''}`.toLowerCase();
     return words.every((w) => hay.includes(w));
   });
   const dir = q.descending ? -1 : 1;
