@@ -55,6 +55,7 @@ async function routeApi(context: BrowserContext, trace: ReturnType<typeof synthe
   const json = (body: string, status = 200) => ({ status, contentType: 'application/json', body });
   await context.route('**/api/**', (route) => {
     const path = new URL(route.request().url()).pathname;
+    if (path === '/api/me') return route.fulfill(json('{"name":"bench","role":"viewer"}'));
     if (path === '/api/status') return route.fulfill(json('{}'));
     if (path === '/api/fleet') return route.fulfill(json(fleet));
     if (/\/trips\/[^/]+$/.test(path)) return route.fulfill(json(traceBody));
