@@ -8,6 +8,7 @@ import { secureHeaders } from 'hono/secure-headers';
 import { z } from 'zod';
 import { ApiContext } from './context.ts';
 import { API_DEFAULTS, type ApiDeps } from './deps.ts';
+import { outageAs503 } from './store-outage.ts';
 import { EventHub, eventRoutes } from './events.ts';
 import { errorBody, HttpError, parseInput } from './http-error.ts';
 import { openApiDocument } from './openapi.ts';
@@ -47,7 +48,7 @@ async function readJson(c: Context): Promise<unknown> {
 
 /** The API as a Hono app: every route of the route table, the OpenAPI document, and the dashboard. */
 export function createApi(deps: ApiDeps): Hono {
-  const x = new ApiContext(deps);
+  const x = new ApiContext({ ...deps, samples: outageAs503(deps.samples) });
   const hub = new EventHub(x, deps.events_poll_ms ?? API_DEFAULTS.events_poll_ms);
   const routes: Route[] = [...readRoutes(x), ...traceRoutes(x), ...writeRoutes(x), ...eventRoutes(hub)];
   routes.push(...sizingRoutes(x), ...meRoutes());
@@ -59,6 +60,7 @@ export function createApi(deps: ApiDeps): Hono {
       if (e.status === 401) c.header('www-authenticate', 'Bearer');
       // The rest of an oversized body is never read: the connection cannot be reused.
       if (e.status === 413) c.header('connection', 'close');
+      if (e.status === 503) deps.log?.('api_store_unavailable', { path: c.req.path, error: e.message });
       return c.json(errorBody(e), e.status);
     }
     deps.log?.('api_error', { path: c.req.path, error: (e as Error).stack ?? String(e) });

@@ -185,4 +185,31 @@ describe('API security', () => {
     expect(problems[0]!.where).toMatch(/vehicles\[0\]\.radiator_area_m2/);
     expect((await stack.get(`/api/vehicles/${ID}`)).status).toBe(200);
   });
+
+  it('a sample store that stops answering gives 503 naming the store, and status says it is down', async () => {
+    const gone = createSqliteStore({ path: join(dir, 'gone.db') });
+    const other = await startApiStack(
+      tempDir('api-gone'),
+      scenario.fleet,
+      gone,
+      () => scenario.history.to_ms,
+    );
+    try {
+      await gone.close();
+      for (const path of ['/api/rejected', '/api/rejected/letters', '/api/fleet']) {
+        const r = await other.get(path);
+        expect(r.status, path).toBe(503);
+        const body = (await r.json()) as { error: { code: string; message: string } };
+        expect(body.error.code, path).toBe('store_unavailable');
+        expect(body.error.message, path).toMatch(/^sample store \(sqlite\) did not answer: /);
+      }
+      const status = (await (await other.get('/api/status')).json()) as {
+        store: { up: boolean; error: string };
+      };
+      expect(status.store.up).toBe(false);
+      expect(status.store.error).toMatch(/sqlite/);
+    } finally {
+      await other.close();
+    }
+  });
 });
