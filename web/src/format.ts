@@ -1,5 +1,6 @@
 import type { Trend } from '@thermargin/shared/api';
 import { CAUSE_WORD, type Cause, type Status } from '@thermargin/shared/results';
+import type { RejectReason } from '@thermargin/shared/telemetry';
 
 export { CAUSE_WORD };
 
@@ -19,7 +20,7 @@ export const ACTION_WORD = {
 } as const;
 
 /** The ingester's refusal codes in words; the cleaning's codes read with spaces for underscores. */
-const REFUSAL_WORD: Record<string, string> = {
+const REFUSAL_WORD: Record<RejectReason, string> = {
   json: 'not JSON',
   schema: 'wrong shape',
   range: 'out of range',
@@ -30,7 +31,8 @@ const REFUSAL_WORD: Record<string, string> = {
   topic: 'not a sample topic',
   oversize: 'too large',
 };
-export const refusalWord = (code: string): string => REFUSAL_WORD[code] ?? code.replaceAll('_', ' ');
+export const refusalWord = (code: string): string =>
+  REFUSAL_WORD[code as RejectReason] ?? code.replaceAll('_', ' ');
 
 /**
  * A vehicle's or alert's cause in words. No cause named reads "no fault found" while all is well,

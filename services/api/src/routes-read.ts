@@ -65,17 +65,18 @@ export function readRoutes(x: ApiContext): Route[] {
         const last = spans.reduce((m, s) => Math.max(m, s.last_ms), Number.NEGATIVE_INFINITY);
         const letters = up ? (await deps.samples.countDeadLetters()).reduce((n, l) => n + l.count, 0) : 0;
         const s = deps.analyzer?.stats;
+        const now = x.clock(); // one reading for the whole answer
         const behind = spans.filter((sp) => (wm.get(sp.vehicle) ?? 0) <= sp.last_ms);
-        const onTrip = behind.filter((sp) => tripGoingOn(sp.last_ms, x.clock())).length;
+        const onTrip = behind.filter((sp) => tripGoingOn(sp.last_ms, now)).length;
         const lastRun = analyses.reduce((m, a) => Math.max(m, a.updated_ms), Number.NEGATIVE_INFINITY);
         return {
-          time: iso(x.clock()),
+          time: iso(now),
           store: { kind: deps.samples.kind, up, error },
           ingest: {
             vehicles: spans.length,
             samples: spans.reduce((n, sp) => n + sp.count, 0),
             last_sample: Number.isFinite(last) ? iso(last) : null,
-            lag_s: Number.isFinite(last) ? (x.clock() - last) / 1000 : null,
+            lag_s: Number.isFinite(last) ? (now - last) / 1000 : null,
             dead_letters: letters,
           },
           analyzer: {

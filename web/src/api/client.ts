@@ -1,6 +1,7 @@
 import type {
   AlertView,
   ApiError,
+  DeadLettersQuery,
   DeadLettersResponse,
   FleetResponse,
   MaintenanceBody,
@@ -71,7 +72,7 @@ export class ApiClient {
   status = () => this.request<StatusResponse>('GET', '/api/status');
   rejected = () => this.request<RejectedResponse>('GET', '/api/rejected');
   /** The newest refused messages, of one vehicle ('' when unreadable) and reason when given. */
-  letters = (f: { vehicle?: string; reason?: string }, limit: number) => {
+  letters = (f: Pick<DeadLettersQuery, 'vehicle' | 'reason'>, limit: number) => {
     const q = new URLSearchParams({ limit: String(limit) });
     if (f.vehicle !== undefined) q.set('vehicle', f.vehicle);
     if (f.reason !== undefined) q.set('reason', f.reason);

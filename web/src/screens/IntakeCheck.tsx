@@ -1,4 +1,10 @@
-import type { DeadLettersResponse, RejectedResponse, StatusResponse } from '@thermargin/shared/api';
+import type {
+  DeadLettersQuery,
+  DeadLettersResponse,
+  RejectedResponse,
+  StatusResponse,
+} from '@thermargin/shared/api';
+import type { RejectReason } from '@thermargin/shared/telemetry';
 import { useState } from 'preact/hooks';
 import { Empty, Loaded } from '../components/States.tsx';
 import { ago, num, refusalWord, when } from '../format.ts';
@@ -18,10 +24,7 @@ function reasons(r: RejectedResponse): { source: 'ingest' | 'cleaning'; reason: 
 }
 
 /** Which refused messages to list: one vehicle's ('' when unreadable) of one reason, or all. */
-interface LetterFilter {
-  vehicle?: string;
-  reason?: string;
-}
+type LetterFilter = Pick<DeadLettersQuery, 'vehicle' | 'reason'>;
 const LETTERS_SHOWN = 50;
 /** Characters of a payload shown before it is opened. */
 const EXCERPT_PREVIEW = 60;
@@ -69,7 +72,7 @@ function Rejected({ r, pick }: { r: RejectedResponse; pick: (f: LetterFilter) =>
                         type="button"
                         class="btn btn-quiet bad"
                         title="Show these messages below"
-                        onClick={() => pick({ vehicle: v.vehicle, reason: c.reason })}
+                        onClick={() => pick({ vehicle: v.vehicle, reason: c.reason as RejectReason })}
                       >
                         {n}
                       </button>
