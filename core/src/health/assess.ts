@@ -14,7 +14,7 @@ import { rebaselineTimes_ms } from './rebaseline.ts';
 import { bandSeries, type HealthSeries, isoOfDay } from './series.ts';
 import { StatusMachine } from './status.ts';
 import { latForMargin_c, marginThresholds } from './thresholds.ts';
-import { headEnd, lowerBound, tailStart } from './window.ts';
+import { headEnd, lowerBound, tailStart } from '@thermargin/shared/array-index';
 
 export type { HealthOptions } from './options.ts';
 export { HEALTH_DEFAULTS } from './options.ts';

@@ -5,7 +5,7 @@ import { RunningDiffSigma } from '../stats/diff-sigma.ts';
 import { createEwma, type Ewma } from '../stats/ewma.ts';
 import type { Band } from '../trip/bands.ts';
 import { currentLevel, type Level } from './level.ts';
-import { lowerBound } from './window.ts';
+import { lowerBound } from '@thermargin/shared/array-index';
 import type { HealthOptions } from './options.ts';
 
 export const DAY_MS = 86_400_000;

@@ -2,7 +2,7 @@ import type { MaintenanceAction, MaintenanceEntry, TripResult } from '@thermargi
 import { median } from '../stats/quantile.ts';
 import type { HealthOptions } from './options.ts';
 import { maintenanceTime_ms } from './rebaseline.ts';
-import { headEnd, lowerBound, tailStart } from './window.ts';
+import { headEnd, lowerBound, tailStart } from '@thermargin/shared/array-index';
 
 /** The trip-level signs (besides band k) that tell the causes apart, over recent trips. */
 export interface Evidence {

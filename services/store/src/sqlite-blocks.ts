@@ -5,7 +5,7 @@ import {
   emptyColumns,
   sliceColumns,
 } from '@thermargin/shared';
-import { lowerBound } from '@thermargin/core/health/window';
+import { lowerBound } from '@thermargin/shared/array-index';
 
 /**
  * Sealed history of the SQLite adapter: one vehicle's consecutive samples packed column by column

@@ -9,7 +9,7 @@ import {
   emptyColumns,
   sliceColumns,
 } from '@thermargin/shared';
-import { lowerBound } from '@thermargin/core/health/window';
+import { lowerBound } from '@thermargin/shared/array-index';
 import Database from 'better-sqlite3';
 import { BLOCK_DEFAULTS, decodeBlock, encodeBlock, isHole, mergeRows } from './sqlite-blocks.ts';
 import { createSqliteResults } from './sqlite-results.ts';

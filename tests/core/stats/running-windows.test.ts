@@ -2,7 +2,6 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { shiftStart } from '../../../core/src/stats/change-point.ts';
 import { RunningDiffSigma, sigmaFromDifferences } from '../../../core/src/stats/diff-sigma.ts';
-import { headEnd, lowerBound, tailStart } from '../../../core/src/health/window.ts';
 
 const finite = fc.double({ min: -1e3, max: 1e3, noNaN: true, noDefaultInfinity: true });
 
@@ -32,29 +31,6 @@ describe('RunningDiffSigma: the incremental σ equals the batch one', () => {
     const r = new RunningDiffSigma();
     r.push(1);
     expect(() => r.sigma()).toThrow(/needs ≥ 2 differences, got 1/);
-  });
-});
-
-describe('window index helpers mirror the Array methods they replace', () => {
-  const sortedArray = fc
-    .array(fc.integer({ min: -50, max: 50 }), { maxLength: 40 })
-    .map((a) => a.sort((x, y) => x - y));
-  it('lowerBound(a, x) is where a.filter(v => v >= x) starts', () => {
-    fc.assert(
-      fc.property(sortedArray, fc.integer({ min: -60, max: 60 }), (a, x) => {
-        const i = lowerBound(a, x);
-        expect(a.slice(i)).toEqual(a.filter((v) => v >= x));
-      }),
-    );
-  });
-  it('tailStart and headEnd give arr.slice(-k) and arr.slice(0, k), odd k included', () => {
-    const k = fc.oneof(fc.integer({ min: -50, max: 50 }), fc.double({ min: -50, max: 50, noNaN: true }));
-    fc.assert(
-      fc.property(fc.array(fc.integer(), { maxLength: 30 }), k, (arr, kk) => {
-        expect(arr.slice(tailStart(arr.length, kk))).toEqual(arr.slice(-kk));
-        expect(arr.slice(0, headEnd(arr.length, kk))).toEqual(arr.slice(0, kk));
-      }),
-    );
   });
 });
 
