@@ -6,7 +6,7 @@ import { designBand } from '../trip/design-point.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
 import { BandMonitor, DAY_MS } from './band-monitor.ts';
 import { type Candidate, FAN_OVER_RAM, type FanStep, fallZ, rankCauses } from './causes.ts';
-import { EvidenceTracker } from './evidence.ts';
+import { EvidenceTracker } from './cause-evidence.ts';
 import { currentLevel } from './level.ts';
 import { type HealthOptions, resolveHealthOptions } from './options.ts';
 import { fitAsymptotic, MAX_TRIPS, projectMargin } from './projection.ts';

@@ -1,6 +1,6 @@
 import type { Cause } from '@thermargin/shared';
 import type { BandSummary } from './band-monitor.ts';
-import type { Evidence } from './evidence.ts';
+import type { Evidence } from './cause-evidence.ts';
 import type { HealthOptions } from './options.ts';
 
 /**

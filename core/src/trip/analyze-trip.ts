@@ -6,7 +6,7 @@ import type { VehicleModel } from '../vehicle/resolve.ts';
 import { estimateBand } from './band-estimate.ts';
 import { designMargin } from './design-point.ts';
 import type { EstimatorOptions } from './estimator-options.ts';
-import { EVIDENCE_DEFAULTS, soakOffset_k, stuckSignals } from './evidence.ts';
+import { SENSOR_CHECK_DEFAULTS, soakOffset_k, stuckSignals } from './sensor-checks.ts';
 import type { TripSpan } from './split.ts';
 import { tripWindows } from './windows.ts';
 
@@ -57,7 +57,7 @@ export function analyzeTrip(
     dist_km += (c.speed_kmh[i]! * dt_s) / 3600;
     energy_kwh += (q * dt_s) / 3600;
     if (c.derate[i] === 1) derate_s += dt_s;
-    if (c.fan_pct[i]! >= EVIDENCE_DEFAULTS.fan_saturated_pct) fanSat_s += dt_s;
+    if (c.fan_pct[i]! >= SENSOR_CHECK_DEFAULTS.fan_saturated_pct) fanSat_s += dt_s;
     if (c.coolant_in_c[i]! > coolantMax) coolantMax = c.coolant_in_c[i]!;
     if (c.ambient_c[i]! > ambMax) ambMax = c.ambient_c[i]!;
     ambSum += c.ambient_c[i]!;

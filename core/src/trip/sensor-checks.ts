@@ -1,7 +1,7 @@
 import type { SampleColumns } from '@thermargin/shared';
 
 /** Sensor plausibility rules; defaults defined once here. */
-export const EVIDENCE_DEFAULTS = {
+export const SENSOR_CHECK_DEFAULTS = {
   /** min, 10: a coolant temperature frozen this long while the heat input moves is a stuck sensor. */
   stuck_coolant_min: 10,
   /** min, 60: ambient air changes slowly; frozen for an hour of driving it is suspect. */
@@ -51,7 +51,7 @@ export function stuckSignals(
   from: number,
   to: number,
   heat_kw: Float64Array,
-  o = EVIDENCE_DEFAULTS,
+  o = SENSOR_CHECK_DEFAULTS,
 ): string[] {
   const flags: string[] = [];
   for (const name of ['coolant_in_c', 'coolant_out_c'] as const) {
@@ -73,7 +73,7 @@ export function soakOffset_k(
   from: number,
   to: number,
   previousEnd_ms: number | null,
-  o = EVIDENCE_DEFAULTS,
+  o = SENSOR_CHECK_DEFAULTS,
 ): number | null {
   if (previousEnd_ms === null || c.time_ms[from]! - previousEnd_ms < o.soak_min_h * 3_600_000) return null;
   const m = Math.min(o.soak_samples, to - from);
