@@ -20,7 +20,7 @@ import { createApi } from '@thermargin/api/app';
 import { parseTokenList, TokenRegistry } from '@thermargin/api/tokens';
 import type { Sample, TripResult, VehicleConfigInput } from '@thermargin/shared';
 import { createSqliteStore } from '@thermargin/store';
-import { createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis';
+import { createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis-store';
 import { createWorkflowStore } from '@thermargin/store/sqlite-workflow';
 import { createScenario } from '@thermargin/simulator';
 import { resolveFleet } from '@thermargin/core/vehicle/resolve';

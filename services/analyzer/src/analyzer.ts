@@ -1,6 +1,6 @@
 import type { MaintenanceEntry, Status, TripResult } from '@thermargin/shared';
 import type { SampleStore } from '@thermargin/store';
-import type { AnalysisStore } from '@thermargin/store/sqlite-analysis';
+import type { AnalysisStore } from '@thermargin/store/sqlite-analysis-store';
 import { tripGoingOn } from '@thermargin/core/trip/split';
 import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
 import { type AnalysisState, catchUpVehicle } from './catch-up.ts';

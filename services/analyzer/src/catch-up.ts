@@ -1,6 +1,6 @@
 import type { TripResult } from '@thermargin/shared';
 import type { SampleStore, VehicleSpan } from '@thermargin/store';
-import type { VehicleAnalysis } from '@thermargin/store/sqlite-analysis';
+import type { StoredAnalysis } from '@thermargin/store/sqlite-analysis-store';
 import { analyzeVehicle } from '@thermargin/core/analyze';
 import { startsTrip, tripGoingOn } from '@thermargin/core/trip/split';
 import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
@@ -8,7 +8,7 @@ import type { AnalyzerOptions } from './options.ts';
 import { sliceColumns } from './slice.ts';
 
 export type AnalysisState = Pick<
-  VehicleAnalysis,
+  StoredAnalysis,
   'analysed_to_ms' | 'previous_end_ms' | 'last_trip' | 'rejected'
 >;
 

@@ -1,5 +1,5 @@
 import type { MaintenanceEntry, Status, TripResult } from '@thermargin/shared';
-import type { AnalysisStore, VehicleAnalysis } from '@thermargin/store/sqlite-analysis';
+import type { AnalysisStore, StoredAnalysis } from '@thermargin/store/sqlite-analysis-store';
 import { vehicleResult, withMaintenance } from '@thermargin/core/vehicle-result';
 import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
 
@@ -9,7 +9,7 @@ export interface AssessInput {
   /** Stored trips starting at or after this time are dropped first (re-analysis). */
   delete_from_ms?: number;
   /** The watermark and context to store; undefined keeps the stored one (a re-assessment). */
-  state?: Pick<VehicleAnalysis, 'analysed_to_ms' | 'previous_end_ms' | 'last_trip' | 'rejected'>;
+  state?: Pick<StoredAnalysis, 'analysed_to_ms' | 'previous_end_ms' | 'last_trip' | 'rejected'>;
 }
 
 export interface AssessOutcome {

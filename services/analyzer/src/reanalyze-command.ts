@@ -1,7 +1,7 @@
 import { parseArgs } from 'node:util';
 import { InputError } from '@thermargin/shared';
 import { openSampleStore } from '@thermargin/store';
-import { createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis';
+import { createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis-store';
 import { createWorkflowStore } from '@thermargin/store/sqlite-workflow';
 import { createAnalyzer } from './analyzer.ts';
 import { readAnalyzerConfig } from './config.ts';

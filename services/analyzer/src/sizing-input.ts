@@ -1,7 +1,7 @@
 import { setImmediate as nextTurn } from 'node:timers/promises';
 import type { TripResult } from '@thermargin/shared';
 import { openSampleStore, type ResultsStore, type SampleStore } from '@thermargin/store';
-import { createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis';
+import { createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis-store';
 import type { Duty } from '@thermargin/core/sizing/drivetrain-compare';
 import type { SizingInput } from '@thermargin/core/sizing/fleet-sizing';
 import type { SizingOptions } from '@thermargin/core/sizing/options';

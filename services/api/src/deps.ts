@@ -1,7 +1,7 @@
 import type { AnalyzerStats } from '@thermargin/analyzer/analyzer';
 import type { LoadedFleet } from '@thermargin/analyzer/fleet-file';
 import type { SampleStore } from '@thermargin/store';
-import type { AnalysisStore } from '@thermargin/store/sqlite-analysis';
+import type { AnalysisStore } from '@thermargin/store/sqlite-analysis-store';
 import type { WorkflowStore } from '@thermargin/store/sqlite-workflow';
 import type { RateLimitOptions } from './rate-limit.ts';
 import type { TokenRegistry } from './tokens.ts';

@@ -1,6 +1,6 @@
 import type { Sample } from '@thermargin/shared';
 import type { SampleStore, VehicleSpan } from '@thermargin/store';
-import type { AnalysisStore } from '@thermargin/store/sqlite-analysis';
+import type { AnalysisStore } from '@thermargin/store/sqlite-analysis-store';
 import type { StoredAssessment, VehicleData } from './views.ts';
 
 /** A value recomputed at most every `ttl_ms`, one computation at a time. */

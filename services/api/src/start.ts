@@ -1,7 +1,7 @@
 import type { AddressInfo } from 'node:net';
 import { type Analyzer, createAnalyzer } from '@thermargin/analyzer/analyzer';
 import { openSampleStore } from '@thermargin/store';
-import { createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis';
+import { createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis-store';
 import { createWorkflowStore } from '@thermargin/store/sqlite-workflow';
 import { serve } from '@hono/node-server';
 import { createApi } from './app.ts';

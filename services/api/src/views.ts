@@ -6,7 +6,7 @@ import type {
   VehicleResult,
   VehicleSummary,
 } from '@thermargin/shared';
-import type { VehicleAnalysis } from '@thermargin/store/sqlite-analysis';
+import type { StoredAnalysis } from '@thermargin/store/sqlite-analysis-store';
 import type { AlertAction, RecordedMaintenance } from '@thermargin/store/sqlite-workflow';
 import type { VehicleAssessment } from '@thermargin/core/health/assess';
 import { tripIdFromTime } from '@thermargin/core/trip/split';
@@ -23,7 +23,7 @@ void _seriesMatches;
 export interface VehicleData {
   version: number;
   result: VehicleResult;
-  analysis: VehicleAnalysis;
+  analysis: StoredAnalysis;
   assessment: StoredAssessment;
   /** Trips newest first. */
   newest_first: TripResult[];

@@ -12,7 +12,7 @@ import {
 import { lowerBound } from '@thermargin/shared/array-index';
 import Database from 'better-sqlite3';
 import { BLOCK_DEFAULTS, decodeBlock, encodeBlock, isHole, mergeRows } from './sqlite-blocks.ts';
-import { createSqliteResults } from './sqlite-results.ts';
+import { createResultTables } from './sqlite-result-tables.ts';
 import {
   type DeadLetter,
   type DeadLetterCount,
@@ -143,7 +143,7 @@ export function createSqliteStore(options: SqliteStoreOptions): SqliteStore {
     'SELECT id, n, columns, trips FROM sample_blocks WHERE first_ms < ? AND last_ms >= ?',
   );
   const deleteLetters = db.prepare('DELETE FROM dead_letters WHERE received_ms < ?');
-  const results = createSqliteResults(db);
+  const results = createResultTables(db);
   /** Rows this connection wrote per vehicle since it last looked whether to compact. */
   const unpacked = new Map<string, number>();
   let open = true;

@@ -4,7 +4,11 @@ import { join } from 'node:path';
 import { createAnalyzer } from '@thermargin/analyzer/analyzer';
 import { columnsFromSamples, type Sample } from '@thermargin/shared';
 import { createSqliteStore, type SqliteStore } from '@thermargin/store';
-import { type AnalysisStore, createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis';
+import {
+  type AnalysisStore,
+  createAnalysisStore,
+  openResultsDb,
+} from '@thermargin/store/sqlite-analysis-store';
 import { createScenario } from '@thermargin/simulator';
 import { analyzeVehicle } from '@thermargin/core/analyze';
 import { vehicleResult } from '@thermargin/core/vehicle-result';

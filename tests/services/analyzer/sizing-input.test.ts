@@ -6,7 +6,7 @@ import { resolveSizingOptions } from '@thermargin/core/sizing/options';
 import { resolveFleet } from '@thermargin/core/vehicle/resolve';
 import { createScenario } from '@thermargin/simulator';
 import { createSqliteStore } from '@thermargin/store';
-import { createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis';
+import { createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis-store';
 import { describe, expect, it } from 'vitest';
 import { tempDir } from '../ingester/support.ts';
 

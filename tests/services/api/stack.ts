@@ -8,7 +8,11 @@ import { createApi } from '@thermargin/api/app';
 import { parseTokenList, TokenRegistry } from '@thermargin/api/tokens';
 import type { FleetInput } from '@thermargin/shared';
 import type { SampleStore } from '@thermargin/store';
-import { type AnalysisStore, createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis';
+import {
+  type AnalysisStore,
+  createAnalysisStore,
+  openResultsDb,
+} from '@thermargin/store/sqlite-analysis-store';
 import { createWorkflowStore, type WorkflowStore } from '@thermargin/store/sqlite-workflow';
 import { serve } from '@hono/node-server';
 

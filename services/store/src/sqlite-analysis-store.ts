@@ -3,7 +3,7 @@ import { dirname } from 'node:path';
 import type { TripResult, VehicleResult } from '@thermargin/shared';
 import Database from 'better-sqlite3';
 import { SQLITE_DEFAULTS } from './sqlite.ts';
-import { createSqliteResults } from './sqlite-results.ts';
+import { createResultTables } from './sqlite-result-tables.ts';
 import type { ResultsStore } from './store.ts';
 
 /** Opens the results database (WAL, busy timeout): one connection per process role (analyzer, API). */
@@ -19,7 +19,7 @@ export function openResultsDb(path: string): Database.Database {
 }
 
 /** Per vehicle: how far the analyzer got, and what the health module gave beyond the VehicleResult. */
-export interface VehicleAnalysis {
+export interface StoredAnalysis {
   vehicle: string;
   /** ms: every sample with time < this has been analysed (the watermark). */
   analysed_to_ms: number;
@@ -44,13 +44,13 @@ export interface AnalysisCommit {
   /** Trip results of this vehicle starting at or after this time are removed first (re-analysis). */
   delete_from_ms?: number;
   result: VehicleResult;
-  analysis: Omit<VehicleAnalysis, 'vehicle' | 'version' | 'updated_ms'>;
+  analysis: Omit<StoredAnalysis, 'vehicle' | 'version' | 'updated_ms'>;
   now_ms: number;
 }
 
 export interface AnalysisStore extends ResultsStore {
-  readAnalysis(vehicle: string): VehicleAnalysis | undefined;
-  readAnalyses(): VehicleAnalysis[];
+  readAnalysis(vehicle: string): StoredAnalysis | undefined;
+  readAnalyses(): StoredAnalysis[];
   /** vehicle → version, cheap: for cache checks. */
   versions(): Map<string, number>;
   version(vehicle: string): number | undefined;
@@ -61,12 +61,12 @@ export interface AnalysisStore extends ResultsStore {
 }
 
 /**
- * Results in SQLite (the trip_results / vehicle_results tables of sqlite-results.ts, through its
+ * Results in SQLite (the trip_results / vehicle_results tables of sqlite-result-tables.ts, through its
  * ResultsStore), plus one row per vehicle of analysis state, all committed in one transaction so a
  * crash never leaves results without their watermark or the other way round.
  */
 export function createAnalysisStore(db: Database.Database): AnalysisStore {
-  const results = createSqliteResults(db);
+  const results = createResultTables(db);
   db.exec(`CREATE TABLE IF NOT EXISTS vehicle_analysis (
     vehicle TEXT PRIMARY KEY, analysed_to_ms INTEGER NOT NULL, version INTEGER NOT NULL,
     updated_ms INTEGER NOT NULL, json TEXT NOT NULL) WITHOUT ROWID`);
@@ -79,12 +79,12 @@ export function createAnalysisStore(db: Database.Database): AnalysisStore {
   const selectAll = db.prepare('SELECT * FROM vehicle_analysis ORDER BY vehicle');
   const selectVersions = db.prepare('SELECT vehicle, version FROM vehicle_analysis').raw();
   const selectVersion = db.prepare('SELECT version FROM vehicle_analysis WHERE vehicle = ?').pluck();
-  // The trip_results table belongs to sqlite-results.ts; ResultsStore has no delete yet (see README).
+  // The trip_results table belongs to sqlite-result-tables.ts; ResultsStore has no delete yet (see README).
   const deleteTrips = db.prepare('DELETE FROM trip_results WHERE vehicle = ? AND start >= ?');
 
   type Row = { vehicle: string; analysed_to_ms: number; version: number; updated_ms: number; json: string };
-  const fromRow = (r: Row): VehicleAnalysis => ({
-    ...(JSON.parse(r.json) as Omit<VehicleAnalysis, 'vehicle' | 'analysed_to_ms' | 'version' | 'updated_ms'>),
+  const fromRow = (r: Row): StoredAnalysis => ({
+    ...(JSON.parse(r.json) as Omit<StoredAnalysis, 'vehicle' | 'analysed_to_ms' | 'version' | 'updated_ms'>),
     vehicle: r.vehicle,
     analysed_to_ms: r.analysed_to_ms,
     version: r.version,

@@ -3,7 +3,7 @@ import type Database from 'better-sqlite3';
 import type { ResultsStore } from './store.ts';
 
 /** Results as JSON documents keyed by vehicle (+ trip): the analyzer rewrites them whole. */
-export function createSqliteResults(db: Database.Database): Omit<ResultsStore, 'close'> {
+export function createResultTables(db: Database.Database): Omit<ResultsStore, 'close'> {
   db.exec(`
     CREATE TABLE IF NOT EXISTS trip_results (
       vehicle TEXT NOT NULL, trip TEXT NOT NULL, start TEXT NOT NULL, json TEXT NOT NULL,
