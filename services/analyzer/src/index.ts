@@ -4,4 +4,3 @@ export * from './commit.ts';
 export * from './config.ts';
 export * from './fleet-file.ts';
 export * from './options.ts';
-export * from './reanalyze-command.ts';

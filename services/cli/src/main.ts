@@ -16,7 +16,7 @@ const COMMANDS: Record<string, () => Promise<Command>> = {
     return { usage: m.SIZING_USAGE, run: m.sizingCommand };
   },
   reanalyze: async () => {
-    const m = await import('@thermargin/analyzer/reanalyze-command');
+    const m = await import('./commands/reanalyze.ts');
     return { usage: m.REANALYZE_USAGE, run: m.reanalyzeCommand };
   },
 };

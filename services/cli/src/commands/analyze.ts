@@ -3,9 +3,9 @@ import { parseArgs } from 'node:util';
 import { InputError } from '@thermargin/shared';
 import { tripsCsv } from '../output/trips-csv.ts';
 import { textSummary } from '../output/text-summary.ts';
-import { analyzeData } from './analyze-data.ts';
-import { FLEET_DATA_OPTIONS, fleetDataProblems } from './fleet-data-args.ts';
-import { buildReport } from './report.ts';
+import { analyzeData } from '../import/analyze-data.ts';
+import { FLEET_DATA_OPTIONS, fleetDataProblems } from '../fleet-data-args.ts';
+import { buildReport } from '../output/report.ts';
 
 export const ANALYZE_USAGE = `thermargin analyze --fleet FLEET.json --data PATH [--out FILE] [--format json|csv|text]
   --fleet   fleet file (JSON): the vehicles, their cooling packages and design points

@@ -11,8 +11,8 @@ import {
 } from '@thermargin/core/sizing/options';
 import { VehicleSamples } from '@thermargin/core/sizing/vehicle-samples';
 import { sizingHtml } from '../output/sizing-html.ts';
-import { analyzeData } from './analyze-data.ts';
-import { FLEET_DATA_OPTIONS, fleetDataProblems } from './fleet-data-args.ts';
+import { analyzeData } from '../import/analyze-data.ts';
+import { FLEET_DATA_OPTIONS, fleetDataProblems } from '../fleet-data-args.ts';
 
 export const SIZING_USAGE = `thermargin sizing --fleet FLEET.json (--data PATH | --from-store) [--out RESULT.json] [--html REPORT.html] [options]
   --fleet      fleet file (JSON): the vehicles, their cooling packages and design points

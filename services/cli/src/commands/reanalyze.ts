@@ -3,9 +3,9 @@ import { InputError } from '@thermargin/shared';
 import { openSampleStore } from '@thermargin/store';
 import { createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis-store';
 import { createWorkflowStore } from '@thermargin/store/sqlite-workflow';
-import { createAnalyzer } from './analyzer.ts';
-import { readAnalyzerConfig } from './config.ts';
-import { loadFleetFile } from './fleet-file.ts';
+import { createAnalyzer } from '@thermargin/analyzer/analyzer';
+import { readAnalyzerConfig } from '@thermargin/analyzer/config';
+import { loadFleetFile } from '@thermargin/analyzer/fleet-file';
 
 export const REANALYZE_USAGE = `thermargin reanalyze [--vehicle ID] [--since DATE]
   recomputes stored results after a fleet-file or policy change (reads FLEET_FILE, STORE_*, RESULTS_SQLITE_PATH)

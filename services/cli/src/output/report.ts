@@ -1,6 +1,6 @@
 import type { AnalysisReport } from '@thermargin/shared';
 import { vehicleResult } from '@thermargin/core/vehicle-result';
-import type { AnalyzedData } from './analyze-data.ts';
+import type { AnalyzedData } from '../import/analyze-data.ts';
 
 /** The analysis report in the contract's shape, vehicles in fleet-file order, with their health. */
 export function buildReport(data: AnalyzedData): AnalysisReport & { dropped_values: Record<string, number> } {
