@@ -3,7 +3,7 @@ import { SAFETY_CAUTION } from '@thermargin/shared/safety';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { num, STATUS_WORD } from '../../web/src/format.ts';
-import { TRACE_POINTS } from '../../web/src/state/route.ts';
+import { TRACE_POINTS } from '../../web/src/state/place.ts';
 import { inspectionQueue } from '../../web/src/state/queue.ts';
 import { startWebStack, TOKENS, type WebStack } from '../support/web-stack.ts';
 import { type Browser, launchBrowser, screenshot, signedIn } from './browser.ts';

@@ -9,21 +9,21 @@ import { VehicleFile } from './screens/VehicleFile.tsx';
 import { WorkOrder } from './screens/WorkOrder.tsx';
 import { WorkshopQueue } from './screens/WorkshopQueue.tsx';
 import { LiveContext, useLiveStream } from './state/live.ts';
-import { href, type Route, useRoute } from './state/route.ts';
+import { href, type Place, usePlace } from './state/place.ts';
 import { forgetToken, type Session } from './state/session.ts';
 
-function Screen({ route, session }: { route: Route; session: Session }) {
-  switch (route.screen) {
+function Screen({ place, session }: { place: Place; session: Session }) {
+  switch (place.screen) {
     case 'fleet':
       return <FleetBoard session={session} />;
     case 'vehicle':
-      return <VehicleFile session={session} id={route.id} />;
+      return <VehicleFile session={session} id={place.id} />;
     case 'trip':
-      return <TripTrace session={session} id={route.id} trip={route.trip} points={route.points} />;
+      return <TripTrace session={session} id={place.id} trip={place.trip} points={place.points} />;
     case 'queue':
       return <WorkshopQueue session={session} />;
     case 'work-order':
-      return <WorkOrder session={session} id={route.id} />;
+      return <WorkOrder session={session} id={place.id} />;
     case 'intake':
       return <IntakeCheck session={session} />;
     case 'sizing':
@@ -31,7 +31,7 @@ function Screen({ route, session }: { route: Route; session: Session }) {
     default:
       return (
         <div class="state state-empty">
-          No screen at <code>{route.hash}</code>. <a href={href.fleet()}>Go to the fleet board</a>.
+          No screen at <code>{place.hash}</code>. <a href={href.fleet()}>Go to the fleet board</a>.
         </div>
       );
   }
@@ -40,7 +40,7 @@ function Screen({ route, session }: { route: Route; session: Session }) {
 export function App({ initial }: { initial: Session | null }) {
   const [session, setSession] = useState(initial);
   const [notice, setNotice] = useState<string | undefined>(undefined);
-  const route = useRoute();
+  const place = usePlace();
   const live = useLiveStream(session?.token ?? null);
   if (!session) return <SignIn onSession={setSession} notice={notice} />;
   const signOut = () => {
@@ -50,8 +50,8 @@ export function App({ initial }: { initial: Session | null }) {
   };
   return (
     <LiveContext.Provider value={live}>
-      <Shell session={session} route={route} onSignOut={signOut}>
-        <Screen route={route} session={session} />
+      <Shell session={session} place={place} onSignOut={signOut}>
+        <Screen place={place} session={session} />
       </Shell>
     </LiveContext.Provider>
   );

@@ -1,4 +1,5 @@
 import type { Trend } from '@thermargin/shared/api';
+import type { Powertrain } from '@thermargin/shared/fleet';
 import { CAUSE_WORD, type Cause, type Status } from '@thermargin/shared/results';
 import type { RejectReason } from '@thermargin/shared/telemetry';
 
@@ -10,6 +11,11 @@ export const STATUS_WORD: Record<Status | 'none', string> = {
   watch: 'Watch',
   inspect: 'Inspect',
   none: 'Unassessed',
+};
+export const POWERTRAIN_WORD: Record<Powertrain, string> = {
+  ice: 'engine',
+  bev: 'battery-electric',
+  fcev: 'fuel cell',
 };
 export const TREND_WORD: Record<Trend, string> = { falling: 'falling', steady: 'steady', rising: 'rising' };
 export const ACTION_WORD = {

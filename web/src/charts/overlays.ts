@@ -7,7 +7,7 @@ export interface Marker {
   dash?: number[];
 }
 
-export interface Level {
+export interface LevelLine {
   /** The uPlot scale the value is on. */
   scale: string;
   y: number;
@@ -23,7 +23,7 @@ export interface Span {
 }
 
 /** Draws shaded x spans under the series, and vertical markers and horizontal levels over them, with labels. */
-export function overlays(o: { spans?: Span[]; markers?: Marker[]; levels?: Level[] }): uPlot.Plugin {
+export function overlays(o: { spans?: Span[]; markers?: Marker[]; levels?: LevelLine[] }): uPlot.Plugin {
   const px = (v: number) => v * devicePixelRatio;
   return {
     hooks: {

@@ -1,7 +1,7 @@
 import type { ComponentChildren } from 'preact';
 import { STATUS_WORD } from '../format.ts';
 import { useLive } from '../state/live.ts';
-import { href, type Route } from '../state/route.ts';
+import { href, type Place } from '../state/place.ts';
 import type { Session } from '../state/session.ts';
 
 const NAV = [
@@ -16,12 +16,12 @@ const LIVE_WORD = { connecting: 'connecting…', live: 'live', retrying: 'reconn
 /** Header with navigation, the live stream's state and the latest status changes; then the screen. */
 export function Shell({
   session,
-  route,
+  place,
   onSignOut,
   children,
 }: {
   session: Session;
-  route: Route;
+  place: Place;
   onSignOut: () => void;
   children: ComponentChildren;
 }) {
@@ -37,7 +37,7 @@ export function Shell({
         </a>
         <nav aria-label="Screens">
           {NAV.map((n) => (
-            <a key={n.to} href={n.to} aria-current={n.screens.includes(route.screen) ? 'page' : undefined}>
+            <a key={n.to} href={n.to} aria-current={n.screens.includes(place.screen) ? 'page' : undefined}>
               {n.label}
             </a>
           ))}

@@ -2,20 +2,15 @@ import type { Powertrain } from '@thermargin/shared/fleet';
 import type { CalculatorResponse, SizingResultView } from '@thermargin/shared/sizing-api';
 import { useEffect, useState } from 'preact/hooks';
 import { ApiFailure } from '../api/client.ts';
-import { num } from '../format.ts';
+import { num, POWERTRAIN_WORD } from '../format.ts';
 import { type CalculatorForm, calculatorBody, defaultForm } from '../state/calculator.ts';
 import { useResource } from '../state/resource.ts';
-import { href } from '../state/route.ts';
+import { href } from '../state/place.ts';
 import type { Session } from '../state/session.ts';
 import { Loading } from './States.tsx';
 import { TableHead } from './TableHead.tsx';
 import { Figure } from './Figure.tsx';
 
-export const POWERTRAIN_WORD: Record<Powertrain, string> = {
-  ice: 'engine',
-  bev: 'battery-electric',
-  fcev: 'fuel cell',
-};
 const SOURCE_WORD = { given: 'as entered', field: 'from the field', default: 'default' } as const;
 
 /** ms an input waits for the next keystroke before the answer is asked for. */

@@ -2,7 +2,7 @@ import type { TripResult } from '@thermargin/shared/results';
 import { useState } from 'preact/hooks';
 import { duration, num, when } from '../format.ts';
 import { useResource } from '../state/resource.ts';
-import { href } from '../state/route.ts';
+import { href } from '../state/place.ts';
 import type { Session } from '../state/session.ts';
 import { Pager } from './Pager.tsx';
 import { rowLink } from './rowKeys.ts';

@@ -18,7 +18,7 @@ import {
 } from '../state/fleet-view.ts';
 import { useLive } from '../state/live.ts';
 import { useResource } from '../state/resource.ts';
-import { href } from '../state/route.ts';
+import { href } from '../state/place.ts';
 import type { Session } from '../state/session.ts';
 
 const PAGE = 50;

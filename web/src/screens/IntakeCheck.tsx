@@ -10,7 +10,7 @@ import { Empty, Loaded } from '../components/States.tsx';
 import { ago, num, refusalWord, when } from '../format.ts';
 import { useLive } from '../state/live.ts';
 import { useResource } from '../state/resource.ts';
-import { href } from '../state/route.ts';
+import { href } from '../state/place.ts';
 import type { Session } from '../state/session.ts';
 import { Figure } from '../components/Figure.tsx';
 

@@ -1,12 +1,12 @@
 import type { GroupSizingView, SizingResponse, SizingResultView } from '@thermargin/shared/sizing-api';
 import { DutyChart } from '../charts/duty-charts.tsx';
 import { Caution } from '../components/Caution.tsx';
-import { POWERTRAIN_WORD, SizingCalculator } from '../components/SizingCalculator.tsx';
+import { SizingCalculator } from '../components/SizingCalculator.tsx';
 import { Empty, Loaded } from '../components/States.tsx';
-import { num, when } from '../format.ts';
+import { num, POWERTRAIN_WORD, when } from '../format.ts';
 import { useLive } from '../state/live.ts';
 import { useResource } from '../state/resource.ts';
-import { href } from '../state/route.ts';
+import { href } from '../state/place.ts';
 import type { Session } from '../state/session.ts';
 import { TableHead } from '../components/TableHead.tsx';
 import { Figure } from '../components/Figure.tsx';

@@ -6,7 +6,7 @@ import { Loaded } from '../components/States.tsx';
 import { StatusMark } from '../components/StatusMark.tsx';
 import { duration, num, when } from '../format.ts';
 import { useResource } from '../state/resource.ts';
-import { href } from '../state/route.ts';
+import { href } from '../state/place.ts';
 import type { Session } from '../state/session.ts';
 import { Figure } from '../components/Figure.tsx';
 

@@ -9,7 +9,7 @@ import { TripList } from '../components/TripList.tsx';
 import { ACTION_WORD, CAUSE_WORD, causeWord, num, when } from '../format.ts';
 import { useLive } from '../state/live.ts';
 import { useResource } from '../state/resource.ts';
-import { href } from '../state/route.ts';
+import { href } from '../state/place.ts';
 import { canWrite, type Session } from '../state/session.ts';
 import { Figure } from '../components/Figure.tsx';
 

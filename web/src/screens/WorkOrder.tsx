@@ -2,7 +2,7 @@ import { Caution } from '../components/Caution.tsx';
 import { Loaded } from '../components/States.tsx';
 import { ACTION_WORD, causeWord, num, RECOMMENDATION, when } from '../format.ts';
 import { useResource } from '../state/resource.ts';
-import { href } from '../state/route.ts';
+import { href } from '../state/place.ts';
 import type { Session } from '../state/session.ts';
 import { Figures } from './VehicleFile.tsx';
 

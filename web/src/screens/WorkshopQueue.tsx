@@ -10,7 +10,7 @@ import { causeWord, num, RECOMMENDATION, when } from '../format.ts';
 import { useLive } from '../state/live.ts';
 import { inspectionQueue } from '../state/queue.ts';
 import { useResource } from '../state/resource.ts';
-import { href } from '../state/route.ts';
+import { href } from '../state/place.ts';
 import { canWrite, type Session } from '../state/session.ts';
 
 const PAGE = 10;

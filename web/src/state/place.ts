@@ -1,7 +1,7 @@
 import { useEffect, useState } from 'preact/hooks';
 
 /** Screens by deep link: `#/fleet`, `#/vehicle/<id>`, `#/trip/<id>/<trip>`, `#/queue`, `#/work-order/<id>`, `#/intake`, `#/sizing`. */
-export type Route =
+export type Place =
   | { screen: 'fleet' }
   | { screen: 'vehicle'; id: string }
   | { screen: 'trip'; id: string; trip: string; points: number }
@@ -14,7 +14,7 @@ export type Route =
 /** points per signal asked of the API by default; `?points=` in the link overrides (10…20 000). */
 export const TRACE_POINTS = 4000;
 
-export function parseRoute(hash: string): Route {
+export function parsePlace(hash: string): Place {
   const [path = '', query = ''] = hash.replace(/^#/, '').split('?');
   const parts = path.split('/').filter(Boolean).map(decodeURIComponent);
   const [head, a, b] = parts;
@@ -46,12 +46,12 @@ export const go = (to: string): void => {
   location.hash = to;
 };
 
-export function useRoute(): Route {
-  const [route, setRoute] = useState(() => parseRoute(location.hash));
+export function usePlace(): Place {
+  const [place, setPlace] = useState(() => parsePlace(location.hash));
   useEffect(() => {
-    const on = () => setRoute(parseRoute(location.hash));
+    const on = () => setPlace(parsePlace(location.hash));
     addEventListener('hashchange', on);
     return () => removeEventListener('hashchange', on);
   }, []);
-  return route;
+  return place;
 }
