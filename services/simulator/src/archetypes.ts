@@ -4,7 +4,7 @@ import type { Powertrain } from '@thermargin/shared';
 export type Range = readonly [number, number] | number;
 
 /** Which trips a vehicle type runs: segment patterns drawn per trip (see schedule.ts). */
-export interface DutyCycle {
+export interface ServicePattern {
   /** Operating days per week (0 = Sunday … 6 = Saturday). */
   days_of_week: readonly number[];
   /** Trips per operating day (2–6 in the default fleet). */
@@ -81,7 +81,7 @@ export interface Archetype {
   /** h: time constant of the parked loop cooling to ambient. */
   soak_tau_h: number;
   route_max_ambient_c: number;
-  duty: DutyCycle;
+  duty: ServicePattern;
 }
 
 export const ARCHETYPES: Readonly<Record<Archetype['key'], Archetype>> = {

@@ -1,9 +1,8 @@
-import type { DutyCycle } from './archetypes.ts';
+import { DAY_MS } from '@thermargin/shared/time';
+import type { ServicePattern } from './archetypes.ts';
 import { buildDrive, type CycleKind, type Drive, type Segment } from './cycles.ts';
 import { hashKey, type Rng, streamFor } from '@thermargin/core/stats/prng';
 import type { SimVehicle } from './vehicle.ts';
-
-export const DAY_MS = 86_400_000;
 
 /** One planned trip: when, what the driver asks for, and the load carried. */
 export interface TripPlan {
@@ -27,7 +26,7 @@ const SEGMENT_MIN: Record<Exclude<CycleKind, 'idle'>, readonly [number, number]>
   grades: [8, 16],
 };
 
-function pickKind(mix: DutyCycle['mix'], rng: Rng): CycleKind {
+function pickKind(mix: ServicePattern['mix'], rng: Rng): CycleKind {
   const total = mix.urban + mix.highway + mix.grades + mix.idle;
   let r = rng.uniform(0, total);
   for (const k of ['urban', 'highway', 'grades'] as const) {
@@ -38,8 +37,8 @@ function pickKind(mix: DutyCycle['mix'], rng: Rng): CycleKind {
 }
 
 /** Segments filling about `duration_s`: a short urban pull-out, then kinds drawn by the duty mix. */
-export function composeTrip(d: DutyCycle, duration_s: number, rng: Rng): Segment[] {
-  const aux = (r: DutyCycle['idle_aux_kw']) => (typeof r === 'number' ? r : rng.uniform(r[0], r[1]));
+export function composeTrip(d: ServicePattern, duration_s: number, rng: Rng): Segment[] {
+  const aux = (r: ServicePattern['idle_aux_kw']) => (typeof r === 'number' ? r : rng.uniform(r[0], r[1]));
   const segs: Segment[] = [
     { kind: 'urban', duration_s: rng.int(180, 360), speed_kmh: d.urban_kmh, grade_pct: 0, aux_kw: 0 },
   ];
