@@ -1,3 +1,4 @@
+import { DAY_MS } from '@thermargin/shared/time';
 /**
  * `npm run bench:api`: latency and rate of the API's heaviest reads with 1 000 vehicles × a year of trips
  * in the results store, beside a trivial route's rate in the same run, and the analyzer's backlog
@@ -37,7 +38,6 @@ const REQUESTS = Number(process.env.BENCH_REQUESTS ?? 2000);
 /** requests in flight: 1 for latency (no queueing in the figures), 16 for the rate. */
 const CONCURRENCY = [1, 16] as const;
 const PATTERNS = 10;
-const DAY_MS = 86_400_000;
 const T0 = Date.UTC(2025, 6, 1);
 const fmt = (x: number) => Math.round(x).toLocaleString('en-US');
 const iso = (ms: number) => new Date(ms).toISOString().replace(/\.000Z$/, 'Z');

@@ -1,10 +1,11 @@
+import { DAY_MS } from '@thermargin/shared/time';
 import type { Alert, Cause, Status, TripResult } from '@thermargin/shared';
 import { CAUSE_WORD } from '@thermargin/shared/results';
 import { median } from '../stats/quantile.ts';
 import type { Band } from '../trip/bands.ts';
 import { designBand } from '../trip/design-point.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
-import { BandMonitor, DAY_MS } from './band-monitor.ts';
+import { BandMonitor } from './band-monitor.ts';
 import { type Candidate, FAN_OVER_RAM, type FanStep, fallZ, rankCauses } from './causes.ts';
 import { EvidenceTracker } from './cause-evidence.ts';
 import { currentLevel } from './level.ts';

@@ -1,3 +1,4 @@
+import { DAY_MS } from '@thermargin/shared/time';
 import { median } from '../stats/quantile.ts';
 import { shiftStart } from '../stats/change-point.ts';
 import { createCusum, type Cusum } from '../stats/cusum.ts';
@@ -7,8 +8,6 @@ import type { Band } from '../trip/bands.ts';
 import { currentLevel, type Level } from './level.ts';
 import { lowerBound } from '@thermargin/shared/array-index';
 import type { HealthOptions } from './options.ts';
-
-export const DAY_MS = 86_400_000;
 
 /** One valid trip of a band. */
 export interface BandPoint {

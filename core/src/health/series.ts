@@ -1,6 +1,6 @@
+import { DAY_MS } from '@thermargin/shared/time';
 import type { Band } from '../trip/bands.ts';
 import type { BandMonitor } from './band-monitor.ts';
-import { DAY_MS } from './band-monitor.ts';
 import { median } from '../stats/quantile.ts';
 import type { HealthOptions } from './options.ts';
 import type { Projection } from './projection.ts';

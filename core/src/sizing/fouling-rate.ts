@@ -1,3 +1,4 @@
+import { DAY_MS } from '@thermargin/shared/time';
 import type { TripResult } from '@thermargin/shared';
 import { rebaselineTimes_ms } from '../health/rebaseline.ts';
 import { marginPct } from '../radiator/rating.ts';
@@ -9,7 +10,6 @@ import type { VehicleModel } from '../vehicle/resolve.ts';
 import type { SizingOptions } from './options.ts';
 import { tripK } from './trip-k.ts';
 
-const DAY_MS = 86_400_000;
 /** days: mean Gregorian month, 365.2425 / 12. */
 export const MONTH_DAYS = 30.436875;
 

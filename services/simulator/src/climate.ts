@@ -1,3 +1,4 @@
+import { DAY_MS } from '@thermargin/shared/time';
 import { hashKey } from '@thermargin/core/stats/prng';
 
 /**
@@ -32,7 +33,6 @@ export const CLIMATE_DEFAULTS: Readonly<ClimateOptions> = Object.freeze({
   hottest_ms: null,
 });
 
-const DAY_MS = 86_400_000;
 const YEAR_MS = 365.25 * DAY_MS;
 
 export type Climate = (t_ms: number) => number;

@@ -1,3 +1,4 @@
+import { DAY_MS } from '@thermargin/shared/time';
 import { ARCHETYPES, type Archetype } from './archetypes.ts';
 import type { FaultSpec, MaintenanceEvent } from './faults.ts';
 import type { SensorFit } from './sensors.ts';
@@ -61,8 +62,6 @@ export function demoRoster(count: number): RosterEntry[] {
   }
   return out;
 }
-
-const DAY_MS = 86_400_000;
 
 /** When things happen, as shares of the history (so a short history keeps every event inside it). */
 export interface Timeline {

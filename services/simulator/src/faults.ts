@@ -1,7 +1,6 @@
+import { DAY_MS } from '@thermargin/shared/time';
 import type { MaintenanceAction } from '@thermargin/shared';
 import type { RadiatorCondition } from './radiator.ts';
-
-const DAY_MS = 86_400_000;
 
 /** Telemetry signals a sensor fault can hit. */
 export type SensorSignal = 'coolant_in_c' | 'coolant_out_c' | 'ambient_c' | 'coolant_flow_lpm';

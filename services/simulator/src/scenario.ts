@@ -1,3 +1,4 @@
+import { DAY_MS } from '@thermargin/shared/time';
 import {
   type FleetInput,
   fleetSchema,
@@ -9,7 +10,6 @@ import { CLIMATE_DEFAULTS, type Climate, type ClimateOptions, createClimate } fr
 import { demoVehicles, roleEvents } from './default-fleet.ts';
 import type { FaultSpec, MaintenanceEvent } from './faults.ts';
 import { mergeByTime } from './merge.ts';
-import { DAY_MS } from './schedule.ts';
 import { type SimTrip, type StreamContext, vehicleSampleStream, vehicleTrips } from './vehicle-stream.ts';
 import type { SimVehicle } from './vehicle.ts';
 

@@ -1,3 +1,4 @@
+import { DAY_MS } from '@thermargin/shared/time';
 import {
   ColumnBuilder,
   NUMERIC_COLUMNS,
@@ -38,7 +39,6 @@ export const LEG = { ram_s: 1200, fan_s: 600, step_s: 2, ram_kmh: 85, fan_kmh: 1
 const TARGET_C = 74;
 /** –: heat drawn uniformly within ±20 % of the set level. */
 export const HEAT_SPREAD = 0.2;
-const DAY_MS = 86_400_000;
 export const START_MS = Date.UTC(2025, 4, 1, 8);
 
 export const BASE_CONFIG = {

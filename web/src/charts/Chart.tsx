@@ -1,3 +1,4 @@
+import { DAY_MS } from '@thermargin/shared/time';
 import { useEffect, useRef } from 'preact/hooks';
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
@@ -33,7 +34,6 @@ const axisStyle = { stroke: INK.axis, grid: { stroke: INK.grid, width: 1 }, tick
 /** x is epoch ms shown in UTC. */
 const utc = (ms: number) => uPlot.tzDate(new Date(ms), 'Etc/UTC');
 
-const DAY_MS = 86_400_000;
 const pad2 = (n: number) => String(n).padStart(2, '0');
 
 /**

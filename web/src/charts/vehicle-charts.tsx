@@ -1,3 +1,4 @@
+import { DAY_MS } from '@thermargin/shared/time';
 import type { HealthSeriesView, MaintenanceView } from '@thermargin/shared/api';
 import type { VehicleConfigInput } from '@thermargin/shared/fleet';
 import { useMemo } from 'preact/hooks';
@@ -8,7 +9,6 @@ import { type Marker, overlays } from './overlays.ts';
 import { DASH, INK, SHADE } from './palette.ts';
 
 type Col = (number | null)[];
-const DAY_MS = 86_400_000;
 const pct = (c: Col): Col => c.map((v) => (v === null ? null : v * 100));
 const dots = (label: string, stroke: string, shape: 'circle' | 'square' = 'circle'): uPlot.Series => ({
   label,
