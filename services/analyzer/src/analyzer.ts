@@ -1,4 +1,5 @@
 import type { MaintenanceEntry, Status, TripResult } from '@thermargin/shared';
+import type { Logger } from '@thermargin/shared/log';
 import type { SampleStore } from '@thermargin/store';
 import type { AnalysisStore } from '@thermargin/store/sqlite-analysis-store';
 import { tripGoingOn } from '@thermargin/core/trip/split';
@@ -6,8 +7,6 @@ import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
 import { type AnalysisState, catchUpVehicle } from './catch-up.ts';
 import { assessAndCommit } from './commit.ts';
 import { ANALYZER_DEFAULTS, type AnalyzerOptions } from './options.ts';
-
-export type Logger = (event: string, detail?: Record<string, unknown>) => void;
 
 export interface AnalyzerDeps {
   samples: SampleStore;

@@ -1,3 +1,4 @@
+import type { Logger } from '@thermargin/shared/log';
 import type { AnalyzerStats } from '@thermargin/analyzer/analyzer';
 import type { LoadedFleet } from '@thermargin/analyzer/fleet-file';
 import type { SampleStore } from '@thermargin/store';
@@ -24,7 +25,7 @@ export interface ApiDeps {
   /** An analyzer in the same process: its stats go to /api/status, fleet changes re-analyse through it. */
   analyzer?: { stats: AnalyzerStats; reanalyze(scope: { vehicle?: string }): Promise<void> };
   clock?: () => number;
-  log?: (event: string, detail?: Record<string, unknown>) => void;
+  log?: Logger;
   /** The built dashboard (web/dist); served with SPA fallback when the folder exists. */
   web_dist?: string;
   /** Origins allowed by CORS; none (the default) means no CORS headers at all. */

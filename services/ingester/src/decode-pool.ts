@@ -1,4 +1,5 @@
 import { Worker } from 'node:worker_threads';
+import type { Logger } from '@thermargin/shared/log';
 import type { DeadLetter } from '@thermargin/store';
 import { type DecodeContext, type Decoded, safeDecode } from './decode.ts';
 import { type PackedSamples, unpackSamples } from './sample-pack.ts';
@@ -48,7 +49,7 @@ export class DecodePool {
   constructor(
     size: number,
     private readonly ctx: Omit<DecodeContext, 'now_ms'>,
-    private readonly log: (event: string, detail?: Record<string, unknown>) => void,
+    private readonly log: Logger,
   ) {
     this.data = { known_vehicles: [...ctx.known_vehicles], max_payload_bytes: ctx.max_payload_bytes };
     for (let i = 0; i < size; i++) this.slots.push(this.spawn());

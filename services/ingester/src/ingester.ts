@@ -1,5 +1,6 @@
 import type { Server } from 'node:http';
 import { SAMPLE_TOPIC_FILTER, sharedSampleFilter } from '@thermargin/shared';
+import type { Logger } from '@thermargin/shared/log';
 import type { SampleStore } from '@thermargin/store';
 import mqtt, { type IClientOptions, type MqttClient } from 'mqtt';
 import type { IngesterConfig } from './config.ts';
@@ -8,8 +9,6 @@ import { type Decoded, safeDecode } from './decode.ts';
 import { IngestMetrics, serverPort, startMetricsServer } from './metrics.ts';
 import { PIPELINE_DEFAULTS, Pipeline } from './pipeline.ts';
 import { Spool } from './spool.ts';
-
-export type Logger = (event: string, detail?: Record<string, unknown>) => void;
 
 export interface IngesterDeps {
   store: SampleStore;

@@ -1,11 +1,12 @@
 import { readFileSync } from 'node:fs';
+import type { Logger } from '@thermargin/shared/log';
 import { fleetSchema, parseOrThrow } from '@thermargin/shared';
 import { openSampleStore } from '@thermargin/store';
 import { readIngesterConfig } from './config.ts';
 import { createIngester } from './ingester.ts';
 
 /** `node --import tsx services/ingester/src/main.ts`: configured by env vars (see README.md). */
-const log = (event: string, detail: Record<string, unknown> = {}) =>
+const log: Logger = (event, detail) =>
   process.stderr.write(`${JSON.stringify({ time: new Date().toISOString(), event, ...detail })}\n`);
 
 const config = readIngesterConfig();

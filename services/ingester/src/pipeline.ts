@@ -1,5 +1,6 @@
 import { setTimeout as sleep } from 'node:timers/promises';
 import type { Sample } from '@thermargin/shared';
+import type { Logger } from '@thermargin/shared/log';
 import type { DeadLetter, SampleStore } from '@thermargin/store';
 import type { IngestMetrics } from './metrics.ts';
 import type { Spool, SpoolBatch } from './spool.ts';
@@ -54,7 +55,7 @@ export class Pipeline {
     private readonly options: PipelineOptions,
     /** how many deliveries can be in flight at once (connections up) */
     private readonly inFlightLimit: () => number,
-    private readonly log: (event: string, detail?: Record<string, unknown>) => void,
+    private readonly log: Logger,
   ) {
     this.gauges();
     if (spool.segments > 0) this.drain();

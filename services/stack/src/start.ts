@@ -6,6 +6,7 @@ import { startApi } from '@thermargin/api/start';
 import { openSampleStore } from '@thermargin/store';
 import { createScenario, publishScenario } from '@thermargin/simulator';
 import { type Sample, SAFETY_CAUTION } from '@thermargin/shared';
+import type { Logger } from '@thermargin/shared/log';
 import { brokerUsers, INGESTER_USER, loadDemoState } from './demo-state.ts';
 import { historyFeed, liveFeed } from './feed.ts';
 import { readStackConfig } from './stack-config.ts';
@@ -14,8 +15,8 @@ import { ensureWebBuilt } from './web-build.ts';
 const ROOT = resolve(import.meta.dirname, '../../..');
 const log = (line: string) => process.stderr.write(`${line}\n`);
 /** Service logs are JSON lines; only warnings and errors reach the console. */
-const serviceLog = (event: string, detail?: Record<string, unknown>) => {
-  if (/error|fail|reject|spool|retry/i.test(event)) log(`  ${event} ${JSON.stringify(detail ?? {})}`);
+const serviceLog: Logger = (event, detail) => {
+  if (/error|fail|reject|spool|retry/i.test(event)) log(`  ${event} ${JSON.stringify(detail)}`);
 };
 
 /**

@@ -1,0 +1,31 @@
+/**
+ * Every event the services log, with its detail: one map, so a call with a misspelt event or a missing
+ * field fails to compile, and an operator finds every line a deployment can write in one place. Each is
+ * written as one JSON line, `{"event": …, …detail}` (stderr by default).
+ */
+export interface LogEvents {
+  // ingester
+  ingester_started: { filter: string; connections: number; store: string };
+  ingester_stopped: { acked: number; spool_segments: number };
+  mqtt_error: { client: string | undefined; error: string };
+  subscribe_refused: { client: string | undefined; filter: string; error: string };
+  decode_worker_error: { error: string };
+  decode_worker_exit: { code: number; replaced: boolean };
+  pipeline_error: { error: string };
+  store_down: { error: string };
+  store_up: { spool_segments: number };
+  metrics: { port: number | undefined };
+  shutdown: { signal: string };
+  // analyzer
+  analyzer_error: { error: string };
+  // API
+  api_error: { path: string; error: string };
+  api_store_unavailable: { path: string; error: string };
+  events_poll_failed: { error: string };
+  reanalyze_failed: { vehicle: string; error: string };
+}
+
+export type LogEvent = keyof LogEvents;
+
+/** Where a service sends its events. */
+export type Logger = <E extends LogEvent>(event: E, detail: LogEvents[E]) => void;
