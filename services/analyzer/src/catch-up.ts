@@ -1,11 +1,10 @@
-import type { TripResult } from '@thermargin/shared';
+import { sliceColumns, type TripResult } from '@thermargin/shared';
 import type { SampleStore, VehicleSpan } from '@thermargin/store';
 import type { StoredAnalysis } from '@thermargin/store/sqlite-analysis-store';
 import { analyzeVehicle } from '@thermargin/core/analyze';
 import { startsTrip, tripGoingOn } from '@thermargin/core/trip/split';
 import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
 import type { AnalyzerOptions } from './options.ts';
-import { sliceColumns } from './slice.ts';
 
 export type AnalysisState = Pick<
   StoredAnalysis,
