@@ -1,5 +1,6 @@
 import { DAY_MS } from '@thermargin/shared/time';
 import type { MaintenanceAction } from '@thermargin/shared';
+import { foulingResistance } from '@thermargin/core/stats/kern-seaton';
 import type { RadiatorCondition } from './radiator.ts';
 
 /** Telemetry signals a sensor fault can hit. */
@@ -82,17 +83,6 @@ export function fixedAt_ms(f: FaultSpec, events: readonly MaintenanceEvent[]): n
   return best;
 }
 
-/** m²·K/W: the Kern–Seaton fouling resistance at time t. Example: R* 2e-4, τ 500 h, t = 500 h → 1.2642e-4. */
-export function foulingResistance_m2k_w(
-  r_star: number,
-  tau_ms: number,
-  t_ms: number,
-  initial_share = 0,
-): number {
-  if (t_ms <= 0) return r_star * initial_share;
-  return r_star * (1 - (1 - initial_share) * Math.exp(-t_ms / tau_ms));
-}
-
 /** Physical state of one vehicle's loop at time t from its faults and maintenance. */
 export interface PhysicalCondition extends RadiatorCondition {
   /** –: coolant pump flow kept. */
@@ -122,7 +112,7 @@ export function physicalCondition(
           share = 0;
         }
       }
-      const r = foulingResistance_m2k_w(f.r_star_m2k_w, f.tau_days * DAY_MS, t_ms - since, share);
+      const r = foulingResistance(t_ms - since, f.r_star_m2k_w, f.tau_days * DAY_MS, share);
       c.fouling_r_m2k_w += r;
       c.airflow_factor *= 1 - f.airflow_loss * (r / f.r_star_m2k_w);
       continue;

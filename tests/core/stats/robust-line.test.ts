@@ -54,6 +54,13 @@ describe('Kern–Seaton asymptotic fouling (check-values §5, COMPUTED)', () => 
     expect(Math.abs(foulingResistance(1500, 2e-4, 500) - 1.9004e-4)).toBeLessThan(5e-9);
     expect(foulingResistance(500, 2e-4, 500) / 2e-4).toBeCloseTo(0.63212, 5);
   });
+  it('from a deposit already there: R*·(1 − (1 − s)·e^{−t/τ}), s·R* at and before t = 0', () => {
+    // s 0.5, t = τ: 1 − 0.5·e^{−1} = 0.81606 of R*.
+    expect(foulingResistance(500, 2e-4, 500, 0.5) / 2e-4).toBeCloseTo(0.81606, 5);
+    expect(foulingResistance(0, 2e-4, 500, 0.5)).toBe(1e-4);
+    expect(foulingResistance(-10, 2e-4, 500, 0.5)).toBe(1e-4);
+    expect(foulingResistance(-10, 2e-4, 500)).toBe(0);
+  });
   it('fit recovers c, b, τ from noise-free data, and flags a straight line as at_bound', () => {
     const t = Array.from({ length: 30 }, (_, i) => i * 4);
     const f = fitKernSeaton(

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { foulingResistance_m2k_w, physicalCondition } from '../../../services/simulator/src/faults.ts';
+import { physicalCondition } from '../../../services/simulator/src/faults.ts';
 import { airsideK_w_m2k } from '../../../services/simulator/src/radiator.ts';
 import { createScenario } from '../../../services/simulator/src/scenario.ts';
 import type { TripTruth } from '../../../services/simulator/src/truth.ts';
@@ -32,14 +32,6 @@ const ram = (t: TripTruth, i: number) => t.speed_kmh[i]! >= 60 && t.fan_pct[i]! 
 const fan = (t: TripTruth, i: number) => t.speed_kmh[i]! <= 20 && t.fan_pct[i]! >= 80;
 
 describe('fouling', () => {
-  it('follows Kern & Seaton', () => {
-    // check-values §5 (COMPUTED): R* 2e-4 m²K/W, τ 500 h → 1.2642e-4, 1.7293e-4, 1.9004e-4
-    const h = 3_600_000;
-    expect(foulingResistance_m2k_w(2e-4, 500 * h, 500 * h)).toBeCloseTo(1.2642e-4, 8);
-    expect(foulingResistance_m2k_w(2e-4, 500 * h, 1000 * h)).toBeCloseTo(1.7293e-4, 8);
-    expect(foulingResistance_m2k_w(2e-4, 500 * h, 1500 * h)).toBeCloseTo(1.9004e-4, 8);
-  });
-
   it('lowers effective k gradually and asymptotically, to inspect level within the history', () => {
     const v = vehicle('bus-02');
     const days = Array.from({ length: 11 }, (_, d) => demo.history.from_ms + d * DAY);
