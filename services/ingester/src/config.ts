@@ -1,13 +1,9 @@
 import { hostname } from 'node:os';
 import { DEFAULT_MAX_PAYLOAD_BYTES, DEFAULT_SHARE_GROUP } from '@thermargin/shared';
 import { type Env, envReader } from '@thermargin/shared/env';
-import type { StoreConfig } from '@thermargin/store';
+import { readStoreConfig, type StoreConfig } from '@thermargin/store/config';
 import { PIPELINE_DEFAULTS } from './pipeline.ts';
 
-/**
- * The environment variables the ingester reads: the one list (docker-compose.yml and the README are
- * checked against it). Each default is defined once, in `readIngesterConfig`.
- */
 /**
  * MQTT connections per replica. Each carries one message per store write, so this sets how many samples
  * are in flight: with 250-sample messages, 48 keep InfluxDB's writes near its best batch size (16 left
@@ -15,6 +11,11 @@ import { PIPELINE_DEFAULTS } from './pipeline.ts';
  */
 export const DEFAULT_CONNECTIONS = 48;
 
+/**
+ * The environment variables the ingester reads besides the store's STORE_* (services/store): the one
+ * list (docker-compose.yml and the README are checked against both). Each default is defined once, in
+ * `readIngesterConfig`.
+ */
 export const ENV = {
   MQTT_URL: 'INGEST_MQTT_URL',
   MQTT_USERNAME: 'INGEST_MQTT_USERNAME',
@@ -33,18 +34,6 @@ export const ENV = {
   SPOOL_MAX_BYTES: 'INGEST_SPOOL_MAX_BYTES',
   METRICS_PORT: 'INGEST_METRICS_PORT',
   METRICS_HOST: 'INGEST_METRICS_HOST',
-  STORE: 'STORE_KIND',
-  SQLITE_PATH: 'STORE_SQLITE_PATH',
-  SQLITE_SYNCHRONOUS: 'STORE_SQLITE_SYNCHRONOUS',
-  INFLUX_URL: 'STORE_INFLUX_URL',
-  INFLUX_API: 'STORE_INFLUX_API',
-  INFLUX_ORG: 'STORE_INFLUX_ORG',
-  INFLUX_BUCKET: 'STORE_INFLUX_BUCKET',
-  INFLUX_TOKEN: 'STORE_INFLUX_TOKEN',
-  INFLUX_DATABASE: 'STORE_INFLUX_DATABASE',
-  INFLUX_RETENTION_POLICY: 'STORE_INFLUX_RETENTION_POLICY',
-  INFLUX_USERNAME: 'STORE_INFLUX_USERNAME',
-  INFLUX_PASSWORD: 'STORE_INFLUX_PASSWORD',
 } as const;
 
 export interface IngesterConfig {
@@ -80,40 +69,7 @@ export interface IngesterConfig {
 export function readIngesterConfig(env: Env = process.env): IngesterConfig {
   const problems: string[] = [];
   const { str, int, oneOf } = envReader(env, problems);
-
-  const kind = oneOf(ENV.STORE, ['sqlite', 'influx'] as const, 'sqlite');
-  const store: StoreConfig =
-    kind === 'sqlite'
-      ? {
-          kind,
-          path: str(ENV.SQLITE_PATH, 'data/thermargin.db'),
-          synchronous: oneOf(ENV.SQLITE_SYNCHRONOUS, ['full', 'normal'] as const, 'full'),
-        }
-      : influxConfig();
-
-  function influxConfig(): StoreConfig {
-    const api = oneOf(ENV.INFLUX_API, ['v2', 'v1'] as const, 'v2');
-    const url = str(ENV.INFLUX_URL, 'http://127.0.0.1:8086');
-    if (api === 'v2') {
-      return {
-        kind: 'influx',
-        api,
-        url,
-        org: str(ENV.INFLUX_ORG),
-        bucket: str(ENV.INFLUX_BUCKET),
-        token: str(ENV.INFLUX_TOKEN),
-      };
-    }
-    return {
-      kind: 'influx',
-      api,
-      url,
-      database: str(ENV.INFLUX_DATABASE),
-      retention_policy: str(ENV.INFLUX_RETENTION_POLICY, ''),
-      username: str(ENV.INFLUX_USERNAME, '') || undefined,
-      password: str(ENV.INFLUX_PASSWORD, '') || undefined,
-    };
-  }
+  const store = readStoreConfig(env, problems);
 
   const config: IngesterConfig = {
     mqtt: {

@@ -1,5 +1,6 @@
 import { existsSync, readFileSync } from 'node:fs';
 import { DEFAULT_CONNECTIONS, ENV, readIngesterConfig } from '@thermargin/ingester/config';
+import { STORE_ENV } from '@thermargin/store/config';
 import { describe, expect, it } from 'vitest';
 
 /**
@@ -37,7 +38,7 @@ describe('docker-compose.yml', () => {
   });
 
   it('runs each ingester with the real entry point and only env vars the config module reads', () => {
-    const known = new Set<string>(Object.values(ENV));
+    const known = new Set<string>([...Object.values(ENV), ...Object.values(STORE_ENV)]);
     const init = compose.services.influxdb!.environment!;
     const ids = new Set<string>();
     for (const [, s] of ingesters) {
@@ -68,7 +69,7 @@ describe('readIngesterConfig', () => {
   });
   it('names every bad variable', () => {
     const bad = () =>
-      readIngesterConfig({ [ENV.CONNECTIONS]: 'many', [ENV.STORE]: 'mongo', [ENV.MQTT_PROTOCOL]: '4' });
+      readIngesterConfig({ [ENV.CONNECTIONS]: 'many', [STORE_ENV.KIND]: 'mongo', [ENV.MQTT_PROTOCOL]: '4' });
     for (const rule of [
       /INGEST_CONNECTIONS must be an integer ≥ 1 \(got "many"\)/,
       /STORE_KIND must be one of sqlite, influx/,

@@ -1,5 +1,6 @@
 import { join } from 'node:path';
 import { ENV } from '@thermargin/ingester/config';
+import { STORE_ENV } from '@thermargin/store/config';
 import { type SampleStore, createInfluxStore, createSqliteStore } from '@thermargin/store';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { type InfluxServer, startInflux } from '../../support/servers/influx.ts';
@@ -40,10 +41,10 @@ async function influxStore(database: string): Promise<SampleStore> {
 }
 
 const influxEnv = (database: string) => ({
-  [ENV.STORE]: 'influx',
-  [ENV.INFLUX_API]: 'v1',
-  [ENV.INFLUX_URL]: influx.url,
-  [ENV.INFLUX_DATABASE]: database,
+  [STORE_ENV.KIND]: 'influx',
+  [STORE_ENV.INFLUX_API]: 'v1',
+  [STORE_ENV.INFLUX_URL]: influx.url,
+  [STORE_ENV.INFLUX_DATABASE]: database,
 });
 
 function env(name: string, store: Record<string, string>, client = name) {
@@ -65,7 +66,9 @@ function report(fault: string, a: Audit, extra: Record<string, number> = {}) {
 describe('faults: 0 samples lost, 0 duplicates stored', () => {
   it('ingester killed with SIGKILL mid-stream and restarted (child process, SQLite)', async () => {
     const path = join(dir, 'sigkill.db');
-    const proc = new IngesterProcess(env('sigkill', { [ENV.STORE]: 'sqlite', [ENV.SQLITE_PATH]: path }));
+    const proc = new IngesterProcess(
+      env('sigkill', { [STORE_ENV.KIND]: 'sqlite', [STORE_ENV.SQLITE_PATH]: path }),
+    );
     await proc.start();
     const stream = fleetStream(IDS, 3000);
     let killed = 0;
