@@ -27,7 +27,7 @@ import { createScenario } from '@thermargin/simulator';
 import { resolveFleet } from '@thermargin/core/vehicle/resolve';
 import { vehicleResult } from '@thermargin/core/vehicle-result';
 import { analyzeVehicle } from '@thermargin/core/analyze';
-import { ANALYZER_DEFAULTS } from '@thermargin/analyzer/options';
+import { READ_DEFAULTS } from '@thermargin/usecases/options';
 import { serve } from '@hono/node-server';
 import { BUS_CONFIG } from '../support/vehicle-fixture.ts';
 
@@ -269,7 +269,7 @@ async function backlog(dir: string): Promise<void> {
   const models = new Map(resolveFleet(scenario.fleet).map((m) => [m.id, m]));
   const spans = await samples.listVehicles();
   // The store read alone, in the analyzer's ranges, and the core alone on what it read.
-  const chunk = ANALYZER_DEFAULTS.chunk_ms;
+  const chunk = READ_DEFAULTS.chunk_ms;
   const tr = performance.now();
   const cr = process.cpuUsage();
   const read = [];

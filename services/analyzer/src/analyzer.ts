@@ -4,8 +4,8 @@ import type { SampleStore } from '@thermargin/store';
 import type { AnalysisStore } from '@thermargin/store/sqlite-analysis-store';
 import { tripGoingOn } from '@thermargin/core/trip/split';
 import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
-import { type AnalysisState, catchUpVehicle } from './catch-up.ts';
-import { assessAndCommit } from './commit.ts';
+import { type AnalysisProgress, assessAndCommit, noProgress } from '@thermargin/usecases/commit';
+import { catchUpVehicle } from './catch-up.ts';
 import { ANALYZER_DEFAULTS, type AnalyzerOptions } from './options.ts';
 
 export interface AnalyzerDeps {
@@ -55,8 +55,6 @@ export interface Analyzer {
   stop(): Promise<void>;
 }
 
-const FRESH: AnalysisState = { analysed_to_ms: 0, previous_end_ms: null, last_trip: null, rejected: {} };
-
 export function createAnalyzer(deps: AnalyzerDeps, options: Partial<AnalyzerOptions> = {}): Analyzer {
   const o = { ...ANALYZER_DEFAULTS, ...options };
   const clock = deps.clock ?? Date.now;
@@ -90,7 +88,7 @@ export function createAnalyzer(deps: AnalyzerDeps, options: Partial<AnalyzerOpti
       if (!model || (scope.vehicle !== undefined && span.vehicle !== scope.vehicle)) continue;
       const prev = deps.results.readAnalysis(span.vehicle);
       const redo = scope.since_ms !== undefined;
-      let start: AnalysisState = prev ?? { ...FRESH, analysed_to_ms: span.first_ms };
+      let start: AnalysisProgress = prev ?? { ...noProgress(), analysed_to_ms: span.first_ms };
       let delete_from_ms: number | undefined;
       if (redo) {
         const since = Math.max(scope.since_ms!, span.first_ms);

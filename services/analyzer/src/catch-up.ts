@@ -1,21 +1,16 @@
 import { sliceColumns, type TripResult } from '@thermargin/shared';
 import type { SampleStore, VehicleSpan } from '@thermargin/store';
-import type { StoredAnalysis } from '@thermargin/store/sqlite-analysis-store';
 import { analyzeVehicle } from '@thermargin/core/analyze';
 import { startsTrip, tripGoingOn } from '@thermargin/core/trip/split';
 import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
+import type { AnalysisProgress } from '@thermargin/usecases/commit';
 import type { AnalyzerOptions } from './options.ts';
-
-export type AnalysisState = Pick<
-  StoredAnalysis,
-  'analysed_to_ms' | 'previous_end_ms' | 'last_trip' | 'rejected'
->;
 
 export interface CatchUp {
   /** Trips that ended since the watermark, in time order. */
   trips: TripResult[];
   samples: number;
-  state: AnalysisState;
+  state: AnalysisProgress;
 }
 
 const add = (into: Record<string, number>, from: Record<string, number>) => {
@@ -32,11 +27,11 @@ export async function catchUpVehicle(
   samples: SampleStore,
   model: VehicleModel,
   span: VehicleSpan,
-  start: AnalysisState,
+  start: AnalysisProgress,
   now_ms: number,
   o: AnalyzerOptions,
 ): Promise<CatchUp> {
-  const state: AnalysisState = { ...start, rejected: { ...start.rejected } };
+  const state: AnalysisProgress = { ...start, rejected: { ...start.rejected } };
   const trips: TripResult[] = [];
   let from = state.analysed_to_ms;
   let chunk_ms = o.chunk_ms;

@@ -1,8 +1,10 @@
 import { type AnalyzerConfig, readAnalyzerConfig } from '@thermargin/analyzer/config';
 import { type Env, envReader } from '@thermargin/shared/env';
+import { type DeploymentConfig, readDeploymentConfig } from '@thermargin/usecases/config';
 import { RATE_LIMIT_DEFAULTS } from './rate-limit.ts';
 
-/** The API's environment variables (plus the analyzer's FLEET_FILE, RESULTS_SQLITE_PATH, STORE_*). */
+/** The API's environment variables (plus the deployment's FLEET_FILE, STORE_*, RESULTS_SQLITE_PATH and
+ *  the analyzer's ANALYZER_POLL_MS). */
 export const API_ENV = {
   PORT: 'API_PORT',
   HOST: 'API_HOST',
@@ -24,6 +26,7 @@ export interface ApiConfig {
   rate_limit: { per_minute: number; burst: number };
   web_dist: string;
   run_analyzer: boolean;
+  deployment: DeploymentConfig;
   analyzer: AnalyzerConfig;
 }
 
@@ -47,7 +50,8 @@ export function readApiConfig(env: Env = process.env): ApiConfig {
     },
     web_dist: env[API_ENV.WEB_DIST] || 'web/dist',
     run_analyzer: run === '1',
-    analyzer: readAnalyzerConfig(env),
+    deployment: readDeploymentConfig(env, problems),
+    analyzer: readAnalyzerConfig(env, problems),
   };
   if (!config.tokens && !config.tokens_file)
     problems.push(`${API_ENV.TOKENS} or ${API_ENV.TOKENS_FILE} is required (no token, no access)`);

@@ -1,6 +1,6 @@
 import type { Logger } from '@thermargin/shared/log';
 import type { AnalyzerStats } from '@thermargin/analyzer/analyzer';
-import type { LoadedFleet } from '@thermargin/analyzer/fleet-file';
+import type { LoadedFleet } from '@thermargin/usecases/fleet-file';
 import type { SampleStore } from '@thermargin/store';
 import type { AnalysisStore } from '@thermargin/store/sqlite-analysis-store';
 import type { WorkflowStore } from '@thermargin/store/sqlite-workflow';

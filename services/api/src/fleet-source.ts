@@ -1,5 +1,5 @@
 import { renameSync, writeFileSync } from 'node:fs';
-import { fleetFromText, type LoadedFleet, loadFleetFile } from '@thermargin/analyzer/fleet-file';
+import { fleetFromText, type LoadedFleet, loadFleetFile } from '@thermargin/usecases/fleet-file';
 import type { FleetSource } from './deps.ts';
 
 /** The fleet file at `path`: loaded now, reloaded or replaced (written atomically) on request. */

@@ -4,3 +4,4 @@ export * from './deps.ts';
 export * from './fleet-source.ts';
 export * from './start.ts';
 export * from './tokens.ts';
+export * from './wiring.ts';

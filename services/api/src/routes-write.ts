@@ -14,8 +14,8 @@ import {
   tokensResponseSchema,
   type ApiRole,
 } from '@thermargin/shared';
-import { assessAndCommit } from '@thermargin/analyzer/commit';
-import type { LoadedFleet } from '@thermargin/analyzer/fleet-file';
+import { assessAndCommit } from '@thermargin/usecases/commit';
+import type { LoadedFleet } from '@thermargin/usecases/fleet-file';
 import { z } from 'zod';
 import { API_DEFAULTS } from './deps.ts';
 import type { ApiContext } from './context.ts';

@@ -3,7 +3,7 @@ import {
   sizingInputFromStore,
   type VehicleSizingInput,
   vehicleSizingInput,
-} from '@thermargin/analyzer/sizing-input';
+} from '@thermargin/usecases/sizing-input';
 import { type SizingResult, sizeFleet } from '@thermargin/core/sizing/fleet-sizing';
 import { resolveSizingOptions, type WhatIfScenario } from '@thermargin/core/sizing/options';
 import type { VehicleModel } from '@thermargin/core/vehicle/resolve';

@@ -1,21 +1,17 @@
 import type { AddressInfo } from 'node:net';
-import { type Analyzer, createAnalyzer } from '@thermargin/analyzer/analyzer';
-import { openSampleStore } from '@thermargin/store';
-import { createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis-store';
-import { createWorkflowStore } from '@thermargin/store/sqlite-workflow';
+import type { Analyzer } from '@thermargin/analyzer/analyzer';
+import type { Logger } from '@thermargin/shared/log';
 import { serve } from '@hono/node-server';
 import { createApi } from './app.ts';
-import { readApiConfig } from './config.ts';
-import type { ApiDeps } from './deps.ts';
-import { fileFleetSource } from './fleet-source.ts';
-import { parseTokenList, readTokenFile, TokenRegistry } from './tokens.ts';
+import { type ApiConfig, readApiConfig } from './config.ts';
+import { type ApiPieces, wireApi } from './wiring.ts';
 
 export interface StartApiOptions {
   /** Overrides API_PORT; 0 picks a free port. */
   port?: number;
   env?: Record<string, string | undefined>;
   clock?: () => number;
-  log?: ApiDeps['log'];
+  log?: Logger;
 }
 
 export interface RunningApi {
@@ -26,51 +22,34 @@ export interface RunningApi {
   close(): Promise<void>;
 }
 
-/** The API process: stores from the environment, the fleet file, tokens, optionally the analyzer. */
+/** Service events as JSON lines on stderr. */
+const stderrLog: Logger = (event, detail) =>
+  process.stderr.write(`${JSON.stringify({ event, ...detail })}\n`);
+
+/** The API process: its pieces from the environment (wireApi), served over HTTP. */
 export async function startApi(options: StartApiOptions = {}): Promise<RunningApi> {
-  const env = options.env ?? process.env;
-  const config = readApiConfig(env);
-  const log =
-    options.log ?? ((event, detail) => process.stderr.write(`${JSON.stringify({ event, ...detail })}\n`));
+  const config = readApiConfig(options.env ?? process.env);
   const clock = options.clock ?? Date.now;
-  const fleet = fileFleetSource(config.analyzer.fleet_file);
-  const samples = openSampleStore(config.analyzer.samples);
-  const apiDb = openResultsDb(config.analyzer.results_path);
-  const results = createAnalysisStore(apiDb);
-  const workflow = createWorkflowStore(apiDb);
-  const configured = [
-    ...parseTokenList(config.tokens, 'env'),
-    ...(config.tokens_file ? readTokenFile(config.tokens_file) : []),
-  ];
-  let analyzer: Analyzer | undefined;
-  let analyzerResults: ReturnType<typeof createAnalysisStore> | undefined;
-  if (config.run_analyzer) {
-    // Its own connection: its transactions never interleave with the API's writes.
-    const db = openResultsDb(config.analyzer.results_path);
-    analyzerResults = createAnalysisStore(db);
-    const wf = createWorkflowStore(db);
-    analyzer = createAnalyzer(
-      {
-        samples,
-        results: analyzerResults,
-        fleet: () => fleet.current().models,
-        extraMaintenance: (v) => wf.maintenance(v).map((m) => m.entry),
-        clock,
-        log,
-      },
-      { poll_ms: config.analyzer.poll_ms },
-    );
-    analyzer.start();
-  }
+  const log = options.log ?? stderrLog;
+  return serveApi(wireApi(config, { clock, log }), config, { ...options, clock, log });
+}
+
+/** Serves the API over `pieces` on the configured host and port; closing it closes the pieces too. */
+export async function serveApi(
+  pieces: ApiPieces,
+  config: ApiConfig,
+  options: { port?: number; clock: () => number; log: Logger },
+): Promise<RunningApi> {
+  const { analyzer } = pieces;
   const app = createApi({
-    samples,
-    results,
-    workflow,
-    fleet,
-    tokens: new TokenRegistry(configured, workflow),
+    samples: pieces.samples,
+    results: pieces.results,
+    workflow: pieces.workflow,
+    fleet: pieces.fleet,
+    tokens: pieces.tokens,
     ...(analyzer ? { analyzer } : {}),
-    clock,
-    log,
+    clock: options.clock,
+    log: options.log,
     web_dist: config.web_dist,
     cors_origins: config.cors_origins,
     rate_limit: config.rate_limit,
@@ -91,9 +70,7 @@ export async function startApi(options: StartApiOptions = {}): Promise<RunningAp
         server.close(() => resolve());
         (server as unknown as { closeAllConnections?: () => void }).closeAllConnections?.();
       });
-      await analyzerResults?.close();
-      await results.close();
-      await samples.close();
+      await pieces.close();
     },
   };
 }

@@ -2,8 +2,9 @@ import { mkdirSync, writeFileSync, existsSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { startEmbeddedBroker, type EmbeddedBroker } from '@thermargin/broker';
 import { createIngester, readIngesterConfig } from '@thermargin/ingester';
-import { startApi } from '@thermargin/api/start';
-import { openSampleStore } from '@thermargin/store';
+import { readApiConfig } from '@thermargin/api/config';
+import { serveApi } from '@thermargin/api/start';
+import { wireApi } from '@thermargin/api/wiring';
 import { createScenario, publishScenario } from '@thermargin/simulator';
 import { type Sample, SAFETY_CAUTION } from '@thermargin/shared';
 import type { Logger } from '@thermargin/shared/log';
@@ -79,11 +80,14 @@ async function main(): Promise<void> {
 
   ensureWebBuilt(ROOT, log);
   const ingestCfg = readIngesterConfig(env);
-  const store = openSampleStore(ingestCfg.store);
+  const apiCfg = readApiConfig(env);
+  // The API's pieces, built as `startApi` builds them; the ingester writes to the same sample store.
+  const pieces = wireApi(apiCfg, { clock: Date.now, log: serviceLog });
+  const store = pieces.samples;
   const known = new Set(scenario.fleet.vehicles.map((v) => v.id));
   const ingester = createIngester(ingestCfg, { store, known_vehicles: known, log: serviceLog });
   await ingester.start();
-  const api = await startApi({ env, log: serviceLog });
+  const api = await serveApi(pieces, apiCfg, { clock: Date.now, log: serviceLog });
 
   const stop = new AbortController();
   let feeding: Promise<void> = Promise.resolve();
@@ -95,7 +99,6 @@ async function main(): Promise<void> {
       await feeding.catch(() => {});
       await ingester.stop();
       await api.close();
-      await store.close();
       await broker?.close();
       log('stopped; data kept in ' + data);
     })());

@@ -4,8 +4,8 @@ import { openSampleStore } from '@thermargin/store';
 import { createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis-store';
 import { createWorkflowStore } from '@thermargin/store/sqlite-workflow';
 import { createAnalyzer } from '@thermargin/analyzer/analyzer';
-import { readAnalyzerConfig } from '@thermargin/analyzer/config';
-import { loadFleetFile } from '@thermargin/analyzer/fleet-file';
+import { deploymentConfig } from '@thermargin/usecases/config';
+import { loadFleetFile } from '@thermargin/usecases/fleet-file';
 
 export const REANALYZE_USAGE = `thermargin reanalyze [--vehicle ID] [--since DATE]
   recomputes stored results after a fleet-file or policy change (reads FLEET_FILE, STORE_*, RESULTS_SQLITE_PATH)
@@ -26,7 +26,7 @@ export async function reanalyzeCommand(argv: string[], log: (line: string) => vo
     if (!Number.isFinite(since_ms))
       throw new InputError([{ where: '--since', rule: 'must be YYYY-MM-DD or ISO 8601 UTC' }], 'bad option');
   }
-  const config = readAnalyzerConfig();
+  const config = deploymentConfig();
   const fleet = loadFleetFile(config.fleet_file);
   if (values.vehicle !== undefined && !fleet.models.has(values.vehicle))
     throw new InputError(

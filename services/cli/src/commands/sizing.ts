@@ -152,14 +152,14 @@ async function readStore(
   duty: Duty | undefined,
 ): Promise<SizingRead> {
   // Loaded here: the stores' modules would slow every `sizing --data` run's start-up.
-  const [{ readAnalyzerConfig }, { loadFleetFile }, { sizingInputFromConfig }] = await Promise.all([
-    import('@thermargin/analyzer/config'),
-    import('@thermargin/analyzer/fleet-file'),
-    import('@thermargin/analyzer/sizing-input'),
+  const [{ deploymentConfig }, { loadFleetFile }, { sizingInputFromConfig }] = await Promise.all([
+    import('@thermargin/usecases/config'),
+    import('@thermargin/usecases/fleet-file'),
+    import('@thermargin/usecases/sizing-input'),
   ]);
-  let config: ReturnType<typeof readAnalyzerConfig>;
+  let config: ReturnType<typeof deploymentConfig>;
   try {
-    config = readAnalyzerConfig(fleetPath ? { ...process.env, FLEET_FILE: fleetPath } : process.env);
+    config = deploymentConfig(fleetPath ? { ...process.env, FLEET_FILE: fleetPath } : process.env);
   } catch (e) {
     throw new InputError([{ where: '--from-store', rule: (e as Error).message }]);
   }

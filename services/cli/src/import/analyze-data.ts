@@ -1,6 +1,6 @@
-import { readFileSync } from 'node:fs';
-import { InputError, parseFleetText, type RejectedSummary } from '@thermargin/shared';
-import { resolveFleet, type VehicleModel } from '@thermargin/core/vehicle/resolve';
+import { InputError, type RejectedSummary } from '@thermargin/shared';
+import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
+import { loadFleetFile } from '@thermargin/usecases/fleet-file';
 import { readCsvFile } from '../import/csv-reader.ts';
 import { listCsvFiles } from '../import/data-files.ts';
 import { progressReporter } from '../import/progress.ts';
@@ -16,16 +16,6 @@ export interface AnalyzedData {
   rows: number;
 }
 
-export function loadFleet(path: string): VehicleModel[] {
-  let text: string;
-  try {
-    text = readFileSync(path, 'utf8');
-  } catch {
-    throw new InputError([{ where: path, rule: 'cannot read the fleet file' }], 'fleet file not found');
-  }
-  return resolveFleet(parseFleetText(text, path));
-}
-
 /** Reads the fleet file and every CSV file at `dataPath`, analysing trips as they complete. */
 export async function analyzeData(
   fleetPath: string,
@@ -34,7 +24,7 @@ export async function analyzeData(
   /** Optional observer per vehicle of each analysed piece of samples and its trips (see VehicleStream). */
   observe?: (v: VehicleModel) => ConstructorParameters<typeof VehicleStream>[1],
 ): Promise<AnalyzedData> {
-  const vehicles = loadFleet(fleetPath);
+  const vehicles = [...loadFleetFile(fleetPath).models.values()];
   const { files, bytes } = listCsvFiles(dataPath);
   const streams = new Map(vehicles.map((v) => [v.id, new VehicleStream(v, observe?.(v))]));
   const by_reason: Record<string, number> = {};

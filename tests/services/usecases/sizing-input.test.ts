@@ -1,6 +1,6 @@
 import { join } from 'node:path';
 import { createAnalyzer } from '@thermargin/analyzer/analyzer';
-import { sizingInputFromStore } from '@thermargin/analyzer/sizing-input';
+import { sizingInputFromStore } from '@thermargin/usecases/sizing-input';
 import { sizeFleet } from '@thermargin/core/sizing/fleet-sizing';
 import { resolveSizingOptions } from '@thermargin/core/sizing/options';
 import { resolveFleet } from '@thermargin/core/vehicle/resolve';

@@ -7,8 +7,8 @@ import type { SizingInput } from '@thermargin/core/sizing/fleet-sizing';
 import type { SizingOptions } from '@thermargin/core/sizing/options';
 import { VehicleSamples } from '@thermargin/core/sizing/vehicle-samples';
 import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
-import type { AnalyzerConfig } from './config.ts';
-import { ANALYZER_DEFAULTS } from './options.ts';
+import type { DeploymentConfig } from './config.ts';
+import { READ_DEFAULTS } from './options.ts';
 
 export interface StoreSizingInput {
   input: SizingInput;
@@ -36,7 +36,7 @@ export async function vehicleSizingInput(
   results: ResultsStore,
   v: VehicleModel,
   o: SizingOptions,
-  chunk_ms: number = ANALYZER_DEFAULTS.chunk_ms,
+  chunk_ms: number = READ_DEFAULTS.chunk_ms,
 ): Promise<VehicleSizingInput> {
   const acc = new VehicleSamples(v, o);
   const trips = await results.readTripResults(v.id);
@@ -98,7 +98,7 @@ export function assembleSizingInput(
 
 /** sizingInputFromStore over the stores a configuration names (the CLI's `sizing --from-store`), closed after. */
 export async function sizingInputFromConfig(
-  config: Pick<AnalyzerConfig, 'samples' | 'results_path'>,
+  config: Pick<DeploymentConfig, 'samples' | 'results_path'>,
   vehicles: readonly VehicleModel[],
   o: SizingOptions,
   duty?: Duty,

@@ -3,13 +3,27 @@ import type { AnalysisStore, StoredAnalysis } from '@thermargin/store/sqlite-ana
 import { vehicleResult, withMaintenance } from '@thermargin/core/vehicle-result';
 import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
 
+/** How far a vehicle's analysis got: the watermark and the context the next run continues from. */
+export type AnalysisProgress = Pick<
+  StoredAnalysis,
+  'analysed_to_ms' | 'previous_end_ms' | 'last_trip' | 'rejected'
+>;
+
+/** A vehicle not analysed yet. */
+export const noProgress = (): AnalysisProgress => ({
+  analysed_to_ms: 0,
+  previous_end_ms: null,
+  last_trip: null,
+  rejected: {},
+});
+
 export interface AssessInput {
   /** Trip results new or recomputed since the last commit (replace stored ones by trip id). */
   trips: readonly TripResult[];
   /** Stored trips starting at or after this time are dropped first (re-analysis). */
   delete_from_ms?: number;
   /** The watermark and context to store; undefined keeps the stored one (a re-assessment). */
-  state?: Pick<StoredAnalysis, 'analysed_to_ms' | 'previous_end_ms' | 'last_trip' | 'rejected'>;
+  state?: AnalysisProgress;
 }
 
 export interface AssessOutcome {
@@ -42,8 +56,7 @@ export function assessAndCommit(
       (a, b) => startOf(a) - startOf(b) || a.trip.localeCompare(b.trip),
     );
     const { result, assessment } = vehicleResult(withMaintenance(model, extraMaintenance), all);
-    const state = input.state ??
-      prev ?? { analysed_to_ms: 0, previous_end_ms: null, last_trip: null, rejected: {} };
+    const state = input.state ?? prev ?? noProgress();
     const { series, notes, candidates } = assessment;
     await results.commit({
       vehicle: model.id,

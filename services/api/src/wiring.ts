@@ -1,0 +1,78 @@
+import { type Analyzer, createAnalyzer } from '@thermargin/analyzer/analyzer';
+import type { Logger } from '@thermargin/shared/log';
+import { openSampleStore, type SampleStore } from '@thermargin/store';
+import {
+  type AnalysisStore,
+  createAnalysisStore,
+  openResultsDb,
+} from '@thermargin/store/sqlite-analysis-store';
+import { createWorkflowStore, type WorkflowStore } from '@thermargin/store/sqlite-workflow';
+import type { ApiConfig } from './config.ts';
+import type { FleetSource } from './deps.ts';
+import { fileFleetSource } from './fleet-source.ts';
+import { parseTokenList, readTokenFile, TokenRegistry } from './tokens.ts';
+
+/** What an API process runs on: its stores, the fleet file, the tokens, and the analyzer if it runs one. */
+export interface ApiPieces {
+  samples: SampleStore;
+  results: AnalysisStore;
+  workflow: WorkflowStore;
+  fleet: FleetSource;
+  tokens: TokenRegistry;
+  /** The in-process analyzer (API_RUN_ANALYZER=1), already polling. */
+  analyzer: Analyzer | undefined;
+  /** Stops the analyzer and closes the stores. */
+  close(): Promise<void>;
+}
+
+/**
+ * Builds the pieces from the configuration, one way for every process that serves the API (`startApi`,
+ * `npm start`): the fleet file is read first (an invalid one stops here), then the stores open. The
+ * analyzer gets its own connection to the results database, so its transactions never interleave with
+ * the API's writes.
+ */
+export function wireApi(config: ApiConfig, o: { clock: () => number; log: Logger }): ApiPieces {
+  const { deployment } = config;
+  const fleet = fileFleetSource(deployment.fleet_file);
+  const samples = openSampleStore(deployment.samples);
+  const apiDb = openResultsDb(deployment.results_path);
+  const results = createAnalysisStore(apiDb);
+  const workflow = createWorkflowStore(apiDb);
+  const configured = [
+    ...parseTokenList(config.tokens, 'env'),
+    ...(config.tokens_file ? readTokenFile(config.tokens_file) : []),
+  ];
+  let analyzer: Analyzer | undefined;
+  let analyzerResults: AnalysisStore | undefined;
+  if (config.run_analyzer) {
+    const db = openResultsDb(deployment.results_path);
+    analyzerResults = createAnalysisStore(db);
+    const wf = createWorkflowStore(db);
+    analyzer = createAnalyzer(
+      {
+        samples,
+        results: analyzerResults,
+        fleet: () => fleet.current().models,
+        extraMaintenance: (v) => wf.maintenance(v).map((m) => m.entry),
+        clock: o.clock,
+        log: o.log,
+      },
+      { poll_ms: config.analyzer.poll_ms },
+    );
+    analyzer.start();
+  }
+  return {
+    samples,
+    results,
+    workflow,
+    fleet,
+    tokens: new TokenRegistry(configured, workflow),
+    analyzer,
+    async close() {
+      await analyzer?.stop();
+      await analyzerResults?.close();
+      await results.close();
+      await samples.close();
+    },
+  };
+}
