@@ -2,14 +2,32 @@ import type { SampleColumns, TripResult } from '@thermargin/shared';
 import { cleanSamples, type Rejections } from './trip/clean.ts';
 import { ESTIMATOR_DEFAULTS, type EstimatorOptions } from './trip/estimator-options.ts';
 import { analyzeTrip } from './trip/analyze-trip.ts';
-import { splitTrips } from './trip/split.ts';
+import { splitTrips, type TripSpan } from './trip/split.ts';
 import type { VehicleModel } from './vehicle/resolve.ts';
+
+/** Samples as the analysis uses them: cleaned and time-sorted, cut into trips. */
+export interface TripPieces {
+  /** The cleaned columns (may be the input itself when cleaning dropped nothing). */
+  columns: SampleColumns;
+  /** The trips in `columns`, in time order. */
+  spans: TripSpan[];
+  rejections: Rejections;
+}
 
 export interface VehicleAnalysis {
   trips: TripResult[];
   rejected: { total: number; by_reason: Record<string, number> };
   /** Optional values dropped from kept samples, by reason. */
   dropped_values: Record<string, number>;
+  /** What the trips were computed from: `spans[j]` of `cleaned` is `trips[j]` (for sizing's evidence). */
+  cleaned: SampleColumns;
+  spans: TripSpan[];
+}
+
+/** The analysis's first two steps, clean then split (any order in; `columns` changed as cleanSamples says). */
+export function tripPieces(columns: SampleColumns): TripPieces {
+  const { columns: c, rejections } = cleanSamples(columns);
+  return { columns: c, spans: splitTrips(c), rejections };
 }
 
 /** Per-trip counts of cleaning rejections, by time span; rejections between trips go to none. */
@@ -35,8 +53,7 @@ export function analyzeVehicle(
   previousEnd_ms: number | null = null,
 ): VehicleAnalysis {
   const o: EstimatorOptions = { ...ESTIMATOR_DEFAULTS, ...options };
-  const { columns: c, rejections } = cleanSamples(columns);
-  const spans = splitTrips(c);
+  const { columns: c, spans, rejections } = tripPieces(columns);
   const starts = spans.map((s) => c.time_ms[s.from]!);
   const ends = spans.map((s) => c.time_ms[s.to - 1]!);
   const perTrip = rejectionsByTrip(rejections, starts, ends);
@@ -50,5 +67,7 @@ export function analyzeVehicle(
     trips,
     rejected: { total: rejections.total, by_reason: rejections.by_reason },
     dropped_values: rejections.dropped_values,
+    cleaned: c,
+    spans,
   };
 }

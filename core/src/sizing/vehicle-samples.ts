@@ -1,8 +1,7 @@
 import type { SampleColumns, TripResult } from '@thermargin/shared';
 import { heatToCoolant_kw } from '../drivetrain/heat.ts';
-import { cleanSamples } from '../trip/clean.ts';
 import { ESTIMATOR_DEFAULTS } from '../trip/estimator-options.ts';
-import { splitTrips } from '../trip/split.ts';
+import type { TripSpan } from '../trip/split.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
 import { DerateTally } from './derate-tally.ts';
 import { DutyHistograms } from './duty-cycle.ts';
@@ -22,8 +21,8 @@ export interface ScenarioReplay {
 }
 
 /**
- * A vehicle's sample-level sizing evidence, fed piece by piece with the raw columns that were analysed
- * and the trips analyzeVehicle made of them (so each trip's own k drives the replay). Memory is fixed
+ * A vehicle's sample-level sizing evidence, fed piece by piece with the cleaned columns and trip spans
+ * the analysis worked on and the trips it made of them (so each trip's own k drives the replay). Memory is fixed
  * per vehicle (histograms and per-day tallies), whatever the number of samples.
  *
  * Recorded derates (derate = 1): events, hours, and the energy not delivered, estimated as
@@ -70,17 +69,13 @@ export class VehicleSamples {
     return { ram: this.last.ram ?? this.bench.ram, fan: this.last.fan ?? this.bench.fan };
   }
 
-  /** `columns`: the raw piece given to analyzeVehicle; `trips`: what it returned, in order. */
-  add(columns: SampleColumns, trips: readonly TripResult[]): void {
-    const { columns: c } = cleanSamples(columns);
-    const spans = splitTrips(c);
-    if (c.n === 0) return;
-    if (spans.length !== trips.length)
-      throw new RangeError(
-        `VehicleSamples.add (${this.vehicle.id}): ${spans.length} trips in the samples but ${trips.length} trip results`,
-      );
+  /**
+   * One analysed piece as the analysis saw it (analyzeVehicle's `cleaned` and `spans`, or tripPieces'):
+   * `trips[j]` is the result of `spans[j]`.
+   */
+  add(cleaned: SampleColumns, spans: readonly TripSpan[], trips: readonly TripResult[]): void {
     spans.forEach((span, j) => {
-      this.addTrip(c, span.from, span.to, this.tripK(trips[j]!));
+      this.addTrip(cleaned, span.from, span.to, this.tripK(trips[j]!));
     });
   }
 

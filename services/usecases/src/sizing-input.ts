@@ -2,6 +2,7 @@ import { setImmediate as nextTurn } from 'node:timers/promises';
 import type { TripResult } from '@thermargin/shared';
 import { openSampleStore, type ResultsStore, type SampleStore } from '@thermargin/store';
 import { createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis-store';
+import { tripPieces } from '@thermargin/core/analyze';
 import type { Duty } from '@thermargin/core/sizing/drivetrain-compare';
 import type { SizingInput } from '@thermargin/core/sizing/fleet-sizing';
 import type { SizingOptions } from '@thermargin/core/sizing/options';
@@ -28,8 +29,10 @@ export interface VehicleSizingInput {
  * those trips' starts — the cuts the analyzer and the CLI make — so the figures equal `thermargin
  * sizing --data` on the same samples. A piece spans whole trips up to `chunk_ms` (the analyzer's read
  * size) and ends with the last analysed trip: samples of a trip still open are left for the next run.
- * `o` must come from resolveSizingOptions; a what-if limit drop at or below the thermostat opening
- * throws VehicleSamples' RangeError.
+ * A piece is cleaned and split as the analysis does (tripPieces); when its samples are gone, or no
+ * longer split into its stored trips, those trips count as without samples. `o` must come from
+ * resolveSizingOptions; a what-if limit drop at or below the thermostat opening throws VehicleSamples'
+ * RangeError.
  */
 export async function vehicleSizingInput(
   samples: SampleStore,
@@ -54,13 +57,10 @@ export async function vehicleSizingInput(
     // back to back would hold a server in the same process (the API) for seconds.
     await nextTurn();
     const c = await samples.readSamples(v.id, from, to);
-    try {
-      if (c.n === 0) missing += piece.length;
-      else acc.add(c, piece);
-    } catch (e) {
-      if (!(e instanceof RangeError)) throw e;
-      missing += piece.length;
-    }
+    const { columns, spans } = tripPieces(c);
+    // A piece that cleaning empties adds nothing and misses nothing (its trips kept no usable samples).
+    if (c.n === 0 || (columns.n > 0 && spans.length !== piece.length)) missing += piece.length;
+    else acc.add(columns, spans, piece);
     i = j;
   }
   return { trips, samples: acc, trips_without_samples: missing };

@@ -38,7 +38,7 @@ beforeAll(() => {
     const a = analyzeVehicle(v, g.columns);
     tripsOf.set(v.id, a.trips);
     const acc = new VehicleSamples(v, O);
-    acc.add(g.columns, a.trips);
+    acc.add(a.cleaned, a.spans, a.trips);
     samples.set(v.id, acc);
   });
   result = sizeFleet({ vehicles, trips: tripsOf, samples }, O);

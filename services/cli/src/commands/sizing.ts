@@ -135,7 +135,7 @@ async function readData(
       throw new InputError([{ where: `--what-if (vehicle ${v.id})`, rule: (e as Error).message }]);
     }
     samples.set(v.id, acc);
-    return (columns, trips) => acc.add(columns, trips);
+    return (cleaned, spans, trips) => acc.add(cleaned, spans, trips);
   });
   const trips = new Map(data.vehicles.map((v) => [v.id, data.streams.get(v.id)!.trips]));
   return {

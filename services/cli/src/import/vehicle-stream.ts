@@ -1,6 +1,6 @@
 import { ColumnBuilder, type SampleColumns, type TripResult } from '@thermargin/shared';
 import { analyzeVehicle } from '@thermargin/core/analyze';
-import { startsTrip } from '@thermargin/core/trip/split';
+import { startsTrip, type TripSpan } from '@thermargin/core/trip/split';
 import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
 
 /**
@@ -27,10 +27,15 @@ export class VehicleStream {
   readonly rejected: Record<string, number> = {};
   readonly dropped: Record<string, number> = {};
 
-  /** `onAnalysed` sees each analysed piece (raw columns, valid only during the call) with its trips. */
+  /** `onAnalysed` sees each analysed piece (cleaned columns valid only during the call, their trip
+   *  spans, and the trips made of them). */
   constructor(
     readonly vehicle: VehicleModel,
-    private readonly onAnalysed?: (columns: SampleColumns, trips: readonly TripResult[]) => void,
+    private readonly onAnalysed?: (
+      cleaned: SampleColumns,
+      spans: readonly TripSpan[],
+      trips: readonly TripResult[],
+    ) => void,
   ) {}
 
   push(values: Float64Array, trip: string | undefined): void {
@@ -49,7 +54,7 @@ export class VehicleStream {
     if (to === 0) return;
     const piece = this.buf.view(0, to);
     const r = analyzeVehicle(this.vehicle, piece, {}, this.previousEnd_ms);
-    this.onAnalysed?.(piece, r.trips);
+    this.onAnalysed?.(r.cleaned, r.spans, r.trips);
     this.trips.push(...r.trips);
     for (const [k, n] of Object.entries(r.rejected.by_reason)) this.rejected[k] = (this.rejected[k] ?? 0) + n;
     for (const [k, n] of Object.entries(r.dropped_values)) this.dropped[k] = (this.dropped[k] ?? 0) + n;
