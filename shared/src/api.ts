@@ -352,6 +352,8 @@ export const fleetReloadResponseSchema = z.object({
   changed: z.array(z.string()),
 });
 export type FleetReloadResponse = z.infer<typeof fleetReloadResponseSchema>;
+/** PUT /api/fleet's body: the fleet file as JSON, validated like the file (its own errors, per field). */
+export const fleetReplaceBodySchema = z.unknown();
 
 // ---- Tokens (admin)
 export const tokenViewSchema = z.object({ name: z.string(), role: z.enum(API_ROLES), source: z.string() });
@@ -363,6 +365,7 @@ export const tokenCreateResponseSchema = z.object({
   role: z.enum(API_ROLES),
   token: z.string(),
 });
+export const tokenRevokeResponseSchema = z.object({ removed: z.string() });
 
 // ---- GET /api/audit (admin): newest first
 export const auditEntrySchema = z.object({
@@ -375,6 +378,9 @@ export const auditEntrySchema = z.object({
   detail: z.string(),
 });
 export type AuditEntry = z.infer<typeof auditEntrySchema>;
+export const auditQuerySchema = z.strictObject({
+  limit: z.coerce.number().int().min(1).max(1000).default(100),
+});
 export const auditResponseSchema = z.object({ entries: z.array(auditEntrySchema) });
 
 // ---- GET /api/events (viewer): server-sent events; `event:` names and their `data:` JSON

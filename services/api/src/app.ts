@@ -1,4 +1,12 @@
 import { API_ROLES, type ApiRole, idSchema } from '@thermargin/shared';
+import {
+  API_ROUTES,
+  type RouteBody,
+  type RouteName,
+  type RouteParams,
+  type RouteQuery,
+  type RouteSpec,
+} from '@thermargin/shared/api-routes';
 import type { Actor } from '@thermargin/store/sqlite-workflow';
 import { getConnInfo } from '@hono/node-server/conninfo';
 import { type Context, Hono, type MiddlewareHandler } from 'hono';
@@ -18,7 +26,7 @@ import { readRoutes } from './routes-read.ts';
 import { sizingRoutes } from './routes-sizing.ts';
 import { traceRoutes } from './routes-trace.ts';
 import { writeRoutes } from './routes-write.ts';
-import type { Route } from './route.ts';
+import type { Handler, Handlers } from './route.ts';
 import { serveDashboard } from './static.ts';
 
 const rank = (r: ApiRole) => API_ROLES.indexOf(r);
@@ -46,12 +54,54 @@ async function readJson(c: Context): Promise<unknown> {
   }
 }
 
+const NO_QUERY = z.strictObject({});
+const PATH_PARAMS = z.record(z.string(), idSchema);
+
+/**
+ * Registers one route of the table with its handler: the role check, then path, query and body parsed
+ * by the route's own schemas, so the handler gets exactly the types its entry declares.
+ */
+function register<K extends RouteName>(app: Hono, name: K, handle: Handler<K>, default_body_bytes: number) {
+  const r: RouteSpec = API_ROUTES[name];
+  const limit = r.max_body_bytes ?? default_body_bytes;
+  const handlers: MiddlewareHandler[] = [];
+  if (r.body)
+    handlers.push(
+      bodyLimit({
+        maxSize: limit,
+        onError: () => {
+          throw new HttpError(413, 'too_large', `body over ${limit} bytes`);
+        },
+      }),
+    );
+  app.on([r.method.toUpperCase()], [r.path], ...handlers, async (c: Context) => {
+    const actor = c.get('actor' as never) as Actor | undefined;
+    if (r.role !== null) {
+      if (!actor) throw new HttpError(401, 'unauthorized', 'a bearer token is required');
+      if (rank(actor.role) < rank(r.role))
+        throw new HttpError(403, 'forbidden', `needs role ${r.role} (token ${actor.by} has ${actor.role})`);
+    }
+    // Parsed by this route's schemas: the types below are what they accept.
+    const params = parseInput(PATH_PARAMS, c.req.param(), 'path') as RouteParams<K>;
+    const query = parseInput(r.query ?? NO_QUERY, c.req.query(), 'query') as RouteQuery<K>;
+    const body = (r.body ? parseInput(r.body, await readJson(c), 'body') : undefined) as RouteBody<K>;
+    const out = await handle({ c, params, query, body, actor: actor ?? ANONYMOUS });
+    return out instanceof Response ? out : c.json(out as object);
+  });
+}
+
 /** The API as a Hono app: every route of the route table, the OpenAPI document, and the dashboard. */
 export function createApi(deps: ApiDeps): Hono {
   const x = new ApiContext({ ...deps, samples: outageAs503(deps.samples) });
   const hub = new EventHub(x, deps.events_poll_ms ?? API_DEFAULTS.events_poll_ms);
-  const routes: Route[] = [...readRoutes(x), ...traceRoutes(x), ...writeRoutes(x), ...eventRoutes(hub)];
-  routes.push(...sizingRoutes(x), ...meRoutes());
+  const handlers: Handlers = {
+    ...readRoutes(x),
+    ...traceRoutes(x),
+    ...writeRoutes(x),
+    ...eventRoutes(hub),
+    ...sizingRoutes(x),
+    ...meRoutes(),
+  };
   const limiter = new RateLimiter({ ...RATE_LIMIT_DEFAULTS, ...deps.rate_limit }, x.clock);
   const app = new Hono();
 
@@ -105,36 +155,11 @@ export function createApi(deps: ApiDeps): Hono {
     await next();
   });
 
-  const doc = openApiDocument(routes);
+  const doc = openApiDocument(API_ROUTES);
   app.get('/api/openapi.json', (c) => c.json(doc));
 
-  for (const r of routes) {
-    const limit = r.max_body_bytes ?? deps.max_body_bytes ?? API_DEFAULTS.max_body_bytes;
-    const handlers: MiddlewareHandler[] = [];
-    if (r.body)
-      handlers.push(
-        bodyLimit({
-          maxSize: limit,
-          onError: () => {
-            throw new HttpError(413, 'too_large', `body over ${limit} bytes`);
-          },
-        }),
-      );
-    app.on([r.method.toUpperCase()], [r.path], ...handlers, async (c: Context) => {
-      const actor = c.get('actor' as never) as Actor | undefined;
-      if (r.role !== null) {
-        if (!actor) throw new HttpError(401, 'unauthorized', 'a bearer token is required');
-        if (rank(actor.role) < rank(r.role))
-          throw new HttpError(403, 'forbidden', `needs role ${r.role} (token ${actor.by} has ${actor.role})`);
-      }
-      const rawParams = c.req.param() as Record<string, string>;
-      const params = parseInput(z.record(z.string(), idSchema), rawParams, 'path');
-      const query = parseInput(r.query ?? z.strictObject({}), c.req.query(), 'query');
-      const body = r.body ? parseInput(r.body, await readJson(c), 'body') : undefined;
-      const out = await r.handle({ c, params, query, body, actor: actor ?? ANONYMOUS });
-      return out instanceof Response ? out : c.json(out as object);
-    });
-  }
+  const bodyBytes = deps.max_body_bytes ?? API_DEFAULTS.max_body_bytes;
+  for (const name of Object.keys(API_ROUTES) as RouteName[]) register(app, name, handlers[name], bodyBytes);
   app.all('/api/*', (c) =>
     c.json(errorBody(new HttpError(404, 'not_found', `no route ${c.req.method} ${c.req.path}`)), 404),
   );

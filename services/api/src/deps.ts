@@ -39,7 +39,6 @@ export interface ApiDeps {
 
 export const API_DEFAULTS = {
   max_body_bytes: 64 * 1024,
-  max_fleet_bytes: 1024 * 1024,
   events_poll_ms: 1000,
   /** ms, 2000: how long the newest-sample and span reads are reused (each scans the sample index). */
   sample_cache_ms: 2000,

@@ -1,7 +1,7 @@
 import type { ApiEvent, Status } from '@thermargin/shared';
 import { streamSSE } from 'hono/streaming';
 import type { ApiContext } from './context.ts';
-import { type Route, route } from './route.ts';
+import type { Handlers } from './route.ts';
 
 type Listener = (e: ApiEvent) => void;
 
@@ -99,44 +99,36 @@ export class EventHub {
 /** s, 15: a comment line this often keeps proxies from closing an idle stream. */
 const KEEPALIVE_MS = 15_000;
 
-export function eventRoutes(hub: EventHub): Route[] {
-  return [
-    route({
-      method: 'get',
-      path: '/api/events',
-      role: 'viewer',
-      summary:
-        'Server-sent events: trip (new trip result), status (status change), sample (newest sample per vehicle)',
-      response: null,
-      handle: async ({ c }) =>
-        streamSSE(c, async (stream) => {
-          const queue: ApiEvent[] = [];
-          let wake: (() => void) | undefined;
-          const off = hub.subscribe((e) => {
-            queue.push(e);
-            wake?.();
-          });
-          stream.onAbort(off);
-          try {
-            while (!stream.aborted) {
-              const e = queue.shift();
-              if (e) {
-                await stream.writeSSE({ event: e.event, data: JSON.stringify(e.data) });
-                continue;
-              }
-              let timer: NodeJS.Timeout | undefined;
-              await new Promise<void>((r) => {
-                wake = r;
-                timer = setTimeout(r, KEEPALIVE_MS);
-              });
-              clearTimeout(timer);
-              wake = undefined;
-              if (!queue.length && !stream.aborted) await stream.write(': keep-alive\n\n');
+export function eventRoutes(hub: EventHub): Handlers<'events'> {
+  return {
+    events: async ({ c }) =>
+      streamSSE(c, async (stream) => {
+        const queue: ApiEvent[] = [];
+        let wake: (() => void) | undefined;
+        const off = hub.subscribe((e) => {
+          queue.push(e);
+          wake?.();
+        });
+        stream.onAbort(off);
+        try {
+          while (!stream.aborted) {
+            const e = queue.shift();
+            if (e) {
+              await stream.writeSSE({ event: e.event, data: JSON.stringify(e.data) });
+              continue;
             }
-          } finally {
-            off();
+            let timer: NodeJS.Timeout | undefined;
+            await new Promise<void>((r) => {
+              wake = r;
+              timer = setTimeout(r, KEEPALIVE_MS);
+            });
+            clearTimeout(timer);
+            wake = undefined;
+            if (!queue.length && !stream.aborted) await stream.write(': keep-alive\n\n');
           }
-        }),
-    }),
-  ];
+        } finally {
+          off();
+        }
+      }),
+  };
 }

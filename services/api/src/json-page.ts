@@ -1,6 +1,7 @@
 import { createHash } from 'node:crypto';
 import { gzipSync } from 'node:zlib';
 import type { Context } from 'hono';
+import type { Answer } from './route.ts';
 
 type Body = Uint8Array<ArrayBuffer>;
 
@@ -8,7 +9,7 @@ type Body = Uint8Array<ArrayBuffer>;
  * A large JSON answer kept encoded between changes: the bytes, an ETag of them, and a gzip copy made
  * on the first request that accepts it. A hit is a buffer write (or a 304 when the client has it).
  */
-export class JsonPage {
+export class JsonPage<T = unknown> {
   readonly etag: string;
   private readonly raw: Body;
   private gzip: Body | undefined;
@@ -18,7 +19,16 @@ export class JsonPage {
     this.etag = `"${createHash('sha256').update(this.raw).digest('base64url').slice(0, 27)}"`;
   }
 
-  respond(c: Context): Response {
+  /** The page of `body`, typed as it. */
+  static of<T>(body: T): JsonPage<T> {
+    return new JsonPage<T>(JSON.stringify(body));
+  }
+
+  respond(c: Context): Answer<T> {
+    return this.response(c) as Answer<T>;
+  }
+
+  private response(c: Context): Response {
     const headers: Record<string, string> = {
       'content-type': 'application/json; charset=utf-8',
       etag: this.etag,

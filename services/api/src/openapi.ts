@@ -1,6 +1,6 @@
 import { API_ROLES, apiErrorSchema } from '@thermargin/shared';
+import type { RouteSpec } from '@thermargin/shared/api-routes';
 import { z } from 'zod';
-import type { Route } from './route.ts';
 
 const json = (schema: z.ZodType, io: 'input' | 'output') => ({
   'application/json': { schema: z.toJSONSchema(schema, { io, unrepresentable: 'any' }) },
@@ -10,9 +10,9 @@ const json = (schema: z.ZodType, io: 'input' | 'output') => ({
 const openapiPath = (p: string) => p.replace(/:([A-Za-z_]+)/g, '{$1}');
 
 /** The OpenAPI 3.1 document, generated from the same route table and zod schemas that validate requests. */
-export function openApiDocument(routes: readonly Route[]): Record<string, unknown> {
+export function openApiDocument(routes: Readonly<Record<string, RouteSpec>>): Record<string, unknown> {
   const paths: Record<string, Record<string, unknown>> = {};
-  for (const r of routes) {
+  for (const r of Object.values(routes)) {
     const params = [...r.path.matchAll(/:([A-Za-z_]+)/g)].map((m) => ({
       name: m[1],
       in: 'path',

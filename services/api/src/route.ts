@@ -1,35 +1,31 @@
-import type { ApiRole } from '@thermargin/shared';
+import type {
+  ApiRoutes,
+  RouteBody,
+  RouteName,
+  RouteParams,
+  RouteQuery,
+  RouteResponse,
+} from '@thermargin/shared/api-routes';
 import type { Actor } from '@thermargin/store/sqlite-workflow';
 import type { Context } from 'hono';
-import type { z } from 'zod';
 
-/** What a handler gets: validated path parameters, query and body, and who asks. */
-export interface RouteInput<Q, B> {
+/** What a handler gets: path parameters, query and body validated by its route's schemas, and who asks. */
+export interface HandlerInput<K extends RouteName> {
   c: Context;
-  params: Record<string, string>;
-  query: Q;
-  body: B;
+  params: RouteParams<K>;
+  query: RouteQuery<K>;
+  body: RouteBody<K>;
   actor: Actor;
 }
 
-/**
- * One route: the single description the app registers and the OpenAPI document is generated from.
- * `role` null: no token needed. `params` are validated with idSchema.
- */
-export interface Route<Q = unknown, B = unknown> {
-  method: 'get' | 'post' | 'put' | 'delete';
-  /** Hono form, e.g. `/api/vehicles/:id`. */
-  path: string;
-  role: ApiRole | null;
-  summary: string;
-  query?: z.ZodType<Q>;
-  body?: z.ZodType<B>;
-  /** JSON schema of the answer; null for a stream (SSE). */
-  response: z.ZodType | null;
-  /** Largest body in bytes, when not the API's default. */
-  max_body_bytes?: number;
-  handle(input: RouteInput<Q, B>): Promise<unknown>;
-}
+declare const answerOf: unique symbol;
+/** A Response whose body is a route's answer, written ahead (JsonPage): typed like a returned value. */
+export type Answer<T> = Response & { readonly [answerOf]: T };
 
-/** Keeps each route's query and body types tied to its handler. */
-export const route = <Q, B>(r: Route<Q, B>): Route => r as unknown as Route;
+/** A route's handler: its answer as a value or an Answer, or any Response for a stream. */
+export type Handler<K extends RouteName> = (
+  input: HandlerInput<K>,
+) => Promise<ApiRoutes[K]['response'] extends null ? Response : RouteResponse<K> | Answer<RouteResponse<K>>>;
+
+/** Handlers for the routes named `K` (shared/src/api-routes.ts): the API needs one for every route. */
+export type Handlers<K extends RouteName = RouteName> = { [N in K]: Handler<N> };

@@ -1,252 +1,216 @@
 import {
-  type DeadLettersQuery,
   type DeadLettersResponse,
-  deadLettersQuerySchema,
-  deadLettersResponseSchema,
-  fleetResponseSchema,
-  healthResponseSchema,
-  rejectedResponseSchema,
-  SAFETY_CAUTION,
-  statusResponseSchema,
-  tripsQuerySchema,
-  tripsResponseSchema,
-  VEHICLE_RECENT_TRIPS,
-  vehicleResponseSchema,
   type FleetResponse,
   type RejectedResponse,
+  SAFETY_CAUTION,
   type StatusResponse,
   type TripsQuery,
+  type TripsResponse,
+  VEHICLE_RECENT_TRIPS,
   type VehicleResponse,
 } from '@thermargin/shared';
+import type { Context } from 'hono';
 import { tripGoingOn } from '@thermargin/core/trip/split';
 import type { ApiContext } from './context.ts';
 import { JsonPage } from './json-page.ts';
-import { type Route, route } from './route.ts';
+import type { Answer, Handlers } from './route.ts';
 import { alertViews, isOpenAlert, maintenanceViews, vehicleSummary } from './views.ts';
 
 const iso = (ms: number) => new Date(ms).toISOString();
 const dayStart = (s: string) => Date.parse(s.length === 10 ? `${s}T00:00:00Z` : s);
 
-export function readRoutes(x: ApiContext): Route[] {
+type ReadRoute = 'health' | 'status' | 'fleet' | 'vehicle' | 'trips' | 'rejected' | 'deadLetters';
+
+/** The read routes: liveness, status, the fleet and its vehicles, their trips, and the refused data. */
+export function readRoutes(x: ApiContext): Handlers<ReadRoute> {
+  const fleet = fleetPages(x);
+  const vehicle = vehiclePages(x);
+  return {
+    health: async () => ({ ok: true, time: iso(x.clock()) }),
+    status: () => status(x),
+    fleet: async ({ c }) => fleet(c),
+    vehicle: async ({ c, params }) => vehicle(c, params.id),
+    trips: ({ params, query }) => trips(x, params.id, query),
+    rejected: () => rejected(x),
+    deadLetters: async ({ query }): Promise<DeadLettersResponse> => {
+      const letters = await x.deps.samples.readDeadLetters(query);
+      return { letters: letters.map(({ received_ms, ...l }) => ({ received: iso(received_ms), ...l })) };
+    },
+  };
+}
+
+/** Ingest and analyzer health: the store's answer, the newest sample, every watermark. */
+async function status(x: ApiContext): Promise<StatusResponse> {
   const { deps } = x;
-  const pages = new Map<string, { key: string; page: JsonPage }>();
+  let up = true;
+  let error: string | null = null;
+  try {
+    await deps.samples.ping();
+  } catch (e) {
+    up = false;
+    error = (e as Error).message;
+  }
+  const spans = up ? await x.reader.spans() : [];
+  const analyses = deps.results.readAnalyses();
+  const wm = new Map(analyses.map((a) => [a.vehicle, a.analysed_to_ms]));
+  const last = spans.reduce((m, s) => Math.max(m, s.last_ms), Number.NEGATIVE_INFINITY);
+  const letters = up ? (await deps.samples.countDeadLetters()).reduce((n, l) => n + l.count, 0) : 0;
+  const s = deps.analyzer?.stats;
+  const now = x.clock(); // one reading for the whole answer
+  const behind = spans.filter((sp) => (wm.get(sp.vehicle) ?? 0) <= sp.last_ms);
+  const onTrip = behind.filter((sp) => tripGoingOn(sp.last_ms, now)).length;
+  const lastRun = analyses.reduce((m, a) => Math.max(m, a.updated_ms), Number.NEGATIVE_INFINITY);
+  return {
+    time: iso(now),
+    store: { kind: deps.samples.kind, up, error },
+    ingest: {
+      vehicles: spans.length,
+      samples: spans.reduce((n, sp) => n + sp.count, 0),
+      last_sample: Number.isFinite(last) ? iso(last) : null,
+      lag_s: Number.isFinite(last) ? (now - last) / 1000 : null,
+      dead_letters: letters,
+    },
+    analyzer: {
+      running: s?.running ?? false,
+      runs: s?.runs ?? 0,
+      last_run: s?.last_run_ms != null ? iso(s.last_run_ms) : Number.isFinite(lastRun) ? iso(lastRun) : null,
+      last_error: s?.last_error ?? null,
+      trips_analysed: s?.trips_analysed ?? 0,
+      samples_analysed: s?.samples_analysed ?? 0,
+      backlog_vehicles: behind.length - onTrip,
+      on_trip_vehicles: onTrip,
+      watermarks: spans.map((sp) => {
+        const w = wm.get(sp.vehicle);
+        return { vehicle: sp.vehicle, analysed_to: w === undefined ? null : iso(w) };
+      }),
+    },
+  };
+}
+
+/**
+ * The fleet summary, kept encoded: the same results, writes, newest samples and fleet file give the
+ * same answer (its time aside), so a repeat is a buffer write.
+ */
+function fleetPages(x: ApiContext): (c: Context) => Promise<Answer<FleetResponse>> {
+  const { deps } = x;
+  let kept:
+    | { key: string; latest: unknown; fleet: unknown; revision: number; page: JsonPage<FleetResponse> }
+    | undefined;
+  return async (c) => {
+    const all = await x.reader.all();
+    const latest = await x.reader.latest();
+    const fleetNow = deps.fleet.current().input;
+    const key = [...all.values()].map((d) => d.version).join(',');
+    if (
+      kept &&
+      kept.key === key &&
+      kept.latest === latest &&
+      kept.fleet === fleetNow &&
+      kept.revision === deps.workflow.revision()
+    )
+      return kept.page.respond(c);
+    const actions = new Map<string, ReturnType<typeof deps.workflow.allAlertActions>>();
+    for (const a of deps.workflow.allAlertActions())
+      actions.set(a.vehicle, [...(actions.get(a.vehicle) ?? []), a]);
+    const counts = { ok: 0, watch: 0, inspect: 0, unassessed: 0 };
+    const vehicles = [...deps.fleet.current().models.values()].map((m) => {
+      const d = all.get(m.id);
+      const open = alertViews(m.id, d?.result, actions.get(m.id) ?? []).filter(isOpenAlert).length;
+      const s = vehicleSummary(m, d, latest.get(m.id)?.time_ms, open);
+      counts[s.status ?? 'unassessed']++;
+      return s;
+    });
+    const page = JsonPage.of<FleetResponse>({
+      time: iso(x.clock()),
+      counts,
+      vehicles,
+      safety_caution: SAFETY_CAUTION,
+    });
+    kept = { key, latest, fleet: fleetNow, revision: deps.workflow.revision(), page };
+    return page.respond(c);
+  };
+}
+
+/**
+ * One vehicle's page, kept encoded per vehicle: it changes only with the results, a write (any write
+ * bumps the revision), a new sample or a fleet reload.
+ */
+function vehiclePages(x: ApiContext): (c: Context, id: string) => Promise<Answer<VehicleResponse>> {
+  const { deps } = x;
+  const pages = new Map<string, { key: string; page: JsonPage<VehicleResponse> }>();
   let fleetAt = deps.fleet.current().input;
   let fleetGen = 0;
-  let fleetPage:
-    | { key: string; latest: unknown; fleet: unknown; revision: number; page: JsonPage }
-    | undefined;
-  return [
-    route({
-      method: 'get',
-      path: '/api/health',
-      role: null,
-      summary: 'Liveness (no token)',
-      response: healthResponseSchema,
-      handle: async () => ({ ok: true, time: iso(x.clock()) }),
-    }),
-    route({
-      method: 'get',
-      path: '/api/status',
-      role: 'viewer',
-      summary: 'Ingest and analyzer health',
-      response: statusResponseSchema,
-      handle: async (): Promise<StatusResponse> => {
-        let up = true;
-        let error: string | null = null;
-        try {
-          await deps.samples.ping();
-        } catch (e) {
-          up = false;
-          error = (e as Error).message;
-        }
-        const spans = up ? await x.reader.spans() : [];
-        const analyses = deps.results.readAnalyses();
-        const wm = new Map(analyses.map((a) => [a.vehicle, a.analysed_to_ms]));
-        const last = spans.reduce((m, s) => Math.max(m, s.last_ms), Number.NEGATIVE_INFINITY);
-        const letters = up ? (await deps.samples.countDeadLetters()).reduce((n, l) => n + l.count, 0) : 0;
-        const s = deps.analyzer?.stats;
-        const now = x.clock(); // one reading for the whole answer
-        const behind = spans.filter((sp) => (wm.get(sp.vehicle) ?? 0) <= sp.last_ms);
-        const onTrip = behind.filter((sp) => tripGoingOn(sp.last_ms, now)).length;
-        const lastRun = analyses.reduce((m, a) => Math.max(m, a.updated_ms), Number.NEGATIVE_INFINITY);
-        return {
-          time: iso(now),
-          store: { kind: deps.samples.kind, up, error },
-          ingest: {
-            vehicles: spans.length,
-            samples: spans.reduce((n, sp) => n + sp.count, 0),
-            last_sample: Number.isFinite(last) ? iso(last) : null,
-            lag_s: Number.isFinite(last) ? (now - last) / 1000 : null,
-            dead_letters: letters,
-          },
-          analyzer: {
-            running: s?.running ?? false,
-            runs: s?.runs ?? 0,
-            last_run:
-              s?.last_run_ms != null ? iso(s.last_run_ms) : Number.isFinite(lastRun) ? iso(lastRun) : null,
-            last_error: s?.last_error ?? null,
-            trips_analysed: s?.trips_analysed ?? 0,
-            samples_analysed: s?.samples_analysed ?? 0,
-            backlog_vehicles: behind.length - onTrip,
-            on_trip_vehicles: onTrip,
-            watermarks: spans.map((sp) => {
-              const w = wm.get(sp.vehicle);
-              return { vehicle: sp.vehicle, analysed_to: w === undefined ? null : iso(w) };
-            }),
-          },
-        };
-      },
-    }),
-    route({
-      method: 'get',
-      path: '/api/fleet',
-      role: 'viewer',
-      summary:
-        'Every vehicle: status, cause, health per band, margin, limiting ambient, projected date, trend',
-      response: fleetResponseSchema,
-      handle: async ({ c }) => {
-        const all = await x.reader.all();
-        const latest = await x.reader.latest();
-        const fleetNow = deps.fleet.current().input;
-        // Same results, writes, newest samples and fleet file: the same answer (its time aside).
-        const key = [...all.values()].map((d) => d.version).join(',');
-        if (
-          fleetPage &&
-          fleetPage.key === key &&
-          fleetPage.latest === latest &&
-          fleetPage.fleet === fleetNow &&
-          fleetPage.revision === deps.workflow.revision()
-        )
-          return fleetPage.page.respond(c);
-        const actions = new Map<string, ReturnType<typeof deps.workflow.allAlertActions>>();
-        for (const a of deps.workflow.allAlertActions())
-          actions.set(a.vehicle, [...(actions.get(a.vehicle) ?? []), a]);
-        const counts = { ok: 0, watch: 0, inspect: 0, unassessed: 0 };
-        const vehicles = [...deps.fleet.current().models.values()].map((m) => {
-          const d = all.get(m.id);
-          const open = alertViews(m.id, d?.result, actions.get(m.id) ?? []).filter(isOpenAlert).length;
-          const s = vehicleSummary(m, d, latest.get(m.id)?.time_ms, open);
-          counts[s.status ?? 'unassessed']++;
-          return s;
-        });
-        const body: FleetResponse = {
-          time: iso(x.clock()),
-          counts,
-          vehicles,
-          safety_caution: SAFETY_CAUTION,
-        };
-        const page = new JsonPage(JSON.stringify(body));
-        fleetPage = { key, latest, fleet: fleetNow, revision: deps.workflow.revision(), page };
-        return page.respond(c);
-      },
-    }),
-    route({
-      method: 'get',
-      path: '/api/vehicles/:id',
-      role: 'viewer',
-      summary: 'One vehicle: config, health and margin series, alerts, maintenance log, latest trips',
-      response: vehicleResponseSchema,
-      handle: async ({ c, params }) => {
-        const id = params.id!;
-        const model = x.model(id);
-        const data = await x.reader.vehicle(id);
-        const latest = (await x.reader.latest()).get(id);
-        // The page changes only with the results, a write (any write bumps the revision), a new sample
-        // or a fleet reload: it is kept encoded per vehicle under that key.
-        if (deps.fleet.current().input !== fleetAt) {
-          fleetAt = deps.fleet.current().input;
-          fleetGen++;
-        }
-        const key = `${data?.version}:${deps.workflow.revision()}:${latest?.time_ms}:${fleetGen}`;
-        const hit = pages.get(id);
-        if (hit?.key === key) return hit.page.respond(c);
-        const config = fleetAt.vehicles.find((v) => v.id === id)!;
-        const alerts = alertViews(id, data?.result, deps.workflow.alertActions(id));
-        const body: VehicleResponse = {
-          id,
-          config,
-          summary: vehicleSummary(model, data, latest?.time_ms, alerts.filter(isOpenAlert).length),
-          cause_evidence: data?.result.cause_evidence ?? null,
-          notes: data?.assessment.notes ?? [],
-          candidates: data?.assessment.candidates ?? [],
-          series: data?.assessment.series ?? null,
-          alerts,
-          maintenance: maintenanceViews(model, deps.workflow.maintenance(id)),
-          trips: data?.newest_first.slice(0, VEHICLE_RECENT_TRIPS) ?? [],
-          trips_total: data?.result.trips.length ?? 0,
-          safety_caution: SAFETY_CAUTION,
-        };
-        const page = new JsonPage(JSON.stringify(body));
-        pages.set(id, { key, page });
-        return page.respond(c);
-      },
-    }),
-    route({
-      method: 'get',
-      path: '/api/vehicles/:id/trips',
-      role: 'viewer',
-      summary: 'Trips, newest first, filtered by start date and status, paged',
-      query: tripsQuerySchema,
-      response: tripsResponseSchema,
-      handle: async ({ params, query }: { params: Record<string, string>; query: TripsQuery }) => {
-        const id = params.id!;
-        x.model(id);
-        const data = await x.reader.vehicle(id);
-        const from = query.from === undefined ? Number.NEGATIVE_INFINITY : dayStart(query.from);
-        const to = query.to === undefined ? Number.POSITIVE_INFINITY : dayStart(query.to);
-        const hits = (data?.newest_first ?? []).filter((t) => {
-          const s = Date.parse(t.start);
-          return s >= from && s < to && (query.status === undefined || t.status === query.status);
-        });
-        return {
-          vehicle: id,
-          total: hits.length,
-          offset: query.offset,
-          limit: query.limit,
-          trips: hits.slice(query.offset, query.offset + query.limit),
-        };
-      },
-    }),
-    route({
-      method: 'get',
-      path: '/api/rejected',
-      role: 'viewer',
-      summary: 'Refused data per vehicle and reason: ingest dead letters and cleaning rejections',
-      response: rejectedResponseSchema,
-      handle: async (): Promise<RejectedResponse> => {
-        const rows = new Map<string, RejectedResponse['vehicles'][number]>();
-        const row = (v: string) => {
-          let r = rows.get(v);
-          if (!r) rows.set(v, (r = { vehicle: v, ingest: {}, cleaning: {}, total: 0 }));
-          return r;
-        };
-        for (const l of await deps.samples.countDeadLetters()) {
-          const r = row(l.vehicle);
-          r.ingest[l.reason] = (r.ingest[l.reason] ?? 0) + l.count;
-          r.total += l.count;
-        }
-        for (const a of deps.results.readAnalyses()) {
-          for (const [reason, n] of Object.entries(a.rejected)) {
-            const r = row(a.vehicle);
-            r.cleaning[reason] = n;
-            r.total += n;
-          }
-        }
-        const vehicles = [...rows.values()].sort((a, b) => a.vehicle.localeCompare(b.vehicle));
-        return { vehicles, total: vehicles.reduce((n, r) => n + r.total, 0) };
-      },
-    }),
-    route({
-      method: 'get',
-      path: '/api/rejected/letters',
-      role: 'viewer',
-      summary: 'The refused messages, newest first: rule broken, topic and payload excerpt',
-      query: deadLettersQuerySchema,
-      response: deadLettersResponseSchema,
-      handle: async ({ query }: { query: DeadLettersQuery }): Promise<DeadLettersResponse> => {
-        const letters = await deps.samples.readDeadLetters(query);
-        return { letters: letters.map(({ received_ms, ...l }) => ({ received: iso(received_ms), ...l })) };
-      },
-    }),
-  ];
+  return async (c, id) => {
+    const model = x.model(id);
+    const data = await x.reader.vehicle(id);
+    const latest = (await x.reader.latest()).get(id);
+    if (deps.fleet.current().input !== fleetAt) {
+      fleetAt = deps.fleet.current().input;
+      fleetGen++;
+    }
+    const key = `${data?.version}:${deps.workflow.revision()}:${latest?.time_ms}:${fleetGen}`;
+    const hit = pages.get(id);
+    if (hit?.key === key) return hit.page.respond(c);
+    const config = fleetAt.vehicles.find((v) => v.id === id)!;
+    const alerts = alertViews(id, data?.result, deps.workflow.alertActions(id));
+    const page = JsonPage.of<VehicleResponse>({
+      id,
+      config,
+      summary: vehicleSummary(model, data, latest?.time_ms, alerts.filter(isOpenAlert).length),
+      cause_evidence: data?.result.cause_evidence ?? null,
+      notes: data?.assessment.notes ?? [],
+      candidates: data?.assessment.candidates ?? [],
+      series: data?.assessment.series ?? null,
+      alerts,
+      maintenance: maintenanceViews(model, deps.workflow.maintenance(id)),
+      trips: data?.newest_first.slice(0, VEHICLE_RECENT_TRIPS) ?? [],
+      trips_total: data?.result.trips.length ?? 0,
+      safety_caution: SAFETY_CAUTION,
+    });
+    pages.set(id, { key, page });
+    return page.respond(c);
+  };
+}
+
+/** A vehicle's trips, newest first, filtered by start date and status, paged. */
+async function trips(x: ApiContext, id: string, query: TripsQuery): Promise<TripsResponse> {
+  x.model(id);
+  const data = await x.reader.vehicle(id);
+  const from = query.from === undefined ? Number.NEGATIVE_INFINITY : dayStart(query.from);
+  const to = query.to === undefined ? Number.POSITIVE_INFINITY : dayStart(query.to);
+  const hits = (data?.newest_first ?? []).filter((t) => {
+    const s = Date.parse(t.start);
+    return s >= from && s < to && (query.status === undefined || t.status === query.status);
+  });
+  return {
+    vehicle: id,
+    total: hits.length,
+    offset: query.offset,
+    limit: query.limit,
+    trips: hits.slice(query.offset, query.offset + query.limit),
+  };
+}
+
+/** Refused data per vehicle: the ingester's dead letters and the analysis's cleaning rejections. */
+async function rejected(x: ApiContext): Promise<RejectedResponse> {
+  const rows = new Map<string, RejectedResponse['vehicles'][number]>();
+  const row = (v: string) => {
+    let r = rows.get(v);
+    if (!r) rows.set(v, (r = { vehicle: v, ingest: {}, cleaning: {}, total: 0 }));
+    return r;
+  };
+  for (const l of await x.deps.samples.countDeadLetters()) {
+    const r = row(l.vehicle);
+    r.ingest[l.reason] = (r.ingest[l.reason] ?? 0) + l.count;
+    r.total += l.count;
+  }
+  for (const a of x.deps.results.readAnalyses()) {
+    for (const [reason, n] of Object.entries(a.rejected)) {
+      const r = row(a.vehicle);
+      r.cleaning[reason] = n;
+      r.total += n;
+    }
+  }
+  const vehicles = [...rows.values()].sort((a, b) => a.vehicle.localeCompare(b.vehicle));
+  return { vehicles, total: vehicles.reduce((n, r) => n + r.total, 0) };
 }

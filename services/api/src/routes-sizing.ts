@@ -7,18 +7,15 @@ import {
 } from '@thermargin/core/sizing/fleet-sizing';
 import { median } from '@thermargin/core/stats/quantile';
 import { SAFETY_CAUTION } from '@thermargin/shared';
-import {
-  type CalculatorBody,
-  type CalculatorResponse,
-  calculatorBodySchema,
-  calculatorResponseSchema,
-  type SizingResponse,
-  type SizingResultView,
-  sizingResponseSchema,
+import type {
+  CalculatorBody,
+  CalculatorResponse,
+  SizingResponse,
+  SizingResultView,
 } from '@thermargin/shared/sizing-api';
 import type { ApiContext } from './context.ts';
 import { HttpError } from './http-error.ts';
-import { type Route, route } from './route.ts';
+import type { Handlers } from './route.ts';
 import { SizingCache } from './sizing-figures.ts';
 
 /** Compile-time check that the documented schema describes what core returns. */
@@ -68,61 +65,44 @@ function whatIfAnswer(r: SizingResult, s: { ambient_rise_k: number; limit_drop_k
 }
 
 /** The sizing loop on the API: the fleet's figures and the interactive calculator. */
-export function sizingRoutes(x: ApiContext): Route[] {
+export function sizingRoutes(x: ApiContext): Handlers<'sizing' | 'calculator'> {
   const cache = new SizingCache(x.deps, x.clock);
-  return [
-    route({
-      method: 'get',
-      path: '/api/sizing',
-      role: 'viewer',
-      summary:
-        'Fleet sizing figures from the stores, as `thermargin sizing` writes them: field vs bench k, duty cycle, fouling, derates, what if',
-      response: sizingResponseSchema,
-      handle: async (): Promise<SizingResponse> => {
-        const f = await cache.get();
-        return {
-          computed_at: new Date(f.computed_ms).toISOString(),
-          trips_without_samples: f.trips_without_samples,
-          sizing: asView(f.sizing),
-          safety_caution: SAFETY_CAUTION,
-        };
-      },
-    }),
-    route({
-      method: 'post',
-      path: '/api/sizing/calculator',
-      role: 'viewer',
-      summary:
-        'Sizing calculator: required area and what an area supports from the field k, drivetrain comparison, what-if replay',
-      body: calculatorBodySchema,
-      response: calculatorResponseSchema,
-      handle: async ({ body }: { body: CalculatorBody }): Promise<CalculatorResponse> => {
-        const { sizing } = await cache.get();
-        const b = basis(sizing, body.design);
-        const d = body.design;
-        const design = await refusedAs('design', () =>
-          answerDesign({
-            ambient_c: d.ambient_c,
-            heat_kw: d.heat_kw,
-            coolant_limit_c: d.coolant_limit_c,
-            k_w_m2k: b.k_w_m2k,
-            fouling_allowance: b.fouling_allowance,
-            ...(d.area_m2 === undefined ? {} : { area_m2: d.area_m2 }),
-          }),
-        );
-        const drivetrains: DrivetrainComparison = await refusedAs('duty', () =>
-          compareDrivetrains(
-            { ...DEFAULT_DUTY, ...body.duty, ambient_c: d.ambient_c },
-            b.k_w_m2k,
-            b.fouling_allowance,
-          ),
-        );
-        const w = body.what_if;
-        const what_if = w
-          ? whatIfAnswer(await refusedAs('what_if.limit_drop_k', () => cache.whatIf(w)), w)
-          : null;
-        return { basis: b, design, drivetrains, what_if, safety_caution: SAFETY_CAUTION };
-      },
-    }),
-  ];
+  return {
+    sizing: async (): Promise<SizingResponse> => {
+      const f = await cache.get();
+      return {
+        computed_at: new Date(f.computed_ms).toISOString(),
+        trips_without_samples: f.trips_without_samples,
+        sizing: asView(f.sizing),
+        safety_caution: SAFETY_CAUTION,
+      };
+    },
+    calculator: async ({ body }): Promise<CalculatorResponse> => {
+      const { sizing } = await cache.get();
+      const b = basis(sizing, body.design);
+      const d = body.design;
+      const design = await refusedAs('design', () =>
+        answerDesign({
+          ambient_c: d.ambient_c,
+          heat_kw: d.heat_kw,
+          coolant_limit_c: d.coolant_limit_c,
+          k_w_m2k: b.k_w_m2k,
+          fouling_allowance: b.fouling_allowance,
+          ...(d.area_m2 === undefined ? {} : { area_m2: d.area_m2 }),
+        }),
+      );
+      const drivetrains: DrivetrainComparison = await refusedAs('duty', () =>
+        compareDrivetrains(
+          { ...DEFAULT_DUTY, ...body.duty, ambient_c: d.ambient_c },
+          b.k_w_m2k,
+          b.fouling_allowance,
+        ),
+      );
+      const w = body.what_if;
+      const what_if = w
+        ? whatIfAnswer(await refusedAs('what_if.limit_drop_k', () => cache.whatIf(w)), w)
+        : null;
+      return { basis: b, design, drivetrains, what_if, safety_caution: SAFETY_CAUTION };
+    },
+  };
 }

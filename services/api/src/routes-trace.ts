@@ -1,49 +1,34 @@
-import { traceQuerySchema, traceResponseSchema, TRACE_COLUMNS, type TraceResponse } from '@thermargin/shared';
+import { TRACE_COLUMNS, type TraceResponse } from '@thermargin/shared';
 import { cleanSamples } from '@thermargin/core/trip/clean';
 import { ESTIMATOR_DEFAULTS } from '@thermargin/core/trip/estimator-options';
 import { tripSampleView } from '@thermargin/core/trip/sample-view';
 import type { ApiContext } from './context.ts';
 import { notFound } from './http-error.ts';
-import { type Route, route } from './route.ts';
+import type { Handlers } from './route.ts';
 import { traceColumns } from './trace.ts';
 
-export function traceRoutes(x: ApiContext): Route[] {
-  return [
-    route({
-      method: 'get',
-      path: '/api/vehicles/:id/trips/:trip',
-      role: 'viewer',
-      summary:
-        'One trip with its signals, heat, per-sample k and band membership, downsampled (LTTB) for charts',
-      query: traceQuerySchema,
-      response: traceResponseSchema,
-      handle: async ({
-        params,
-        query,
-      }: {
-        params: Record<string, string>;
-        query: { points: number };
-      }): Promise<TraceResponse> => {
-        const id = params.id!;
-        const model = x.model(id);
-        const data = await x.reader.vehicle(id);
-        const trip = data?.result.trips.find((t) => t.trip === params.trip);
-        if (!trip) throw notFound(`trip ${params.trip} of vehicle ${id}`);
-        const raw = await x.deps.samples.readSamples(id, Date.parse(trip.start), Date.parse(trip.end) + 1);
-        // The same cleaning the analysis ran, so the samples shown are the samples used.
-        const { columns: c } = cleanSamples(raw);
-        const view = tripSampleView(c, 0, c.n, model, ESTIMATOR_DEFAULTS);
-        const cols = traceColumns(c, view, query.points, ESTIMATOR_DEFAULTS.max_step_s * 1000);
-        return {
-          vehicle: id,
-          trip,
-          samples: raw.n,
-          points: cols[0]!.length,
-          method: 'lttb',
-          columns: [...TRACE_COLUMNS],
-          data: cols,
-        };
-      },
-    }),
-  ];
+export function traceRoutes(x: ApiContext): Handlers<'trace'> {
+  return {
+    trace: async ({ params, query }): Promise<TraceResponse> => {
+      const id = params.id;
+      const model = x.model(id);
+      const data = await x.reader.vehicle(id);
+      const trip = data?.result.trips.find((t) => t.trip === params.trip);
+      if (!trip) throw notFound(`trip ${params.trip} of vehicle ${id}`);
+      const raw = await x.deps.samples.readSamples(id, Date.parse(trip.start), Date.parse(trip.end) + 1);
+      // The same cleaning the analysis ran, so the samples shown are the samples used.
+      const { columns: c } = cleanSamples(raw);
+      const view = tripSampleView(c, 0, c.n, model, ESTIMATOR_DEFAULTS);
+      const cols = traceColumns(c, view, query.points, ESTIMATOR_DEFAULTS.max_step_s * 1000);
+      return {
+        vehicle: id,
+        trip,
+        samples: raw.n,
+        points: cols[0]!.length,
+        method: 'lttb',
+        columns: [...TRACE_COLUMNS],
+        data: cols,
+      };
+    },
+  };
 }

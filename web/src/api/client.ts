@@ -1,19 +1,10 @@
-import type {
-  AlertView,
-  ApiError,
-  DeadLettersQuery,
-  DeadLettersResponse,
-  FleetResponse,
-  MaintenanceBody,
-  MaintenanceResponse,
-  MeResponse,
-  RejectedResponse,
-  StatusResponse,
-  TraceResponse,
-  TripsResponse,
-  VehicleResponse,
-} from '@thermargin/shared/api';
-import type { CalculatorBody, CalculatorResponse, SizingResponse } from '@thermargin/shared/sizing-api';
+import type { ApiError } from '@thermargin/shared/api';
+import {
+  API_ROUTES,
+  type RouteName,
+  type RouteRequest,
+  type RouteResponse,
+} from '@thermargin/shared/api-routes';
 
 /** A refused or failed request, with the API's own words. */
 export class ApiFailure extends Error {
@@ -28,13 +19,32 @@ export class ApiFailure extends Error {
   }
 }
 
-const enc = encodeURIComponent;
+/** A route's request as arguments: none when it takes no parameters, query or body. */
+type RequestArgs<K extends RouteName> = unknown extends RouteRequest<K> ? [] : [request: RouteRequest<K>];
 
-/** The API over fetch with a bearer token; every route the dashboard uses, typed by the shared contract. */
+/** `path` with each `:param` filled in (encoded) and the query's defined values appended. */
+export function routeUrl(path: string, params: Record<string, string> = {}, query: object = {}): string {
+  const filled = path.replace(/:([A-Za-z_]+)/g, (_, name: string) => encodeURIComponent(params[name] ?? ''));
+  const q = new URLSearchParams();
+  for (const [k, v] of Object.entries(query)) if (v !== undefined) q.set(k, String(v));
+  const text = q.toString();
+  return text ? `${filled}?${text}` : filled;
+}
+
+/**
+ * The API over fetch with a bearer token. `call(name, request)` takes the route's method and path from
+ * the shared route table and is typed by it: the parameters, query and body it needs, the answer it gives.
+ */
 export class ApiClient {
   constructor(private readonly token: string) {}
 
-  async request<T>(method: string, path: string, body?: unknown): Promise<T> {
+  call<K extends RouteName>(name: K, ...args: RequestArgs<K>): Promise<RouteResponse<K>> {
+    const route = API_ROUTES[name];
+    const r = (args[0] ?? {}) as { params?: Record<string, string>; query?: object; body?: unknown };
+    return this.request(route.method.toUpperCase(), routeUrl(route.path, r.params, r.query), r.body);
+  }
+
+  private async request<T>(method: string, path: string, body?: unknown): Promise<T> {
     let res: Response;
     try {
       res = await fetch(path, {
@@ -66,28 +76,4 @@ export class ApiClient {
     }
     return json as T;
   }
-
-  me = () => this.request<MeResponse>('GET', '/api/me');
-  fleet = () => this.request<FleetResponse>('GET', '/api/fleet');
-  status = () => this.request<StatusResponse>('GET', '/api/status');
-  rejected = () => this.request<RejectedResponse>('GET', '/api/rejected');
-  /** The newest refused messages, of one vehicle ('' when unreadable) and reason when given. */
-  letters = (f: Pick<DeadLettersQuery, 'vehicle' | 'reason'>, limit: number) => {
-    const q = new URLSearchParams({ limit: String(limit) });
-    if (f.vehicle !== undefined) q.set('vehicle', f.vehicle);
-    if (f.reason !== undefined) q.set('reason', f.reason);
-    return this.request<DeadLettersResponse>('GET', `/api/rejected/letters?${q}`);
-  };
-  vehicle = (id: string) => this.request<VehicleResponse>('GET', `/api/vehicles/${enc(id)}`);
-  trips = (id: string, offset: number, limit: number) =>
-    this.request<TripsResponse>('GET', `/api/vehicles/${enc(id)}/trips?offset=${offset}&limit=${limit}`);
-  trace = (id: string, trip: string, points: number) =>
-    this.request<TraceResponse>('GET', `/api/vehicles/${enc(id)}/trips/${enc(trip)}?points=${points}`);
-  alertAction = (id: string, alert: string, action: 'acknowledge' | 'close', note: string) =>
-    this.request<AlertView>('POST', `/api/vehicles/${enc(id)}/alerts/${enc(alert)}/${action}`, { note });
-  logMaintenance = (id: string, body: MaintenanceBody) =>
-    this.request<MaintenanceResponse>('POST', `/api/vehicles/${enc(id)}/maintenance`, body);
-  sizing = () => this.request<SizingResponse>('GET', '/api/sizing');
-  calculate = (body: CalculatorBody) =>
-    this.request<CalculatorResponse>('POST', '/api/sizing/calculator', body);
 }

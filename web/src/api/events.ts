@@ -1,4 +1,5 @@
 import type { ApiEvent } from '@thermargin/shared/api';
+import { API_ROUTES } from '@thermargin/shared/api-routes';
 
 export type LiveState = 'connecting' | 'live' | 'retrying';
 
@@ -40,7 +41,7 @@ export function subscribeEvents(
     while (!abort.signal.aborted) {
       onState('connecting');
       try {
-        const res = await fetch('/api/events', {
+        const res = await fetch(API_ROUTES.events.path, {
           headers: { authorization: `Bearer ${token}`, accept: 'text/event-stream' },
           signal: abort.signal,
         });

@@ -28,7 +28,10 @@ function ActionForm({
     e.preventDefault();
     setBusy(true);
     try {
-      await session.api.alertAction(alert.vehicle, alert.id, action, note.trim());
+      await session.api.call(action === 'close' ? 'closeAlert' : 'acknowledgeAlert', {
+        params: { id: alert.vehicle, alert: alert.id },
+        body: { note: note.trim() },
+      });
       onDone();
     } catch (err) {
       setError((err as Error).message);

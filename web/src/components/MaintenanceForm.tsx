@@ -27,10 +27,9 @@ export function MaintenanceForm({
     e.preventDefault();
     setState({ busy: true, error: null, done: false });
     try {
-      await session.api.logMaintenance(vehicle, {
-        date,
-        action,
-        ...(note.trim() ? { note: note.trim() } : {}),
+      await session.api.call('logMaintenance', {
+        params: { id: vehicle },
+        body: { date, action, ...(note.trim() ? { note: note.trim() } : {}) },
       });
       setState({ busy: false, error: null, done: true });
       setNote('');

@@ -187,7 +187,10 @@ export function SizingCalculator({ session, sizing }: { session: Session; sizing
   const [form, setForm] = useState(() => defaultForm(sizing));
   const set = (name: keyof CalculatorForm, v: string) => setForm((f) => ({ ...f, [name]: v }));
   const body = useSettled(JSON.stringify(calculatorBody(form)), SETTLE_MS);
-  const answer = useResource(() => session.api.calculate(JSON.parse(body)), [session, body]);
+  const answer = useResource(
+    () => session.api.call('calculator', { body: JSON.parse(body) }),
+    [session, body],
+  );
   const problems = answer.error instanceof ApiFailure ? answer.error.problems : [];
   return (
     <div class="calc">

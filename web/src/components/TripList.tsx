@@ -64,7 +64,14 @@ export function TripList({
   const pages = Math.max(1, Math.ceil(total / PAGE));
   const res = useResource(
     async () =>
-      page === 0 ? first.slice(0, PAGE) : (await session.api.trips(vehicle, page * PAGE, PAGE)).trips,
+      page === 0
+        ? first.slice(0, PAGE)
+        : (
+            await session.api.call('trips', {
+              params: { id: vehicle },
+              query: { offset: page * PAGE, limit: PAGE },
+            })
+          ).trips,
     [page, vehicle, first],
   );
   return (

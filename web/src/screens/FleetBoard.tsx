@@ -172,7 +172,7 @@ function FleetTable({ fleet }: { fleet: FleetResponse }) {
 /** Fleet board: every vehicle's status at a glance, the margin distribution, and a sortable table. */
 export function FleetBoard({ session }: { session: Session }) {
   const live = useLive();
-  const res = useResource(() => session.api.fleet(), [session, live.version]);
+  const res = useResource(() => session.api.call('fleet'), [session, live.version]);
   return (
     <div class="screen" data-screen="fleet">
       <h1>Fleet board</h1>

@@ -199,13 +199,16 @@ function Health({ s }: { s: StatusResponse }) {
 export function IntakeCheck({ session }: { session: Session }) {
   const live = useLive();
   const [filter, setFilter] = useState<LetterFilter>({});
-  const rejected = useResource(() => session.api.rejected(), [session, live.version]);
+  const rejected = useResource(() => session.api.call('rejected'), [session, live.version]);
   // The answer carries the filter it was asked with: the caption then always describes the rows shown.
   const letters = useResource(
-    () => session.api.letters(filter, LETTERS_SHOWN).then((d) => ({ d, filter })),
+    () =>
+      session.api
+        .call('deadLetters', { query: { limit: LETTERS_SHOWN, ...filter } })
+        .then((d) => ({ d, filter })),
     [session, live.version, filter.vehicle, filter.reason],
   );
-  const status = useResource(() => session.api.status(), [session, live.version]);
+  const status = useResource(() => session.api.call('status'), [session, live.version]);
   return (
     <div class="screen" data-screen="intake">
       <h1>Intake check</h1>

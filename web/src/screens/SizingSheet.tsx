@@ -263,7 +263,7 @@ function Sheet({ r, session }: { r: SizingResponse; session: Session }) {
 export function SizingSheet({ session }: { session: Session }) {
   const live = useLive();
   // New trip results (a live `trip` event bumps the version) can change the figures.
-  const res = useResource(() => session.api.sizing(), [session, live.version]);
+  const res = useResource(() => session.api.call('sizing'), [session, live.version]);
   return (
     <div class="screen" data-screen="sizing">
       <h1>Sizing sheet</h1>

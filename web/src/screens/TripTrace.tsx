@@ -100,7 +100,10 @@ export function TripTrace({
   trip: string;
   points: number;
 }) {
-  const res = useResource(() => session.api.trace(id, trip, points), [session, id, trip, points]);
+  const res = useResource(
+    () => session.api.call('trace', { params: { id, trip }, query: { points } }),
+    [session, id, trip, points],
+  );
   return (
     <div class="screen" data-screen="trip">
       <nav class="crumbs" aria-label="Breadcrumb">

@@ -140,7 +140,10 @@ function Body({ session, v, reload }: { session: Session; v: VehicleResponse; re
 /** Vehicle file: one vehicle's health, margin, cause, alerts, maintenance and trips. */
 export function VehicleFile({ session, id }: { session: Session; id: string }) {
   const live = useLive();
-  const res = useResource(() => session.api.vehicle(id), [session, id, live.version]);
+  const res = useResource(
+    () => session.api.call('vehicle', { params: { id: id } }),
+    [session, id, live.version],
+  );
   return (
     <div class="screen" data-screen="vehicle">
       <nav class="crumbs" aria-label="Breadcrumb">

@@ -10,7 +10,7 @@ const RECENT_MAINTENANCE = 5;
 
 /** A printable work order for one vehicle (the browser prints it, or saves it as PDF). */
 export function WorkOrder({ session, id }: { session: Session; id: string }) {
-  const res = useResource(() => session.api.vehicle(id), [session, id]);
+  const res = useResource(() => session.api.call('vehicle', { params: { id: id } }), [session, id]);
   return (
     <div class="screen work-order" data-screen="work-order">
       <nav class="crumbs no-print" aria-label="Breadcrumb">

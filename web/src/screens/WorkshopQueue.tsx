@@ -27,7 +27,10 @@ function QueueItem({
   onChanged: () => void;
 }) {
   const live = useLive();
-  const detail = useResource(() => session.api.vehicle(v.id), [session, v, live.version]);
+  const detail = useResource(
+    () => session.api.call('vehicle', { params: { id: v.id } }),
+    [session, v, live.version],
+  );
   const [logging, setLogging] = useState(false);
   const changed = () => {
     detail.reload();
@@ -83,7 +86,7 @@ function QueueItem({
 /** Workshop queue: vehicles at watch or inspect by urgency, with their recommendation and actions. */
 export function WorkshopQueue({ session }: { session: Session }) {
   const live = useLive();
-  const res = useResource(() => session.api.fleet(), [session, live.version]);
+  const res = useResource(() => session.api.call('fleet'), [session, live.version]);
   const [page, setPage] = useState(0);
   return (
     <div class="screen" data-screen="queue">

@@ -17,7 +17,7 @@ export const forgetToken = (): void => sessionStorage.removeItem(KEY);
 /** Checks a token and learns its name and role from /api/me; keeps the token in sessionStorage when valid. */
 export async function signIn(token: string): Promise<Session> {
   const api = new ApiClient(token);
-  const me = await api.me();
+  const me = await api.call('me');
   sessionStorage.setItem(KEY, token);
   return { token, role: me.role, name: me.name, api };
 }
