@@ -1,5 +1,5 @@
 /**
- * PEM fuel-cell stack heat from current and voltage (field notes; Larminie & Dicks, *Fuel Cell Systems
+ * PEM fuel-cell stack heat from current and voltage (Larminie & Dicks, *Fuel Cell Systems
  * Explained*, 2nd ed., Wiley 2003): each cell turns I·E_tn of hydrogen enthalpy into I·V_cell of
  * electricity, and the rest is heat, nearly all of it into the coolant.
  */

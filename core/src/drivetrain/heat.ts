@@ -1,5 +1,5 @@
 /**
- * Heat into the coolant loop from traction power, without a coolant flow meter (field notes):
+ * Heat into the coolant loop from traction power, without a coolant flow meter (docs/methods.md §2):
  * energy input = output / η, and a share of that input lands in the coolant.
  */
 

@@ -67,7 +67,7 @@ function rose(
 }
 
 /**
- * Ranks the causes the evidence supports (field notes, "How things go wrong"). Scores are our own
+ * Ranks the causes the evidence supports (docs/operating-bands.md, "What each band shows"). Scores are our own
  * weighting, meant only to order candidates: the main sign of a cause gives 0.5–0.6, each
  * corroborating sign adds 0.15–0.3. A suspect sensor removes fouling and coolant flow from the list:
  * a biased ambient or coolant reading moves k in both bands, and the radiator must not take the blame.

@@ -1,7 +1,7 @@
 import type { Policy } from '@thermargin/shared';
 
 /**
- * The policy's margin and LAT thresholds as margins at the design point. From the field notes,
+ * The policy's margin and LAT thresholds as margins at the design point. From the rating formula,
  * 1 + margin = kA·(T_lim − T_amb,d)/Q and LAT = T_lim − Q/kA, so LAT = T_lim − (T_lim − T_amb,d)/(1 + margin):
  * "LAT below T" is "margin below 100·((T_lim − T_amb,d)/(T_lim − T) − 1)".
  * Example: limit 70 °C, design ambient 40 °C, LAT 45 °C → margin 20 %.

@@ -1,6 +1,6 @@
 /**
- * The simplified radiator rating formula Q = k · A_net · ITD and the figures derived from it (field
- * notes): cooling margin, limiting ambient temperature (LAT, the term of SAE J1393), and the sizing
+ * The simplified radiator rating formula Q = k · A_net · ITD (common practice; docs/methods.md §3) and
+ * the figures derived from it: cooling margin, limiting ambient temperature (LAT, the term of SAE J1393), and the sizing
  * inverses. k in W/(m²·K) of net frontal area, kA in W/K, heat in kW: the ×1000 lives here only.
  */
 
@@ -68,7 +68,7 @@ export function marginPct(
 
 /**
  * °C: limiting ambient temperature, the hottest ambient at which the design heat is still rejected
- * without passing the limit: T_limit − Q / kA (field notes; LAT as SAE J1393 names it).
+ * without passing the limit: T_limit − Q / kA (LAT as SAE J1393 names it).
  * Example: kA 450 W/K, limit 105 °C, 24 kW → 51.67 °C.
  */
 export function limitingAmbient_c(ka_w_k: number, coolant_limit_c: number, heat_kw: number): number {
@@ -82,7 +82,7 @@ export function limitingAmbient_c(ka_w_k: number, coolant_limit_c: number, heat_
 
 /**
  * m² of net frontal area needed to reject `heat_kw` at the design ambient without passing the limit:
- * Q / (k · (T_limit − T_amb)) · (1 + fouling_allowance) (field notes). Throws when the limit is not
+ * Q / (k · (T_limit − T_amb)) · (1 + fouling_allowance). Throws when the limit is not
  * above the ambient. Example: 24 kW, k 800 W/(m²·K), limit 105 °C, ambient 45 °C, allowance 0.1 → 0.55 m².
  */
 export function requiredArea_m2(

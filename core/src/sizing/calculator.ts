@@ -1,7 +1,7 @@
 import { requiredArea_m2, supportedAmbient_c, supportedHeat_kw } from '../radiator/rating.ts';
 
 /**
- * The sizing calculator on the rating formula (field notes):
+ * The sizing calculator on the rating formula (common practice; docs/methods.md §3):
  *   A_req = Q_design / (k_field · (T_limit − T_amb,design)) · (1 + fouling allowance),
  * and its inverses for a given net area, with the fouled k = k_field / (1 + allowance) so the three
  * answers agree. Formulas live in radiator/rating.ts; this puts them together for one design question.

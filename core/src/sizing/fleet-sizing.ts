@@ -43,7 +43,7 @@ export interface SizingResult {
 }
 
 /**
- * Closes the sizing loop for a fleet (field notes): per vehicle, per type (VehicleModel.type) and for
+ * Closes the sizing loop for a fleet (docs/methods.md §6): per vehicle, per type (VehicleModel.type) and for
  * the fleet — field against bench k, duty cycle, fouling rates and allowance, derates, the design
  * point checked against field evidence, the "what if" replay, and a drivetrain comparison at the
  * fleet's median design-point k. `o` must come from resolveSizingOptions (the samples were fed with it).

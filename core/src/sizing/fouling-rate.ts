@@ -121,7 +121,7 @@ export function inspectRatio(
 }
 
 /**
- * Fouling rate per band (field notes: "fouling rate per month or per 1000 km"): Theil–Sen lines of
+ * Fouling rate per band, per month and per 1000 km (docs/methods.md §6): Theil–Sen lines of
  * trip k against days and against km since each cleaning (robust to the odd bad trip; Theil 1950,
  * Sen 1968), as a share of the interval's starting k. The straight line is the conservative reading of
  * fouling that levels off (Kern & Seaton 1959) over the interval observed. Trips in time order.

@@ -1,6 +1,6 @@
 /**
- * The "what if" replay: one trip's recorded heat pushed through a lumped loop (field notes: heat
- * rejected = heat generated − C·dT/dt) against the radiator's field kA at each sample's air condition,
+ * The "what if" replay: one trip's recorded heat pushed through a lumped loop (heat rejected = heat
+ * generated − C·dT/dt, docs/methods.md §6) against the radiator's field kA at each sample's air condition,
  * at a new coolant limit and a raised ambient:
  *   C·dT/dt = Q − kA·(T − T_amb)   while the thermostat is open (T ≥ T_open), else C·dT/dt = Q;
  * each step solved exactly for Q, kA and T_amb held over the step (T → T_∞ = T_amb + Q/kA with time

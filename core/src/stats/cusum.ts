@@ -2,7 +2,7 @@
  * One-sided tabular CUSUM for a downward shift (Page 1954; tabular form as in Montgomery, *Introduction
  * to Statistical Quality Control*): S_t = max(0, S_{t−1} + (μ0 − x_t)/σ − k), signal when S_t > h.
  * The change is estimated to have started after the last time S was 0 (Montgomery).
- * Example: k 0.5, h 5 → in-control ARL 930.9 (check-values §4).
+ * Example: k 0.5, h 5 → one-sided in-control ARL 930.9 (integral equation, docs/methods.md §5).
  */
 export interface CusumDesign {
   /** σ units: reference value (allowance) k, half the shift to detect. */
@@ -48,7 +48,7 @@ export function createCusum(
 /**
  * Siegmund's (1985) approximation of a one-sided CUSUM's ARL for a shift of δ σ:
  * ARL = (e^{−2Δb} + 2Δb − 1) / (2Δ²), Δ = δ − k, b = h + 1.166; b² when Δ = 0.
- * Example: k 0.5, δ 0 → two-sided 169.1 (h 4) and 469.1 (h 5) (check-values §4).
+ * Example: k 0.5, δ 0 → two-sided 169.1 (h 4) and 469.1 (h 5).
  */
 export function siegmundArl(d: CusumDesign, delta: number): number {
   const D = delta - d.k;

@@ -2,7 +2,7 @@
  * EWMA control chart (Roberts 1959; design and run lengths in Lucas & Saccucci 1990, Technometrics
  * 32(1):1–12): z_t = λ·x_t + (1 − λ)·z_{t−1}, z_0 = μ0, limits μ0 ± L·σ·√(λ/(2−λ)·(1 − (1−λ)^{2t})).
  * `asymptotic` drops the (1 − (1−λ)^{2t}) start-up factor, as the published ARL tables do.
- * Example: λ 0.1, L 2.814, asymptotic → two-sided in-control ARL 499.6 (check-values §4).
+ * Example: λ 0.1, L 2.814, asymptotic → two-sided in-control ARL 499.6 (Lucas & Saccucci's table).
  */
 export interface EwmaDesign {
   /** –: smoothing weight λ, 0 < λ ≤ 1. */

@@ -1,8 +1,7 @@
 /**
  * Asymptotic fouling (Kern & Seaton 1959): R_f(t) = R*·(1 − (1 − s)·e^{−t/τ}), deposition minus removal
  * levelling off at R*, from a deposit s·R* at t = 0 (s = 0: clean); t and τ in one unit, and before
- * t = 0 the deposit is the initial one. Example (check-values §5): R* 2e-4 m²K/W, τ 500 h, t 500 h →
- * 1.2642e-4.
+ * t = 0 the deposit is the initial one. Example: R* 2e-4 m²K/W, τ 500 h, t 500 h → 1.2642e-4.
  */
 export function foulingResistance(t: number, rStar: number, tau: number, initialShare = 0): number {
   if (t <= 0) return rStar * initialShare;

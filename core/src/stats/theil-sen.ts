@@ -15,7 +15,7 @@ export interface TheilSenFit {
  * Theil–Sen line (Theil 1950; Sen 1968): slope = median of (y_j − y_i)/(x_j − x_i) over i < j with
  * x_i ≠ x_j. The slope interval takes the order statistics (N ∓ C)/2 of the N pairwise slopes, with
  * C = z·√(n(n−1)(2n+5)/18), the normal approximation to Kendall's S (ties in x ignored).
- * Examples (check-values §11): x 1…5, y [1,2,3,4,100] → slope 1, intercept 0;
+ * Examples (as scipy.stats.theilslopes gives them): x 1…5, y [1,2,3,4,100] → slope 1, intercept 0;
  * x 0…9, y = 2x + 1 with y[9] = −50 → slope 2, intercept 1.
  */
 export function theilSen(x: ArrayLike<number>, y: ArrayLike<number>): TheilSenFit {

@@ -24,7 +24,7 @@ const round = (x: number, digits: number) => {
 };
 
 /**
- * One trip's result: heat load statistics (heat generated into the coolant, field notes), derate time,
+ * One trip's result: heat load statistics (heat generated into the coolant, drivetrain/heat.ts), derate time,
  * temperatures, the band k estimates with intervals, margin and limiting ambient at the design point,
  * and the evidence the health module reads. Each sample holds until the next one, up to max_step_s.
  */

@@ -1,7 +1,7 @@
 import { type AirCondition, FAN_REFERENCE, RAM_REFERENCE } from '../radiator/airside.ts';
 
 /**
- * The two comparable operating bands (field notes): in each, a vehicle compared with its own history
+ * The two comparable operating bands (docs/operating-bands.md): in each, a vehicle compared with its own history
  * cancels most of the air-flow dependence of k.
  * - ram: steady road speed ≥ 60 km/h with the fan ≤ 20 %: air pushed through by the vehicle's motion;
  * - fan: ≤ 20 km/h with the fan ≥ 80 %: air pulled through by the fan, at idle and in crawling traffic.

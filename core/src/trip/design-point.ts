@@ -38,7 +38,7 @@ export interface DesignMargin {
 }
 
 /**
- * Margin and limiting ambient temperature at the design point (field notes; LAT as in SAE J1393), from
+ * Margin and limiting ambient temperature at the design point (radiator/rating.ts; LAT as in SAE J1393), from
  * the design band's k, or from the other band's when the design band had no estimate.
  */
 export function designMargin(v: VehicleModel, k: Record<Band, number | null>): DesignMargin {

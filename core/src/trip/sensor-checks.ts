@@ -10,7 +10,7 @@ export const SENSOR_CHECK_DEFAULTS = {
   stuck_heat_spread_kw: 5,
   /** %, 95: fan duty counted as saturated. */
   fan_saturated_pct: 95,
-  /** h, 6: stop after which the loop is taken as soaked to ambient (field notes: soak check). */
+  /** h, 6: stop after which the loop is taken as soaked to ambient (the soak check, common practice). */
   soak_min_h: 6,
   /** –, 5: samples at key-on whose median gives the soak offset. */
   soak_samples: 5,

@@ -59,8 +59,8 @@ class WindowSums {
 }
 
 /**
- * Radiator-in-charge windows of one trip (field notes: Q = k·A·ITD, heat rejected = heat generated
- * − C·dT/dt, or ρ·cp·V̇·(T_in − T_out) with a flow meter). Per window of ≤ window_s:
+ * Radiator-in-charge windows of one trip (docs/methods.md §4: Q = k·A·ITD, heat rejected = heat
+ * generated − C·dT/dt, or ρ·cp·V̇·(T_in − T_out) with a flow meter). Per window of ≤ window_s:
  *   k_ref = Q̄_rejected / (A · mean(g·ITD)),  g = (v_face / v_face,ref)^n
  * which is exact when k = k_ref·g within the window (airside.ts), so every window's k is referred to
  * its band's reference condition. dT/dt is the least-squares slope of coolant_in_c over the window,

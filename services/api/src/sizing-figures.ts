@@ -20,7 +20,7 @@ export interface SizingFigures {
 const WHAT_IF_KEPT = 8;
 
 /**
- * The fleet's sizing figures from the stores (analyzer/sizing-input.ts, as `thermargin sizing
+ * The fleet's sizing figures from the stores (usecases/sizing-input.ts, as `thermargin sizing
  * --from-store`), computed on first use and kept until new trip results arrive or the fleet file
  * changes: the key is every vehicle's analysis version (bumped on each commit, by any process) and the
  * fleet file's generation. Each vehicle's sample evidence is kept by its own version and model, so a new

@@ -13,7 +13,7 @@ import { tripIdFromTime } from '@thermargin/core/trip/split';
 import { marginNow } from '@thermargin/core/vehicle-result';
 import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
 
-/** What the analyzer stored beside the VehicleResult (see services/analyzer/src/commit.ts). */
+/** What the analyzer stored beside the VehicleResult (see services/usecases/src/commit.ts). */
 export type StoredAssessment = Pick<VehicleAssessment, 'series' | 'notes' | 'candidates'>;
 // Compile-time check that the contract's series schema matches what the core gives.
 const _seriesMatches = (s: VehicleAssessment['series']): HealthSeriesView => s;

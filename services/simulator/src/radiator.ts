@@ -2,15 +2,18 @@ import { glycolCp_j_kgk, glycolDensity_kg_m3 } from '@thermargin/core/properties
 import { type Airside, faceVelocity_ms } from '@thermargin/core/radiator/airside';
 
 /**
- * The simulated radiator. Model chosen (of the two the brief allows): the air side follows the same
+ * The simulated radiator. The air side follows the same
  * power law the core refers k with, k ∝ v_face^n (radiator/airside.ts), so a clean radiator at nominal
  * coolant flow has exactly the k the fleet file's design point and bench figures say. On top of that:
  * - fouling (Kern & Seaton 1959) adds a resistance on the frontal-area basis, 1/k = 1/k_clean + R_f, and
- *   cuts face velocity (debris blocks the fins: field notes, fouling acts mostly through air flow);
+ *   cuts face velocity (debris blocks the fins; on finned coils fouling raises the air-side pressure
+ *   drop far more than it lowers the heat-transfer coefficient, Bell & Groll 2011, so it acts mostly
+ *   through air flow);
  * - the coolant side: with the air taken as a sink at ambient, the coolant stream cools along the core,
  *   ε_c = 1 − e^(−UA/C_c) (the C = 0 case of ε-NTU, Incropera & DeWitt Table 11.3), Q = ε_c·C_c·ITD. UA is
  *   calibrated so that at nominal flow Q = k·A·ITD exactly; less flow (thermostat part-open, pump wear)
- *   then rejects less heat and the radiator temperature drop grows, as in the field notes. The coolant
+ *   then rejects less heat and the radiator temperature drop grows (the coolant-side sign, docs/
+ *   operating-bands.md). The coolant
  *   film's own change with flow is neglected (it is the smaller resistance).
  */
 export interface RadiatorSpec {

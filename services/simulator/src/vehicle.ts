@@ -42,7 +42,7 @@ const draw = (r: Range, rng: Rng, digits = 0): number => {
 /**
  * Draws one vehicle from its archetype (figures vary within the archetype's ranges, from the seed and
  * the id only) and sizes its radiator so that the clean margin at the design point is as drawn:
- *   kA_design = (1 + margin) · Q_design / (T_limit − T_amb,design)   (the field notes' margin, inverted).
+ *   kA_design = (1 + margin) · Q_design / (T_limit − T_amb,design)   (the margin of radiator/rating.ts, inverted).
  */
 export function buildVehicle(b: VehicleBuild, seed: number): SimVehicle {
   const a = b.archetype;

@@ -4,7 +4,7 @@ import { type DeadLetter, storedTime } from './store.ts';
 /**
  * Line protocol for our two measurements, formatted by hand: ids are tag-safe by construction (ids.ts)
  * and signals are finite numbers, so only free text needs escaping. The client's Point class does the
- * same work several times slower (the ceilings doc puts formatting above JSON decoding per point).
+ * same work several times slower, and formatting a point already costs more than decoding its JSON.
  *
  *   samples,vehicle={id} speed_kmh=…,…,trip="{id}" {time ms}
  *   dead_letters,reason={reason}[,vehicle={id}] detail="…",topic="…",excerpt="…",payload_bytes={n}i {time ns}

@@ -12,7 +12,7 @@ import { type InfluxSeries, idLiteral, influxql, timeLiteral } from './influxql.
 import type { DeadLetter, DeadLetterCount, DeadLetterQuery, SampleStore, VehicleSpan } from './store.ts';
 
 export const INFLUX_DEFAULTS = {
-  /** lines per HTTP write: the client splits larger calls (≈ the ceilings doc's best batch size). */
+  /** lines per HTTP write: the client splits larger calls (about InfluxDB's best batch size, bench:ingest). */
   batch_lines: 5000,
   /** retries after a failed write (the client's exponential backoff), before the call rejects. */
   max_retries: 3,
@@ -22,7 +22,7 @@ export const INFLUX_DEFAULTS = {
   /** ms: HTTP timeout of one request. */
   timeout_ms: 10_000,
   /** Gzip write bodies (the client's default): pays on a slow link; on a LAN or loopback it only
-   *  costs CPU (≈ 0.8 µs per line here, about as much as formatting the line) and influxd's to inflate. */
+   *  costs CPU (about as much as formatting the line: DEVELOPERS.md, bench:ingest) and influxd's to inflate. */
   gzip: false,
 };
 

@@ -45,7 +45,7 @@ const COLUMNS = ['vehicle', 'time_ms', 'trip', ...SIGNAL_NAMES] as const;
 
 function schemaSql(): string {
   const signals = SIGNAL_NAMES.map((n) => `${n} REAL${SIGNALS[n].required ? ' NOT NULL' : ''}`).join(', ');
-  // Clustered on (vehicle, time): a trip read is one contiguous range (see the ceilings doc).
+  // Clustered on (vehicle, time): a trip read is one contiguous range of the table, not index lookups.
   return `
     CREATE TABLE IF NOT EXISTS samples (
       vehicle TEXT NOT NULL, time_ms INTEGER NOT NULL, trip TEXT, ${signals},

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { chainEfficiency, energyInput_kw, heatToCoolant_kw } from '@thermargin/core/drivetrain/heat';
 
-describe('drivetrain heat (field notes: heat ≈ power × coolant share ÷ efficiency)', () => {
+describe('drivetrain heat (docs/methods.md §2: heat ≈ power × coolant share ÷ efficiency)', () => {
   it('doc examples', () => {
     expect(chainEfficiency(0.93, 0.93, 0.93)).toBeCloseTo(0.804357, 12);
     expect(energyInput_kw(20, 0.804357)).toBeCloseTo(24.865, 3);

@@ -4,12 +4,13 @@ import { G_MS2, ROAD_LOAD_DEFAULTS, roadLoad } from '@thermargin/core/drivetrain
 const base = { mass_kg: 1000, cda_m2: 0, crr: 0, speed_kmh: 36 };
 
 describe('roadLoad: standard road-load equation (Gillespie 1992, ch. 4)', () => {
-  it('unit checks, check-values §8 (COMPUTED): CdA 1 m², 10 m/s, ρ 1.225 → 612.5 W; 1000 kg, Crr 0.01 → 980.665 W', () => {
+  it('unit checks (computed): CdA 1 m², 10 m/s, ρ 1.225 → 612.5 W; 1000 kg, Crr 0.01 → 980.665 W', () => {
     expect(roadLoad({ ...base, cda_m2: 1, air_density_kg_m3: 1.225 }).aero_kw).toBeCloseTo(0.6125, 12);
     expect(roadLoad({ ...base, crr: 0.01 }).rolling_kw).toBeCloseTo(0.980665, 12);
   });
 
-  // check-values §8 example table (COMPUTED at ρ 1.225), printed to ≥ 2 decimals: asserted to ±0.005 kW.
+  // Worked cases for a car, van, bus and tractor-trailer (computed at ρ 1.225 with Gillespie's road-load
+  // equation), printed to ≥ 2 decimals: asserted to ±0.005 kW.
   for (const [name, mass_kg, cda_m2, crr, speed_kmh, aero, rolling] of [
     ['car', 1500, 0.66, 0.01, 100, 8.664, 4.086],
     ['light van', 3500, 1.6, 0.009, 90, 15.31, 7.72],

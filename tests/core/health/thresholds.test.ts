@@ -4,7 +4,7 @@ import { latForMargin_c, marginForLat_pct, marginThresholds } from '../../../cor
 import { StatusMachine } from '../../../core/src/health/status.ts';
 import { REBASELINES } from '../../../core/src/health/rebaseline.ts';
 
-describe('LAT thresholds as margins (field notes: margin and LAT from the same kA)', () => {
+describe('LAT thresholds as margins (docs/methods.md §3: margin and LAT from the same kA)', () => {
   it('limit 70 °C, design ambient 40 °C: LAT 45 °C ⇔ margin 20 %', () => {
     expect(marginForLat_pct(45, 70, 40)).toBeCloseTo(20, 12);
     expect(latForMargin_c(20, 70, 40)).toBeCloseTo(45, 12);

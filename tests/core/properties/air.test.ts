@@ -17,9 +17,12 @@ describe('dry air', () => {
     [25, 1.1839],
     [40, 1.1272],
     [60, 1.0595],
-  ])('ideal-gas density at %i °C → %f kg/m³ (check-values §2, COMPUTED)', (t, rho) => {
-    expect(dryAirDensity_kg_m3(t)).toBeCloseTo(rho, 4);
-  });
+  ])(
+    'ideal-gas density at %i °C → %f kg/m³ (p/(R·T), U.S. Standard Atmosphere 1976 R, computed)',
+    (t, rho) => {
+      expect(dryAirDensity_kg_m3(t)).toBeCloseTo(rho, 4);
+    },
+  );
 
   it('scales with pressure', () => {
     expect(dryAirDensity_kg_m3(15, 101325 / 2)).toBeCloseTo(0.6125, 4);

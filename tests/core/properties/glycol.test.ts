@@ -12,7 +12,7 @@ import {
 const TEMPS_C = [20, 40, 60, 80, 100] as const;
 const relErr = (actual: number, expected: number) => Math.abs(actual / expected - 1);
 
-describe('glycolMassFraction (volumes mixed at 20 °C, check-values §1, COMPUTED)', () => {
+describe('glycolMassFraction (volumes mixed at 20 °C, computed)', () => {
   // Printed to 3 digits; 40 % is 0.42650, printed 0.427, hence half a digit plus rounding slack.
   for (const [vol, mass] of [
     [30, 0.323],
@@ -38,7 +38,7 @@ describe('glycolMassFraction (volumes mixed at 20 °C, check-values §1, COMPUTE
   });
 });
 
-describe('Melinder (2010) polynomial, mass fraction: check-values §1a (COMPUTED from the NREL SecondaryCoolantProps coefficients)', () => {
+describe('Melinder (2010) polynomial, mass fraction (computed from the NREL SecondaryCoolantProps coefficients)', () => {
   // ρ to 0.1 kg/m³ and cp to 1 J/(kg·K) as printed: asserted to half the last digit (≤ rel 1.6e-4).
   const TABLE: [number, number[], number[]][] = [
     [0.3, [1038.0, 1028.8, 1017.5, 1004.3, 989.4], [3718, 3775, 3829, 3878, 3922]],
@@ -79,13 +79,13 @@ describe('Melinder (2010) polynomial, mass fraction: check-values §1a (COMPUTED
     expect(glycolFreezePoint_c(0)).toBe(0);
   });
 
-  it('at x = 0 the fit gives 997.35 kg/m³ at 20 °C (a fit, not IAPWS; check-values §1a caveat)', () => {
+  it('at x = 0 the fit gives 997.35 kg/m³ at 20 °C (a fit, not IAPWS)', () => {
     expect(glycolDensityByMass_kg_m3(20, 0)).toBeCloseTo(997.35, 2);
   });
 });
 
 describe('against other sources (cross-source tolerances)', () => {
-  // ASHRAE Handbook—Fundamentals, secondary coolants table (volume %, converted to kg/m³; check-values §1b).
+  // ASHRAE Handbook—Fundamentals, secondary coolants table (volume %, converted to kg/m³).
   const ASHRAE: [number, number[]][] = [
     [30, [1046.4, 1037.9, 1027.6, 1015.1, 1000.8]],
     [40, [1060.9, 1051.8, 1040.9, 1027.8, 1012.9]],
@@ -106,11 +106,11 @@ describe('against other sources (cross-source tolerances)', () => {
     });
   });
 
-  it('the commonly quoted 50/50 cp of ≈ 3.5 kJ/(kg·K) holds at 80 °C within ±2 % (check-values §1b note)', () => {
+  it('the commonly quoted 50/50 cp of ≈ 3.5 kJ/(kg·K) holds at 80 °C within ±2 % (common practice)', () => {
     expect(relErr(glycolCp_j_kgk(80, 50), 3500)).toBeLessThanOrEqual(0.02);
   });
 
-  it('freezing point by volume % within ±3 K of the published table (check-values §1c)', () => {
+  it('freezing point by volume % within ±3 K of the published tables (docs/methods.md §1)', () => {
     const table: [number, number][] = [
       [30, -16],
       [40, -25],
@@ -122,7 +122,7 @@ describe('against other sources (cross-source tolerances)', () => {
   });
 
   it('0 % glycol is water-like: IAPWS-95 at 0.101325 MPa within ±0.5 % (ρ) and ±1 % (cp); the fit is not IAPWS', () => {
-    // check-values §1d, COMPUTED with jjgomera/iapws (IAPWS-95); 100 °C at 0.2 MPa.
+    // IAPWS-95, computed with the open iapws library; 100 °C at 0.2 MPa.
     const iapws: [number, number, number][] = [
       [20, 998.207, 4184.1],
       [40, 992.216, 4179.4],

@@ -12,7 +12,7 @@ const ALL: FlowArrangement[] = [
 ];
 
 describe('effectiveness: ε-NTU closed forms (Incropera & DeWitt Table 11.3; Kays & London)', () => {
-  // check-values §3 (COMPUTED from the same closed forms), printed to 4 decimals: asserted to 1e-4.
+  // Computed from the same closed forms (Incropera & DeWitt Table 11.3), printed to 4 decimals: 1e-4.
   const TABLE: [FlowArrangement, number, number[]][] = [
     ['counterflow', 0.5, [0.3623, 0.5647, 0.7746, 0.8744, 0.9572]],
     ['counterflow', 1, [0.3333, 0.5, 0.6667, 0.75, 0.8333]],
@@ -34,7 +34,7 @@ describe('effectiveness: ε-NTU closed forms (Incropera & DeWitt Table 11.3; Kay
     });
   }
 
-  it('C = 0 gives 1 − e^(−NTU) for every arrangement (check-values §3)', () => {
+  it('C = 0 gives 1 − e^(−NTU) for every arrangement', () => {
     const row = [0.3935, 0.6321, 0.8647, 0.9502, 0.9933];
     for (const a of ALL) {
       NTUS.forEach((ntu, i) => {
@@ -45,11 +45,11 @@ describe('effectiveness: ε-NTU closed forms (Incropera & DeWitt Table 11.3; Kay
 
   it('EES example UA 75 W/K, C 50 and 30 W/K (NTU 2.5, C 0.6) → 0.7632 with the approximate form (FOUND)', () => {
     expect(effectiveness('crossflow_unmixed', 2.5, 0.6)).toBeCloseTo(0.7632, 4);
-    // The exact series gives 0.7557 (check-values §3, COMPUTED).
+    // The exact series gives 0.7557 (computed).
     expect(effectiveness('crossflow_unmixed_series', 2.5, 0.6)).toBeCloseTo(0.7557, 4);
   });
 
-  it('approximate and series unmixed forms agree within 0.012 for NTU ≤ 5 (check-values §3; 0.013 by NTU 8)', () => {
+  it('approximate and series unmixed forms agree within 0.012 for NTU ≤ 5 (0.013 by NTU 8)', () => {
     for (const c of [0.1, 0.25, 0.5, 0.75, 1]) {
       for (const ntu of [0.1, 0.25, 0.5, 1, 2, 3, 4, 5]) {
         const gap =

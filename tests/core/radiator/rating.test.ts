@@ -9,7 +9,7 @@ import {
   supportedHeat_kw,
 } from '@thermargin/core/radiator/rating';
 
-describe('simplified rating formula Q = k · A_net · ITD (field notes)', () => {
+describe('simplified rating formula Q = k · A_net · ITD (common practice)', () => {
   it('doc examples (worked numbers)', () => {
     expect(itd_k(95, 30)).toBe(65);
     expect(ratedHeat_kw(1000, 0.5, 65)).toBeCloseTo(32.5, 12);

@@ -20,7 +20,7 @@ describe('forward model building blocks', () => {
     expect(Array.from({ length: 5 }, substream(7, 1))).toEqual(Array.from({ length: 5 }, substream(7, 1)));
   });
 
-  it('crossflow ε matches check-values §3 (COMPUTED closed forms, 1e-4)', () => {
+  it('crossflow ε matches the closed forms of Incropera & DeWitt Table 11.3 (computed, 1e-4)', () => {
     const ntu = [0.5, 1, 2, 3, 5];
     const cmaxMixed05 = [0.3572, 0.542, 0.702, 0.7564, 0.7828];
     const cminMixed05 = [0.3575, 0.5448, 0.7175, 0.7885, 0.8405];
@@ -34,14 +34,14 @@ describe('forward model building blocks', () => {
     });
   });
 
-  it('fluid properties match check-values §1a (Melinder table, 50 vol %) and §2 (ideal-gas air)', () => {
+  it('fluid properties match Melinder (2010) at 50 vol % and the ideal-gas air of the 1976 standard atmosphere', () => {
     expect(coolantRhoCp_j_m3k(80)).toBeCloseTo(1029.2 * 3538, -1);
     expect(coolantRhoCp_j_m3k(50) / ((1056.6 * 3361 + 1043.4 * 3456) / 2)).toBeCloseTo(1, 3);
     expect(airDensity_kg_m3(40)).toBeCloseTo(1.1272, 4);
     expect(airDensity_kg_m3(15)).toBeCloseTo(1.225, 3);
   });
 
-  it('road load matches check-values §8 unit checks', () => {
+  it("road load matches the unit checks of Gillespie's road-load equation", () => {
     const body = {
       mass_kg: 1000,
       cda_m2: 1,
@@ -66,7 +66,7 @@ describe('forward model building blocks', () => {
     }
   });
 
-  it('k is physical: 2–6 kW/(m²·K) at 4–7 m/s (check-values §10), below ρ·cp·v (§9), rising with air and coolant flow', () => {
+  it('k is physical: 2–6 kW/(m²·K) at 4–7 m/s (ε_air·ρ·cp·v, computed), below ρ·cp·v, rising with air and coolant flow', () => {
     for (const v of VEHICLES) {
       const p = { flow_lpm: v.core.coolant_ref_lpm, ambient_c: 25, coolant_in_c: 80 };
       for (const u of [4, 5.5, 7]) {

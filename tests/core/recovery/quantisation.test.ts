@@ -4,9 +4,9 @@ import { VEHICLES } from '../../support/forward-model/vehicles.ts';
 import { ErrorTable, recover, TOLERANCE_PCT } from './harness.ts';
 
 /**
- * Coolant temperatures quantised as SAE J1939 sends them (check-values §7): SPN 1637 at 0.03125 °C
- * and SPN 110 at 1 °C per bit. At 1 °C the radiator ΔT of a few kelvin is coarse (check-values,
- * common practice: "too coarse for coolant-side energy balance"); the estimator must then still be
+ * Coolant temperatures quantised as SAE J1939-71 sends them: SPN 1637 at 0.03125 °C and SPN 110 at
+ * 1 °C per bit. At 1 °C the radiator ΔT of a few kelvin is too coarse for a coolant-side energy
+ * balance (common practice); the estimator must then still be
  * within tolerance or decline with a reason, never report a wrong number.
  */
 const table = new ErrorTable('k recovery, quantised coolant temperatures');

@@ -34,7 +34,7 @@ describe('sizing calculator against the trade facts', () => {
   });
 
   it('answers the inverse questions consistently, with the fouling allowance as a k ÷ (1 + allowance)', () => {
-    // Rating formula Q = k·A·ITD (field notes): 24 kW, k 800, 105 °C, 45 °C, 10 % → 0.55 m² (rating.ts example).
+    // Rating formula Q = k·A·ITD (common practice, docs/methods.md §3): 24 kW, k 800, 105 °C, 45 °C, 10 % → 0.55 m² (rating.ts example).
     const a = answerDesign({
       ambient_c: 45,
       heat_kw: 24,

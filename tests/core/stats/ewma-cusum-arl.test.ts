@@ -32,9 +32,11 @@ const cusum = (h: number, sides: 1 | 2) => () => {
   };
 };
 const RUNS = 10_000;
-const TOL = 0.05; // fixed seed, ±5 % (check-values §4: 10⁴ runs give about ±2 % sd)
+const TOL = 0.05; // fixed seed, ±5 % (sd of a run length ≈ its mean, so 10⁴ runs give about ±1–2 %)
 
-describe('EWMA run lengths (check-values §4, Lucas & Saccucci 1990 tables as computed there)', () => {
+// Reference run lengths computed by the Nyström integral-equation method (docs/methods.md §5); they
+// reproduce the published tables to their printed digits.
+describe('EWMA run lengths (Lucas & Saccucci 1990, Technometrics 32(1), tables)', () => {
   it('limit half-width: λ 0.2, L 3 → 1.0 σ at steady state; start-up factor at t = 1 is λ', () => {
     expect(ewmaHalfWidth({ lambda: 0.2, L: 3, asymptotic: true }, 5)).toBeCloseTo(1, 12);
     expect(ewmaHalfWidth({ lambda: 0.2, L: 3 }, 1)).toBeCloseTo(3 * 0.2, 12);
@@ -49,7 +51,7 @@ describe('EWMA run lengths (check-values §4, Lucas & Saccucci 1990 tables as co
   });
 });
 
-describe('tabular CUSUM k = 0.5 (check-values §4, Montgomery tables as computed there)', () => {
+describe('tabular CUSUM k = 0.5 (Montgomery, Introduction to Statistical Quality Control, tables)', () => {
   it('Siegmund closed form: two-sided ARL0 169.1 (h 4) and 469.1 (h 5), to 1e-3 relative', () => {
     const two = (h: number) => twoSidedArl(siegmundArl({ k: 0.5, h }, 0), siegmundArl({ k: 0.5, h }, 0));
     expect(Math.abs(two(4) / 169.1 - 1)).toBeLessThan(1e-3);

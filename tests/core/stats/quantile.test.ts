@@ -7,7 +7,8 @@ import { describe, expect, it } from 'vitest';
 
 describe('quantiles against simple-statistics 7.12.1 (R type 7)', () => {
   it('matches the check values', () => {
-    // check-values §11: quantile([1,2,3,4], 0.25) = 1.75 in v7.12.1; median of the 11-value set = 9; mad = 1.
+    // simple-statistics 7.12.1 (Hyndman & Fan type 7 since 7.9): quantile([1,2,3,4], 0.25) = 1.75; median
+    // of the 11-value set = 9; mad = 1.
     expect(quantileSorted([1, 2, 3, 4], 0.25)).toBe(1.75);
     expect(median([3, 6, 7, 8, 8, 9, 10, 13, 15, 16, 20])).toBe(9);
     expect(mad([1, 1, 2, 2, 4, 6, 9])).toBe(1);

@@ -5,7 +5,7 @@ import { fitKernSeaton, foulingResistance } from '../../../core/src/stats/kern-s
 import { createRng } from '../../../core/src/stats/prng.ts';
 import { theilSen } from '../../../core/src/stats/theil-sen.ts';
 
-describe('Theil–Sen (check-values §11, scipy.stats.theilslopes as computed there)', () => {
+describe('Theil–Sen (Theil 1950; Sen 1968; reference values from scipy.stats.theilslopes)', () => {
   it('x 1…5, y [1,2,3,4,100] → slope 1, intercept 0 (OLS would give 20, −38)', () => {
     const f = theilSen([1, 2, 3, 4, 5], [1, 2, 3, 4, 100]);
     expect(f.slope).toBe(1);
@@ -46,7 +46,7 @@ describe('Theil–Sen (check-values §11, scipy.stats.theilslopes as computed th
   });
 });
 
-describe('Kern–Seaton asymptotic fouling (check-values §5, COMPUTED)', () => {
+describe('Kern–Seaton asymptotic fouling (Kern & Seaton 1959, Br. Chem. Eng. 4(5); values computed)', () => {
   it('R* 2e-4 m²K/W, τ 500 h: 1.2642e-4, 1.7293e-4, 1.9004e-4 at 500, 1000, 1500 h', () => {
     // The printed values carry 5 digits: half a unit of the last digit is 5e-9.
     expect(Math.abs(foulingResistance(500, 2e-4, 500) - 1.2642e-4)).toBeLessThan(5e-9);

@@ -10,7 +10,7 @@ const sc = createScenario({ days: 2, vehicles: 6, faults: 'none' });
 
 describe('lumped coolant loop', () => {
   it('closes the energy balance over each trip: heat in − out − storage = 0', () => {
-    // first law for the lumped loop (field notes: heat rejected = heat generated − C·dT/dt)
+    // first law for the lumped loop (heat rejected = heat generated − C·dT/dt, docs/methods.md §4)
     for (const id of ['bus-01', 'truck-01', 'van-02']) {
       const v = sc.vehicles.find((x) => x.id === id)!;
       const C = v.config.thermal_mass_kj_per_k;

@@ -52,8 +52,9 @@ describe('createScenario', () => {
   });
 
   it('sizes radiators to plausible figures', () => {
-    // check-values §10 (COMPUTED estimate): 2–6 kW/(m²·K) of frontal area at 4–7 m/s; brief: margins +15…+40 %,
-    // design heat buses 100–150, vans 15–30, truck 150–250 kW; limits fcev 80–85, bev 60–70, ice ≈ 105 °C
+    // k ≈ ε_air·ρ·cp·v_face with ε_air 0.4–0.7: 2–6 kW/(m²·K) of frontal area at 4–7 m/s (computed; no
+    // published figure per frontal area found). The demo's own ranges: margins +15…+40 %, design heat
+    // buses 100–150, vans 15–30, truck 150–250 kW; limits fcev 80–85, bev 60–70, ice ≈ 105 °C.
     const heat = { fcev: [100, 150], bev: [15, 30], ice: [150, 250] } as const;
     const limit = { fcev: [80, 85], bev: [60, 70], ice: [100, 110] } as const;
     for (const v of createScenario().vehicles) {

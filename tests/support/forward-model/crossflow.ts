@@ -1,7 +1,7 @@
 /**
  * ε-NTU of a crossflow radiator core with the coolant mixed across each flat tube and the air unmixed
  * between fins (the usual idealisation of a tube-and-fin radiator). Closed forms as in Incropera &
- * DeWitt, Table 11.3 (table number from memory; values in check-values §3): an independent
+ * DeWitt, Table 11.3 (table number from memory; values in docs/methods.md §3): an independent
  * implementation for the test model, not the core's.
  */
 

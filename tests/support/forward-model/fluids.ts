@@ -1,10 +1,10 @@
 /**
  * Fluid properties the forward model needs, kept apart from the core's own implementations.
  * - Coolant: 50 vol % ethylene glycol (mass fraction 0.527), linear interpolation of the tabulated
- *   Melinder (2010) values in shared/docs/check-values.md §1a; the table's curvature keeps the
- *   interpolation within 0.1 % of the polynomial.
- * - Air: ideal gas at 101 325 Pa, R = 287.05 J/(kg·K) (check-values §2); cp 1007 J/(kg·K) (Incropera
- *   Table A.4 at 300 K, from memory; check-values §2 gives 1005–1007).
+ *   Melinder (2010) values (the polynomial's outputs at 52.7 wt %, computed); the table's curvature keeps
+ *   the interpolation within 0.1 % of the polynomial.
+ * - Air: ideal gas at 101 325 Pa, R = 287.05 J/(kg·K) (U.S. Standard Atmosphere 1976); cp 1007 J/(kg·K)
+ *   (Incropera Table A.4 at 300 K, from memory; 1005–1007 over 250–350 K).
  */
 
 /** vol %: the only concentration the table below describes; vehicles must use it. */

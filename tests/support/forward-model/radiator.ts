@@ -4,11 +4,13 @@ import { AIR_CP_J_KGK, airDensity_kg_m3, coolantRhoCp_j_m3k } from './fluids.ts'
 /**
  * A tube-and-fin radiator core, all conductances per m² of frontal area so cores of any size share
  * the same shape. k(v) comes out of ε-NTU, not a power law:
- * - air side: h ∝ v^m (louvred-fin j-factors give m ≈ 0.5–0.6, check-values §9), with the fin
+ * - air side: h ∝ v^m (louvred-fin j-factors of Davenport 1983 and Chang & Wang 1997 give
+ *   m ≈ 0.5–0.6, from memory), with the fin
  *   efficiency tanh(mL)/mL falling as h rises (mL ∝ √h) and an overall surface efficiency
  *   η_o = 1 − s·(1 − η_f), s the fin share of the air-side area (textbook fin theory);
  * - coolant side: h ∝ V̇^0.8 (turbulent Dittus–Boelter);
- * - fouling: an air-side deposit resistance plus lost face velocity (check-values §5: model both).
+ * - fouling: an air-side deposit resistance plus lost face velocity (both: on finned coils dust raises
+ *   the pressure drop more than it lowers h, Bell & Groll 2011).
  */
 export interface RadiatorCore {
   area_m2: number;

@@ -1,5 +1,6 @@
 /**
- * Shaft power from a simple longitudinal road load (own implementation; check-values §8):
+ * Shaft power from a simple longitudinal road load (own implementation; Gillespie, *Fundamentals of
+ * Vehicle Dynamics*, SAE 1992, ch. 4):
  * F = m·a·(1 + rotating share) + ½·ρ·CdA·v² + m·g·Crr + m·g·grade (small-angle grade).
  * Shaft power is wheel power over the driveline efficiency when driving; when braking an electric
  * drive recovers a share of it (negative power), a combustion engine reports none.

@@ -4,7 +4,8 @@ import { gaussian, type Rng } from './prng.ts';
 
 /**
  * How the telemetry unit reads the loop: sampling interval, white noise, quantisation (SAE J1939
- * resolutions, check-values §7) and which optional sensors are fitted.
+ * resolutions of SAE J1939-71: SPN 110 at 1 °C, SPN 1637 at 0.03125 °C per bit) and which optional
+ * sensors are fitted.
  */
 export interface SensorSpec {
   interval_s: number;

@@ -2,8 +2,9 @@ import type { RadiatorCore } from './radiator.ts';
 import type { VehicleSpec } from './vehicle-spec.ts';
 
 /**
- * Three invented vehicles with plausible figures (field notes; check-values §8–10: k of frontal area
- * 2–6 kW/(m²·K) at 4–7 m/s, design heat 20–150 kW; the van's loop is smaller, 8 kW). Each is tuned so that on a hot day the radiator
+ * Three invented vehicles with plausible figures (docs/methods.md §2–3: road load as in Gillespie 1992;
+ * k of frontal area 2–6 kW/(m²·K) at 4–7 m/s, computed as ε_air·ρ·cp·v with ε_air 0.4–0.7; design heat
+ * 20–150 kW; the van's loop is smaller, 8 kW). Each is tuned so that on a hot day the radiator
  * is in charge in both bands for a good share of a mixed trip.
  */
 

@@ -9,7 +9,7 @@ import { cleanK, type VehicleType, vehicleModel } from './vehicles.ts';
  * Trip-level fleet generator for the health tests: TripResult sequences whose k, margin, LAT, soak
  * offsets and fan/coolant evidence follow one physical story.
  * - Fouling (Kern & Seaton): 1/k = (1/k_clean)·(1 + a·(1 − e^{−t/τ})) from the last cleaning; the fan
- *   band loses `fan_share` of the ram band's a (fouling shows most in ram, field notes).
+ *   band loses `fan_share` of the ram band's a (fouling shows most in ram, docs/operating-bands.md).
  * - Fan fault: airflow × (1 − loss) in the fan band, so k × (1 − loss)^n (k ∝ v^n); the fan then sits
  *   at full duty more often.
  * - Ambient sensor reading high by b: ITD reads b smaller, so k reads ITD/(ITD − b) high; the soak
