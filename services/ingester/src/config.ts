@@ -7,7 +7,7 @@ import { PIPELINE_DEFAULTS } from './pipeline.ts';
 /**
  * MQTT connections per replica. Each carries one message per store write, so this sets how many samples
  * are in flight: with 250-sample messages, 48 keep InfluxDB's writes near its best batch size (16 left
- * them half that and latency-bound: bench:ingest 92 k against 143 k samples/s).
+ * them half that and latency-bound; figures in DEVELOPERS.md, bench:ingest).
  */
 export const DEFAULT_CONNECTIONS = 48;
 

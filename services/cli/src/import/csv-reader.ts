@@ -204,7 +204,7 @@ function isBlankLine(s: Uint8Array, start: number, end: number): boolean {
   return true;
 }
 
-/** bytes read per system call: few large reads win on these machines (≈ 1 µs per call). */
+/** bytes read per system call: few large reads win where a system call is dear (virtual machines). */
 const READ_BYTES = 4 << 20;
 
 /**

@@ -5,8 +5,8 @@ import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
 
 /**
  * Samples buffered per vehicle before complete trips are analysed and released (≈ 1 h at 1 Hz): a
- * fleet file interleaves many vehicles, each holding its buffer (10 demo vehicles in one file: 214 MB
- * peak against 580 MB at 2¹⁸), and results do not depend on it (pieces are cut at trip starts).
+ * file interleaves many vehicles, each holding its buffer (peak memory against a larger buffer:
+ * DEVELOPERS.md, bench figures), and results do not depend on it (pieces are cut at trip starts).
  */
 const FLUSH_SAMPLES = 1 << 12;
 
