@@ -21,7 +21,7 @@ export const SIZING_METHOD: readonly MethodNote[] = Object.freeze([
     topic: 'Duty cycle',
     text: 'Heat into the coolant = max(traction power, 0) × coolant share ÷ drivetrain efficiency, each sample held until the next (at most 10 s). Time-weighted percentiles by speed band and ambient band, read from histograms of 1 % relative bin width (±0.5 %), so memory does not grow with the data.',
     source:
-      'Field notes (heat from telemetry without a flow meter); log-binned histograms as in HDR histograms',
+      'Heat from traction power, coolant share and drivetrain efficiency (thermargin docs/methods.md §2); log-binned histograms as in HDR histograms',
   },
   {
     topic: 'Recorded derates',
@@ -36,12 +36,12 @@ export const SIZING_METHOD: readonly MethodNote[] = Object.freeze([
   {
     topic: 'Fouling allowance and required area',
     text: 'Allowance for a planned cleaning interval: L/(1 − L), L = fitted loss over the interval, so a fouled core still meets the design point at the end of it. A_req = Q_design / (k_field · (T_limit − T_amb,design)) · (1 + allowance), k_field the clean field k moved to the design air condition.',
-    source: 'Field notes (closing the sizing loop)',
+    source: 'The rating formula solved for area, common practice (thermargin docs/methods.md §3)',
   },
   {
     topic: 'What if',
     text: 'Each trip’s recorded heat replayed through a lumped loop, C·dT/dt = Q − kA·(T − T_amb), solved exactly per sample, with the trip’s own field k (else the latest earlier trip’s, else the bench k) at the sample’s speed and fan duty (fan taken at full within 5 K of the limit), the recorded ambient raised and/or the limit lowered. The thermostat holds a warm loop at its opening temperature. Reaching the limit starts a derate, which lasts until the loop is 2 K below the limit (release hysteresis); the heat refused, C·(T − T_limit), is converted to traction energy by η ÷ coolant share. The recorded conditions are replayed too, as a check against the recorded derates. Recorded power is already limited where the vehicle really derated, so the replay understates those events.',
-    source: 'Lumped-capacity loop (field notes: heat rejected = heat generated − C·dT/dt)',
+    source: 'Lumped-capacity loop: heat rejected = heat generated − C·dT/dt (thermargin docs/methods.md §6)',
   },
   {
     topic: 'Drivetrain comparison',
