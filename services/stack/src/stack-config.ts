@@ -1,4 +1,5 @@
 import { readFileSync } from 'node:fs';
+import type { Env } from '@thermargin/shared/env';
 
 /**
  * The variables of `npm start` itself. Everything else goes to the services unchanged, so the same
@@ -34,8 +35,6 @@ export interface StackConfig {
   /** The environment with the config file's entries under it (the environment wins). */
   env: Record<string, string | undefined>;
 }
-
-type Env = Record<string, string | undefined>;
 
 /** The optional config file: a JSON object of the same variable names, e.g. {"STORE_KIND": "influx"}. */
 function configFile(path: string | undefined): Env {
