@@ -66,6 +66,15 @@ function rose(
   return absolute ? s.recent - s.baseline >= rise : s.recent >= s.baseline * (1 + rise);
 }
 
+/** What each cause's rule reads: the bands, the evidence, the options and the policy's watch drop. */
+interface Signs {
+  ram: BandSummary;
+  fan: BandSummary;
+  ev: Evidence;
+  o: HealthOptions;
+  minDrop: number;
+}
+
 /**
  * Ranks the causes the evidence supports (docs/operating-bands.md, "What each band shows"). Scores are our own
  * weighting, meant only to order candidates: the main sign of a cause gives 0.5–0.6, each
@@ -81,36 +90,52 @@ export function rankCauses(
   /** Read only when the fan band has fallen (it searches the band's history). */
   fanStep: () => FanStep | null = () => null,
 ): Candidate[] {
+  const s: Signs = { ram, fan, ev, o, minDrop };
+  const sensor = sensorCandidate(s);
   const out: Candidate[] = [];
-  const sat = rose(ev.saturation, o.fan_saturation_rise, true);
-  const satText =
-    ev.saturation.recent !== null && ev.saturation.baseline !== null
-      ? `fan at full duty ${pct(ev.saturation.recent)} of the time against ${pct(ev.saturation.baseline)} before`
-      : 'fan duty history too short';
-  const dtRose = rose(ev.coolant_dt, o.coolant_dt_rise, false);
+  if (sensor.candidate) out.push(sensor.candidate);
+  const fanFault = fanCandidate(s, sensor.withRun, fanStep);
+  if (fanFault) out.push(fanFault);
+  if (!sensor.suspect) out.push(...coolantSideCandidates(s));
+  const top = Math.max(0, ...out.map((c) => c.score));
+  out.push({ cause: 'none', score: Math.max(0, 1 - top), evidence: 'no change beyond trip-to-trip noise' });
+  return out
+    .map((c) => ({ ...c, score: Math.min(1, Math.max(0, c.score)) }))
+    .sort((a, b) => b.score - a.score);
+}
 
-  const sensorParts: string[] = [];
-  let sensor = 0;
+/**
+ * A biased or stuck sensor: soak checks at key-on beyond tolerance, sensor flags held, or a band fall
+ * that began with the soak checks failing on the side that makes k look smaller. `withRun`: the bands
+ * whose fall that run explains.
+ */
+function sensorCandidate({ ram, fan, ev, o, minDrop }: Signs): {
+  candidate: Candidate | null;
+  suspect: boolean;
+  withRun: BandSummary[];
+} {
+  const parts: string[] = [];
+  let score = 0;
   if (ev.soak.hits >= o.soak_min_hits) {
-    sensor = 0.9;
+    score = 0.9;
     const side = ev.soak.sign < 0 ? 'below' : 'above';
-    sensorParts.push(
+    parts.push(
       `at key-on after a long stop the coolant read ${Math.abs(ev.soak.median_k ?? 0).toFixed(1)} K ${side} ambient on ${ev.soak.hits} of the last ${ev.soak.checks} cold starts (a soaked loop reads ambient within ${o.soak_tolerance_k} K)`,
     );
     if (ev.soak.sign < 0 && ((ram.drop ?? 0) < 0 || (fan.drop ?? 0) < 0)) {
-      sensorParts.push(
+      parts.push(
         'k reads higher than its reference, as an ambient sensor reading high makes it (smaller ITD)',
       );
     }
   }
   if (ev.flags.held) {
-    sensor = Math.max(sensor, 0.7);
+    score = Math.max(score, 0.7);
     const held =
       ev.flags.flagged / ev.flags.trips < o.sensor_flag_share
         ? `, and on ≥ ${pct(o.sensor_flag_share)} of ${o.sensor_flag_window} trips earlier with no clean run of ${o.sensor_flag_window} since`
         : '';
     const examples = ev.flags.examples.length ? ` (${ev.flags.examples.join('; ')})` : '';
-    sensorParts.push(
+    parts.push(
       `implausible signals on ${ev.flags.flagged} of the last ${ev.flags.trips} trips${examples}${held}`,
     );
   }
@@ -126,63 +151,82 @@ export function rankCauses(
         (run.previous_ms !== null && b.segment_start_ms > run.previous_ms)),
   );
   // 0.75: above a fan fault seen in the fan band alone (0.7), below one the holding ram band confirms.
-  if (run && withRun.length && sensor < 0.75) {
-    sensor = 0.75;
-    sensorParts.push(
+  if (run && withRun.length && score < 0.75) {
+    score = 0.75;
+    parts.push(
       `${withRun.map(describe).join(' and ')} since ${isoDay(withRun[0]!.segment_start_ms)}, when the soak check began failing: at key-on the coolant read more than ${o.soak_tolerance_k} K above ambient on the last ${run.checks} cold start${run.checks === 1 ? '' : 's'}, as an ambient sensor reading low (or a coolant sensor reading high) makes k look smaller`,
     );
   }
-  const sensorSuspect = sensor >= o.cause_min_score;
-  if (sensor > 0) {
-    if (sensorSuspect) sensorParts.push('radiator and coolant flow not judged while a sensor is suspect');
-    out.push({ cause: 'sensor', score: sensor, evidence: sensorParts.join('; ') });
-  }
+  const suspect = score >= o.cause_min_score;
+  if (suspect) parts.push('radiator and coolant flow not judged while a sensor is suspect');
+  return {
+    candidate: score > 0 ? { cause: 'sensor', score, evidence: parts.join('; ') } : null,
+    suspect,
+    withRun,
+  };
+}
 
-  if (fell(fan, minDrop)) {
-    let score: number;
-    let text: string;
-    // The ram band only speaks for the fan if it was driven since the fan band fell.
-    const ramSince = ram.last_ms !== null && ram.last_ms >= fan.segment_start_ms;
-    // On a core already fouling the ram band has fallen too: what tells is what fell at the fan's change.
-    // Unless the fall came with the soak check failing: then the sensor explains it as well.
-    const step = withRun.includes(fan) ? null : fanStep();
-    const stepped =
-      step !== null &&
-      step.fall >= minDrop &&
-      step.ram_fall !== null &&
-      step.fall >= FAN_OVER_RAM * step.ram_fall;
-    if (ramSince && held(ram, minDrop)) {
-      score = 0.6;
-      text = `${describe(fan)} while the ${describe(ram)}`;
-    } else if (stepped) {
-      score = 0.6;
-      text = `fan-band k fell ${pct(step!.fall)} from ${isoDay(step!.since_ms)} on, while the ram-band k moved ${pct(step!.ram_fall!)} over the same trips (${describe(fan)}; ${describe(ram)})`;
-    } else if (ram.drop === null || !ramSince) {
-      score = 0.4;
-      text = `${describe(fan)}; the ram band was not reached since, so fouling, a coolant-side loss or a biased temperature sensor cannot be ruled out`;
-    } else if (fan.drop! > 2 * ram.drop + minDrop) {
-      score = 0.45;
-      text = `${describe(fan)}, far more than the ${describe(ram)}`;
-    } else {
-      score = 0;
-      text = '';
-    }
-    if (score > 0) {
-      if (sat) score += 0.3;
-      out.push({ cause: 'fan', score, evidence: `${text}; ${satText}` });
-    }
-  }
+/**
+ * The fan band fallen alone: the ram band holding since, or a step of the fan band at least
+ * FAN_OVER_RAM times the ram band's over the same trips, or far more than the ram band; a fan more
+ * often at full duty corroborates.
+ */
+function fanCandidate(
+  { ram, fan, ev, o, minDrop }: Signs,
+  withRun: readonly BandSummary[],
+  fanStep: () => FanStep | null,
+): Candidate | null {
+  if (!fell(fan, minDrop)) return null;
+  let score: number;
+  let text: string;
+  // The ram band only speaks for the fan if it was driven since the fan band fell.
+  const ramSince = ram.last_ms !== null && ram.last_ms >= fan.segment_start_ms;
+  // On a core already fouling the ram band has fallen too: what tells is what fell at the fan's change.
+  // Unless the fall came with the soak check failing: then the sensor explains it as well.
+  const step = withRun.includes(fan) ? null : fanStep();
+  const stepped =
+    step !== null &&
+    step.fall >= minDrop &&
+    step.ram_fall !== null &&
+    step.fall >= FAN_OVER_RAM * step.ram_fall;
+  if (ramSince && held(ram, minDrop)) {
+    score = 0.6;
+    text = `${describe(fan)} while the ${describe(ram)}`;
+  } else if (stepped) {
+    score = 0.6;
+    text = `fan-band k fell ${pct(step!.fall)} from ${isoDay(step!.since_ms)} on, while the ram-band k moved ${pct(step!.ram_fall!)} over the same trips (${describe(fan)}; ${describe(ram)})`;
+  } else if (ram.drop === null || !ramSince) {
+    score = 0.4;
+    text = `${describe(fan)}; the ram band was not reached since, so fouling, a coolant-side loss or a biased temperature sensor cannot be ruled out`;
+  } else if (fan.drop! > 2 * ram.drop + minDrop) {
+    score = 0.45;
+    text = `${describe(fan)}, far more than the ${describe(ram)}`;
+  } else return null;
+  const sat = rose(ev.saturation, o.fan_saturation_rise, true);
+  const satText =
+    ev.saturation.recent !== null && ev.saturation.baseline !== null
+      ? `fan at full duty ${pct(ev.saturation.recent)} of the time against ${pct(ev.saturation.baseline)} before`
+      : 'fan duty history too short';
+  if (sat) score += 0.3;
+  return { cause: 'fan', score, evidence: `${text}; ${satText}` };
+}
 
-  // Both bands down about alike (fouling takes most from ram air: the fan band keeps more than 15 %
-  // of the ram band's fall back): a coolant-side loss (pump, air in the loop, a thermostat not fully
-  // open) looks so too, and without an outlet temperature nothing tells it from fouling.
+/**
+ * Fouling and a coolant-side loss, judged only while no sensor is suspect. Fouling takes most from ram
+ * air (the fan band keeps more than 15 % of the ram band's fall back); both bands down about alike
+ * looks like a coolant-side loss (pump, air in the loop, a thermostat not fully open) too, which only a
+ * radiator temperature drop per kW rising at the same heat tells apart.
+ */
+function coolantSideCandidates({ ram, fan, ev, o, minDrop }: Signs): Candidate[] {
+  const out: Candidate[] = [];
+  const dtRose = rose(ev.coolant_dt, o.coolant_dt_rise, false);
   const alike =
     ram.drop !== null &&
     fan.drop !== null &&
     fell(ram, minDrop) &&
     fan.drop >= ALIKE * ram.drop &&
     fan.drop <= 1.5 * ram.drop + minDrop;
-  if (!sensorSuspect && fell(ram, minDrop)) {
+  if (fell(ram, minDrop)) {
     let score = 0.5;
     const parts = [describe(ram)];
     if (fan.drop !== null && fan.drop >= 0.2 * ram.drop! && fan.drop <= 1.5 * ram.drop! + minDrop) {
@@ -200,8 +244,7 @@ export function rankCauses(
     if (dtRose) score -= 0.3;
     out.push({ cause: 'fouling', score, evidence: parts.join('; ') });
   }
-
-  if (!sensorSuspect && dtRose) {
+  if (dtRose) {
     const both = fell(ram, minDrop) || fell(fan, minDrop);
     const b = ev.coolant_dt.baseline!;
     const r = ev.coolant_dt.recent!;
@@ -211,18 +254,12 @@ export function rankCauses(
       evidence: `radiator temperature drop per kW up ${pct(r / b - 1)} (${b.toFixed(3)} → ${r.toFixed(3)} K/kW) at the same heat${both ? `; ${describe(ram)}, ${describe(fan)}` : ''}`,
     });
   }
-
-  if (!sensorSuspect && alike && ev.coolant_dt.baseline === null) {
+  if (alike && ev.coolant_dt.baseline === null) {
     out.push({
       cause: 'coolant_flow',
       score: 0.45,
       evidence: `${describe(ram)} and ${describe(fan)}: both bands about alike, as a coolant-side loss would make them; no radiator outlet temperature to confirm it`,
     });
   }
-
-  const top = Math.max(0, ...out.map((c) => c.score));
-  out.push({ cause: 'none', score: Math.max(0, 1 - top), evidence: 'no change beyond trip-to-trip noise' });
-  return out
-    .map((c) => ({ ...c, score: Math.min(1, Math.max(0, c.score)) }))
-    .sort((a, b) => b.score - a.score);
+  return out;
 }
