@@ -19,6 +19,7 @@ export function vehicleResult(
   options: Partial<HealthOptions> = {},
 ): VehicleOutcome {
   const a = assessVehicle(vehicle, trips, options);
+  const now = marginNow(a);
   return {
     result: {
       id: vehicle.id,
@@ -28,6 +29,12 @@ export function vehicleResult(
       cause: a.cause,
       cause_evidence: a.cause_evidence,
       projected_inspect_date: a.projected_inspect_date,
+      projected_inspect_overdue_days: a.projected_inspect_overdue_days,
+      margin_pct: now.margin_pct,
+      limiting_ambient_c: now.limiting_ambient_c,
+      margin_basis: a.series.margin.basis,
+      trend: now.trend,
+      trend_pct_per_30d: now.trend_pct_per_30d,
       alerts: a.alerts,
     },
     assessment: a,
@@ -41,27 +48,27 @@ export function withMaintenance(vehicle: VehicleModel, extra: readonly Maintenan
   return { ...vehicle, maintenance };
 }
 
-/** trips, 10 and % points, 1 (our choice): the trend compares the margin level this many trips back. */
-export const TREND_DEFAULTS = { trips: 10, deadband_pct: 1 } as const;
-
 /**
  * The vehicle's current margin and limiting ambient (the health module's levels at its latest trip)
- * and their direction: the level now against the level `trips` valid trips earlier, beyond a deadband.
+ * and their trend: the one trend of the margin since the governing band's last change (health/trend.ts),
+ * which the finding and the alerts quote too. Results stored before the trend was kept read no trend.
  */
-export function marginNow(
-  a: Pick<VehicleAssessment, 'series'>,
-  o: typeof TREND_DEFAULTS = TREND_DEFAULTS,
-): { margin_pct: number | null; limiting_ambient_c: number | null; trend: Trend | null } {
+export function marginNow(a: Pick<VehicleAssessment, 'series'>): {
+  margin_pct: number | null;
+  limiting_ambient_c: number | null;
+  trend: Trend | null;
+  trend_pct_per_30d: number | null;
+} {
   const m = a.series.margin;
-  const order = a.series.time_ms.map((_, i) => i).sort((x, y) => a.series.time_ms[x]! - a.series.time_ms[y]!);
-  const levels = order.map((i) => m.level_pct[i]!).filter((v): v is number => v !== null);
-  const last = order.at(-1);
-  const margin = last === undefined ? null : m.level_pct[last]!;
-  const lat = last === undefined ? null : m.lat_level_c[last]!;
-  let trend: Trend | null = null;
-  if (margin !== null && levels.length > o.trips) {
-    const d = margin - levels[levels.length - 1 - o.trips]!;
-    trend = d < -o.deadband_pct ? 'falling' : d > o.deadband_pct ? 'rising' : 'steady';
-  }
-  return { margin_pct: margin, limiting_ambient_c: lat, trend };
+  let last: number | undefined;
+  a.series.time_ms.forEach((t, i) => {
+    if (last === undefined || t >= a.series.time_ms[last]!) last = i;
+  });
+  const trend = m.trend ?? null;
+  return {
+    margin_pct: last === undefined ? null : m.level_pct[last]!,
+    limiting_ambient_c: last === undefined ? null : m.lat_level_c[last]!,
+    trend: trend?.word ?? null,
+    trend_pct_per_30d: trend?.pct_per_30d ?? null,
+  };
 }

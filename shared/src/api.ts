@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { NUMERIC_COLUMNS } from './columns.ts';
 import { MAINTENANCE_ACTIONS, maintenanceEntrySchema, vehicleConfigSchema } from './fleet.ts';
 import { idSchema } from './ids.ts';
-import { CAUSES, STATUSES, tripResultSchema } from './results.ts';
+import { CAUSES, MARGIN_SOURCES, STATUSES, TRENDS, tripResultSchema } from './results.ts';
 import { REJECT_REASONS } from './telemetry.ts';
 
 /**
@@ -72,9 +72,6 @@ export const statusResponseSchema = z.object({
 export type StatusResponse = z.infer<typeof statusResponseSchema>;
 
 // ---- GET /api/fleet (viewer): one row per vehicle of the fleet file
-export const TRENDS = ['falling', 'steady', 'rising'] as const;
-export type Trend = (typeof TRENDS)[number];
-
 export const vehicleSummarySchema = z.object({
   id: z.string(),
   type: z.string(),
@@ -90,12 +87,17 @@ export const vehicleSummarySchema = z.object({
   /** °C: the route's hottest expected ambient the limiting ambient is judged against; null when not set. */
   route_max_ambient_c: num,
   margin_basis: z.enum(['ram', 'fan']).nullable(),
+  /** When inspection is due: the projected date, or when the status entered inspect. */
   projected_inspect_date: iso.nullable(),
+  /** Whole days projected_inspect_date lies before the answer's time: overdue; null when ahead or none. */
+  projected_inspect_overdue_days: z.number().int().nullable().optional(),
   /** Newest sample received. */
   last_seen: iso.nullable(),
   last_trip_end: iso.nullable(),
-  /** Direction of the margin level over the latest trips; null when too few. */
+  /** Direction of the margin since the governing band's last change (Theil–Sen, 95 %); null when too few trips. */
   trend: z.enum(TRENDS).nullable(),
+  /** Points of margin per 30 days behind `trend`: the rate the finding and the alerts quote. */
+  trend_pct_per_30d: num.optional(),
   trips: z.number().int(),
   /** Alerts at watch or inspect not yet closed. */
   open_alerts: z.number().int(),
@@ -187,6 +189,20 @@ export const healthSeriesSchema = z.object({
     lat_level_c: col,
     inspect_below_pct: z.number(),
     watch_below_pct: z.number(),
+    /** Where each trip's margin comes from (results.ts MARGIN_SOURCES); absent in results stored before it. */
+    source: z.array(z.enum(MARGIN_SOURCES).nullable()).optional(),
+    /** The margin's trend since the governing band's last change; the tile, finding and alerts quote it. */
+    trend: z
+      .object({
+        word: z.enum(TRENDS),
+        /** Points of margin per 30 days (Theil–Sen), with Sen's 95 % interval. */
+        pct_per_30d: z.number(),
+        pct_per_30d_ci95: z.tuple([z.number(), z.number()]).nullable(),
+        since: iso,
+        trips: z.number().int(),
+      })
+      .nullable()
+      .optional(),
   }),
   projection: z.object({
     method: z.enum(['kern-seaton', 'theil-sen']).nullable(),

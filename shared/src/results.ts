@@ -18,6 +18,19 @@ export const CAUSE_WORD: Record<Cause, string> = {
   sensor: 'sensor fault',
 };
 
+/** Direction of the margin since its last step (core/health/trend.ts). */
+export const TRENDS = ['falling', 'steady', 'rising'] as const;
+export type Trend = (typeof TRENDS)[number];
+
+/**
+ * Where a vehicle result's per-trip margin comes from: `trip`, the trip's own k in the band that
+ * governs the design point; `band_level`, that band's current level (the trip gave it no k, or a
+ * flagged one); `other_band`, the trip's k in the other band moved along the air-side model, while the
+ * governing band has no level yet (margin_basis then names the other band).
+ */
+export const MARGIN_SOURCES = ['trip', 'band_level', 'other_band'] as const;
+export type MarginSource = (typeof MARGIN_SOURCES)[number];
+
 /** Per-trip result of the core computation (see core/trip/analyze-trip.ts). */
 export const tripResultSchema = z.object({
   trip: z.string(),
@@ -57,6 +70,15 @@ export const tripResultSchema = z.object({
   health_ram: nullableNumber.optional(),
   health_fan: nullableNumber.optional(),
   status: z.enum(STATUSES).optional(),
+  /**
+   * Set once the vehicle is assessed: margin_pct, limiting_ambient_c and margin_basis then hold the
+   * design-point margin from the governing band (see MARGIN_SOURCES), and these the trip's own figures
+   * from its k as the trip analysis gave them.
+   */
+  margin_source: z.enum(MARGIN_SOURCES).nullable().optional(),
+  trip_margin_pct: nullableNumber.optional(),
+  trip_limiting_ambient_c: nullableNumber.optional(),
+  trip_margin_basis: z.enum(['ram', 'fan']).nullable().optional(),
 });
 export type TripResult = z.infer<typeof tripResultSchema>;
 
@@ -76,6 +98,16 @@ export const vehicleResultSchema = z.object({
   cause: z.enum(CAUSES).optional(),
   cause_evidence: z.string().optional(),
   projected_inspect_date: z.string().nullable().optional(),
+  /** Calendar days (UTC) projected_inspect_date lies before the vehicle's latest trip end: overdue; null when ahead or none. */
+  projected_inspect_overdue_days: z.number().int().nullable().optional(),
+  /** %, °C: the current margin level at the design point and its limiting ambient (not one trip's). */
+  margin_pct: nullableNumber.optional(),
+  limiting_ambient_c: nullableNumber.optional(),
+  /** The band whose k governs the design point. */
+  margin_basis: z.enum(['ram', 'fan']).optional(),
+  /** The margin's trend since the governing band's last step, and its rate in points per 30 days. */
+  trend: z.enum(TRENDS).nullable().optional(),
+  trend_pct_per_30d: nullableNumber.optional(),
   alerts: z.array(alertSchema).optional(),
 });
 export type VehicleResult = z.infer<typeof vehicleResultSchema>;

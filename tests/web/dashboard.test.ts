@@ -2,7 +2,7 @@ import type { FleetResponse, RejectedResponse, TraceResponse, VehicleResponse } 
 import { SAFETY_CAUTION } from '@thermargin/shared/safety';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { num, STATUS_WORD } from '../../web/src/format.ts';
+import { dueWords, num, STATUS_WORD } from '../../web/src/format.ts';
 import { TRACE_POINTS } from '../../web/src/state/place.ts';
 import { inspectionQueue } from '../../web/src/state/queue.ts';
 import { startWebStack, TOKENS, type WebStack } from '../support/web-stack.ts';
@@ -67,7 +67,16 @@ describe('dashboard in a real browser against the running API', () => {
       expect(await text(page, `${row} [data-col="status"]`)).toBe(STATUS_WORD[v.status ?? 'none']);
       expect(await text(page, `${row} [data-col="margin"]`)).toBe(num(v.margin_pct, '%'));
       expect(await text(page, `${row} [data-col="lat"]`)).toContain(num(v.limiting_ambient_c, '°C'));
+      // A date that has passed reads as overdue, with the date beside it.
+      const due = dueWords(v.projected_inspect_date, v.projected_inspect_overdue_days);
+      const shown = await text(page, `${row} [data-col="projected"]`);
+      expect(shown).toContain(due.due);
+      if (due.late) expect(shown).toContain(due.late);
+      else expect(shown).not.toContain('overdue');
     }
+    expect(
+      fleet.vehicles.some((v) => v.status === 'inspect' && v.projected_inspect_overdue_days !== null),
+    ).toBe(true);
     expect(await text(page, '[data-count="inspect"] strong')).toBe(String(fleet.counts.inspect));
     expect(await text(page, '[data-count="none"] strong')).toBe(String(fleet.counts.unassessed));
     const bins = JSON.parse(
@@ -108,10 +117,15 @@ describe('dashboard in a real browser against the running API', () => {
       if (h === null) expect(health![1]![i]).toBeNull();
       else expect(health![1]![i]).toBeCloseTo(h * 100, 9);
     });
+    // A trip's own margin is a dot, one through the other band a square; a trip that took the band's
+    // level is on the level line only.
     const margin = await chartData(page, 'vehicle-margin');
-    const shown = new Map(margin![0]!.map((t, i) => [t, margin![1]![i]]));
+    const own = new Map(margin![0]!.map((t, i) => [t, margin![1]![i]]));
+    const other = new Map(margin![0]!.map((t, i) => [t, margin![2]![i]]));
     s.time_ms.forEach((t, i) => {
-      expect(shown.get(t)).toBe(s.margin.pct[i]);
+      const source = s.margin.source?.[i];
+      expect(own.get(t)).toBe(source === 'trip' ? s.margin.pct[i] : null);
+      expect(other.get(t)).toBe(source === 'other_band' ? s.margin.pct[i] : null);
     });
     expect(await page.locator('[data-alert]').count()).toBe(v.alerts.length);
     expect(await page.locator('tr[data-trip]').count()).toBe(Math.min(20, v.trips_total));

@@ -1,6 +1,11 @@
-import type { Trend } from '@thermargin/shared/api';
 import type { Powertrain } from '@thermargin/shared/fleet';
-import { CAUSE_WORD, type Cause, type Status } from '@thermargin/shared/results';
+import {
+  CAUSE_WORD,
+  type Cause,
+  type MarginSource,
+  type Status,
+  type Trend,
+} from '@thermargin/shared/results';
 import type { RejectReason } from '@thermargin/shared/telemetry';
 
 export { CAUSE_WORD };
@@ -71,6 +76,41 @@ export function when(iso: string | null | undefined, withTime = true): string {
   const s = new Date(ms).toISOString();
   return withTime ? `${s.slice(0, 10)} ${s.slice(11, 16)} UTC` : s.slice(0, 10);
 }
+
+/**
+ * When inspection is due, in words: the date while it lies ahead; once it has passed, how long overdue
+ * ("overdue 10 d", "overdue since today") with the date beside it.
+ */
+export function dueWords(
+  date: string | null | undefined,
+  overdue_days: number | null | undefined,
+): { due: string; late: string | null } {
+  const due = when(date, false);
+  if (overdue_days === null || overdue_days === undefined || !date) return { due, late: null };
+  return { due, late: overdue_days === 0 ? 'overdue since today' : `overdue ${overdue_days} d` };
+}
+
+/**
+ * Where a trip's margin comes from, in words: its own k in the band governing the design point, that
+ * band's level (the trip gave it no k), or the other band's k through the air-side model.
+ */
+export function marginSourceWords(t: {
+  margin_source?: MarginSource | null | undefined;
+  margin_basis: 'ram' | 'fan' | null;
+}): string | null {
+  switch (t.margin_source) {
+    case 'band_level':
+      return `${t.margin_basis} band level: no ${t.margin_basis}-band k on this trip`;
+    case 'other_band':
+      return `from this trip's ${t.margin_basis}-band k through the air-side model (the governing band has no level yet)`;
+    default:
+      return null;
+  }
+}
+
+/** The margin's rate in points per 30 days ("−4.1 pts/30 d"). */
+export const rateWords = (pct_per_30d: number | null | undefined): string =>
+  `${num(pct_per_30d, 'pts')}/30 d`;
 
 /** "3 h ago" relative to the server's `now`. */
 export function ago(iso: string | null | undefined, now_ms: number): string {

@@ -16,12 +16,20 @@ export class AlertLog {
   private warned = false;
   private alertedCause: Cause = 'none';
 
-  record(time: string, step: StatusStep, c: Candidate, warning: string | null): void {
+  /** `trend`: the margin's trend in words when it moves, read only when an alert goes out. */
+  record(
+    time: string,
+    step: StatusStep,
+    c: Candidate,
+    warning: string | null,
+    trend: () => string | null,
+  ): void {
     if (step.status === 'inspect' && step.changed) this.inspectSince = time;
     if (step.changed || (step.status !== 'ok' && c.cause !== 'none' && c.cause !== this.alertedCause)) {
       this.alertedCause = c.cause;
       const because = step.reasons.length ? step.reasons.join('; ') : 'levels back inside the thresholds';
-      const detail = `${step.status}: ${because}${c.cause === 'none' ? '' : `; likely ${CAUSE_WORD[c.cause]}: ${c.evidence}`}`;
+      const moving = trend();
+      const detail = `${step.status}: ${because}${c.cause === 'none' ? '' : `; likely ${CAUSE_WORD[c.cause]}: ${c.evidence}`}${moving ? `; ${moving}` : ''}`;
       this.alerts.push({
         time,
         status: step.status,

@@ -1,21 +1,30 @@
 import { DAY_MS } from '@thermargin/shared/time';
 import type { Alert, Cause, Status, TripResult } from '@thermargin/shared';
+import type { Band } from '../trip/bands.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
 import type { Candidate } from './causes.ts';
 import { type HealthOptions, resolveHealthOptions } from './options.ts';
 import { type Projection, projectMargin } from './projection.ts';
 import { bandSeries, type HealthSeries, isoOfDay } from './series.ts';
 import { latForMargin_c } from './thresholds.ts';
+import { type MarginTrend, trendWords } from './trend.ts';
+import { ownMargin, type TripMargin } from './trip-margins.ts';
 import { TripWalk } from './walk.ts';
+import { overdueDays } from './due.ts';
 
 export type { HealthOptions } from './options.ts';
 export { HEALTH_DEFAULTS } from './options.ts';
 export type { HealthSeries } from './series.ts';
 
-export interface TripHealth {
+/** What the assessment adds to each trip: health per band, status, and the margin from the governing band. */
+export interface TripHealth extends TripMargin {
   health_ram: number | null;
   health_fan: number | null;
   status: Status;
+  /** The trip's own margin, LAT and basis from its own k (margin_pct may be the band's level instead). */
+  trip_margin_pct: number | null;
+  trip_limiting_ambient_c: number | null;
+  trip_margin_basis: Band | null;
 }
 
 export interface VehicleAssessment {
@@ -25,6 +34,8 @@ export interface VehicleAssessment {
   cause_evidence: string;
   /** ISO time the margin is projected to cross the inspect threshold; when already in inspect, since when; null when the data cannot tell. */
   projected_inspect_date: string | null;
+  /** Whole days that date lies before the latest trip's end (overdue); null when ahead or none. */
+  projected_inspect_overdue_days: number | null;
   alerts: Alert[];
   /** Same order as the input trips. */
   trips: TripHealth[];
@@ -59,6 +70,7 @@ export function assessVehicle(
   for (const [j, i] of order.entries()) walk.visit(trips[i]!, i, j, times[i]!);
   const lastMargin = order.length ? walk.marginLevel[order[order.length - 1]!]! : null;
   const dueSince = walk.status === 'inspect' ? walk.log.inspectSince : null;
+  const trend = walk.trend();
   const proj = projection(walk, o);
   const notes = findingNotes(walk, trips, lastMargin, dueSince, proj);
   const ram = walk.bands.ram.summary();
@@ -67,26 +79,62 @@ export function assessVehicle(
   if (walk.cause.cause === 'none' && (!ram.level || !fan.level || lastMargin === null)) {
     causeEvidence = `not enough data to judge every band: ${notes.join('; ')}`;
   }
+  if (trend && trend.word !== 'steady') causeEvidence = `${causeEvidence}; ${trendWords(trend)}`;
   if (walk.warning && !causeEvidence.includes(walk.warning))
     causeEvidence = `${causeEvidence}; ${walk.warning}`;
+  const date = dueSince ?? isoOfDay(proj.cross_day);
+  const asof = trips.reduce((x, t) => Math.max(x, Date.parse(t.end)), Number.NEGATIVE_INFINITY);
 
   return {
     health: { ram: ram.level?.value ?? null, fan: fan.level?.value ?? null },
     status: walk.status,
     cause: walk.cause.cause,
     cause_evidence: causeEvidence,
-    projected_inspect_date: dueSince ?? isoOfDay(proj.cross_day),
+    projected_inspect_date: date,
+    projected_inspect_overdue_days: overdueDays(date, asof),
     alerts: walk.log.alerts,
-    trips: tripHealth(walk, order),
+    trips: tripHealth(walk, trips, order),
     candidates: walk.candidates,
     notes,
-    series: healthSeries(walk, vehicle, trips, times, order, proj, o),
+    series: healthSeries(
+      walk,
+      vehicle,
+      times,
+      order,
+      dueSince ? dueProjection(proj, dueSince) : proj,
+      trend,
+      o,
+    ),
+  };
+}
+
+/**
+ * Once inspection is due the vehicle's one date is when it became due: the chart's projection says
+ * so instead of a crossing of its own (which may lie ahead when k's health ratio made the status).
+ */
+function dueProjection(p: Projection, since: string): Projection {
+  return {
+    ...p,
+    cross_day: Date.parse(since) / DAY_MS,
+    interval_days: null,
+    reason: `inspection due since ${since.slice(0, 10)}`,
   };
 }
 
 /** Health per trip is read after the walk: the first trips' health is known once their baseline is. */
-function tripHealth(walk: TripWalk, order: readonly number[]): TripHealth[] {
-  const out: TripHealth[] = walk.statuses.map((status) => ({ health_ram: null, health_fan: null, status }));
+function tripHealth(walk: TripWalk, trips: readonly TripResult[], order: readonly number[]): TripHealth[] {
+  const out: TripHealth[] = walk.statuses.map((status, i) => {
+    const own = ownMargin(trips[i]!);
+    return {
+      health_ram: null,
+      health_fan: null,
+      status,
+      ...walk.tripMargins.out[i]!,
+      trip_margin_pct: own.pct,
+      trip_limiting_ambient_c: own.lat,
+      trip_margin_basis: own.basis,
+    };
+  });
   for (const b of ['ram', 'fan'] as const) {
     for (const q of walk.bands[b].points)
       out[order[q.trip]!]![b === 'ram' ? 'health_ram' : 'health_fan'] = q.health;
@@ -94,10 +142,9 @@ function tripHealth(walk: TripWalk, order: readonly number[]): TripHealth[] {
   return out;
 }
 
-/** The margin's projection to the inspect threshold over the whole history since the re-baseline. */
+/** The margin's projection to the inspect threshold over the same margins as its trend. */
 function projection(walk: TripWalk, o: HealthOptions): Projection {
-  const primary = walk.bands[walk.basis].summary();
-  const since = walk.margins.since(primary.period_start_ms);
+  const since = walk.margins.since(walk.trendStart_ms());
   return projectMargin(since.day, since.pct, walk.thresholds.inspect_enter, o);
 }
 
@@ -132,10 +179,10 @@ function findingNotes(
 function healthSeries(
   walk: TripWalk,
   vehicle: VehicleModel,
-  trips: readonly TripResult[],
   times: readonly number[],
   order: readonly number[],
   proj: Projection,
+  trend: MarginTrend | null,
   o: HealthOptions,
 ): HealthSeries {
   const lat = (m: number | null) =>
@@ -147,12 +194,20 @@ function healthSeries(
     fan: bandSeries(walk.bands.fan, order, o),
     margin: {
       basis: walk.basis,
-      pct: trips.map((t) => t.margin_pct),
+      pct: walk.tripMargins.out.map((m) => m.margin_pct),
+      source: walk.tripMargins.out.map((m) => m.margin_source),
       level_pct: walk.marginLevel,
-      lat_c: trips.map((t) => t.limiting_ambient_c),
+      lat_c: walk.tripMargins.out.map((m) => m.limiting_ambient_c),
       lat_level_c: walk.marginLevel.map(lat),
       inspect_below_pct: th.inspect_enter,
       watch_below_pct: th.watch_enter,
+      trend: trend && {
+        word: trend.word,
+        pct_per_30d: trend.pct_per_30d,
+        pct_per_30d_ci95: trend.pct_per_30d_ci95,
+        since: isoOfDay(trend.from_day)!,
+        trips: trend.trips,
+      },
     },
     projection: {
       method: proj.method,

@@ -238,8 +238,9 @@ function coolantSideCandidates({ ram, fan, ev, o, minDrop }: Signs): Candidate[]
       ram.level?.slope_per_day !== undefined &&
       ram.level.slope_per_day < 0
     ) {
+      // The rate is the margin's, quoted once beside the finding (trend.ts), not this band's own.
       score += 0.15;
-      parts.push(`falling steadily (${(100 * ram.level.slope_per_day * 30).toFixed(1)} % per 30 days)`);
+      parts.push('ram-band k still falling');
     }
     if (dtRose) score -= 0.3;
     out.push({ cause: 'fouling', score, evidence: parts.join('; ') });

@@ -3,6 +3,7 @@ import { createRng } from '../stats/prng.ts';
 import { quantileSorted } from '../stats/quantile.ts';
 import { theilSen } from '../stats/theil-sen.ts';
 import type { HealthOptions } from './options.ts';
+import { marginTrend } from './trend.ts';
 
 export interface Projection {
   /** Model the date comes from; null when there was nothing to project. */
@@ -62,14 +63,9 @@ export function fitAsymptotic(t: readonly number[], m: readonly number[]): Model
   };
 }
 
-const MIN_TRIPS = 8;
-const MIN_SPAN_DAYS = 7;
-/** trips: longest history a projection is fitted to (keeps the bootstrap cheap). */
-export const MAX_TRIPS = 120;
-
 /**
- * When will the design-point margin cross `threshold_pct`? Only when the margin falls significantly
- * (Sen's interval for the Theil–Sen slope below 0). Kern–Seaton when it levels off within the data,
+ * When will the design-point margin cross `threshold_pct`? Only when the margin's trend (trend.ts) is
+ * falling: Sen's interval for the Theil–Sen slope below 0. Kern–Seaton when it levels off within the data,
  * else the Theil–Sen line. The interval: Sen's slope interval for the line, widened by a residual
  * bootstrap of the Kern–Seaton fit when that is the model. A line's interval covers noise, not the
  * levelling off of asymptotic fouling, so it errs early: the safe side for maintenance.
@@ -80,8 +76,6 @@ export function projectMargin(
   threshold_pct: number,
   o: HealthOptions,
 ): Projection {
-  const t = day.slice(-MAX_TRIPS);
-  const m = margin_pct.slice(-MAX_TRIPS);
   const none = (
     reason: string,
     method: Projection['method'] = null,
@@ -94,13 +88,10 @@ export function projectMargin(
     curve,
     reason,
   });
-  if (t.length < MIN_TRIPS || t[t.length - 1]! - t[0]! < MIN_SPAN_DAYS) {
-    return none(
-      `margin trend not judged: ${t.length} trips over ${(t.length ? t[t.length - 1]! - t[0]! : 0).toFixed(0)} days since the last change (needs ${MIN_TRIPS} over ${MIN_SPAN_DAYS})`,
-    );
-  }
-  const ci = theilSen(t, m).slope_ci95;
-  if (!ci || ci[1] >= 0) return none('margin shows no significant downward trend');
+  const read = marginTrend(day, margin_pct);
+  if (read.trend === null) return none(read.reason);
+  if (read.trend.word !== 'falling') return none('margin shows no significant downward trend');
+  const { day: t, pct: m } = read;
   const ks = fitAsymptotic(t, m);
   const asym = ks !== null;
   const model = ks ?? fitLine(t, m);

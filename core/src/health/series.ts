@@ -1,3 +1,4 @@
+import type { MarginSource, Trend } from '@thermargin/shared';
 import { DAY_MS } from '@thermargin/shared/time';
 import type { Band } from '../trip/bands.ts';
 import type { BandMonitor } from './band-monitor.ts';
@@ -31,12 +32,22 @@ export interface BandSeries {
 export interface MarginSeries {
   /** The band whose k stands for the design point; only its trips feed the margin level. */
   basis: Band;
+  /** Each trip's margin from the governing band, and where it comes from (trip-margins.ts). */
   pct: (number | null)[];
+  source: (MarginSource | null)[];
   level_pct: (number | null)[];
   lat_c: (number | null)[];
   lat_level_c: (number | null)[];
   inspect_below_pct: number;
   watch_below_pct: number;
+  /** The margin's trend since the governing band's last change (trend.ts); null when not judged. */
+  trend: {
+    word: Trend;
+    pct_per_30d: number;
+    pct_per_30d_ci95: [number, number] | null;
+    since: string;
+    trips: number;
+  } | null;
 }
 
 export interface ProjectionSeries {

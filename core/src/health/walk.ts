@@ -11,7 +11,9 @@ import { MarginTrack } from './margin-track.ts';
 import type { HealthOptions } from './options.ts';
 import { rebaselineTimes_ms } from './rebaseline.ts';
 import { StatusMachine } from './status.ts';
-import { type MarginThresholds, marginThresholds } from './thresholds.ts';
+import { latForMargin_c, type MarginThresholds, marginThresholds } from './thresholds.ts';
+import { type MarginTrend, marginTrend, trendWords } from './trend.ts';
+import { ownMargin, TripMargins } from './trip-margins.ts';
 
 /** Top cause if it scores enough, else none. */
 function pickCause(c: readonly Candidate[], min: number): Candidate {
@@ -32,8 +34,9 @@ export class TripWalk {
   readonly thresholds: MarginThresholds;
   readonly margins = new MarginTrack();
   readonly log = new AlertLog();
-  /** Per trip in input order: the margin level after it, and the status. */
+  /** Per trip in input order: the margin level after it, its margin from the governing band, and the status. */
   readonly marginLevel: (number | null)[];
+  readonly tripMargins: TripMargins;
   readonly statuses: Status[];
   status: Status = 'ok';
   cause: Candidate;
@@ -61,6 +64,9 @@ export class TripWalk {
     this.evidence = new EvidenceTracker(vehicle.maintenance, o);
     this.minDrop = p.watch_health_drop_pct / 100;
     this.marginLevel = new Array<number | null>(n).fill(null);
+    this.tripMargins = new TripMargins(n, this.basis, (m) =>
+      latForMargin_c(m, vehicle.coolant_limit_c, vehicle.design.ambient_c),
+    );
     this.statuses = new Array<Status>(n);
     this.cause = pickCause(
       rankCauses(this.bands.ram.summary(), this.bands.fan.summary(), this.evidence.read(), o, this.minDrop),
@@ -70,6 +76,8 @@ export class TripWalk {
 
   /** Takes trip `t` (input index `i`, time-order index `j`, start `ms`). */
   visit(t: TripResult, i: number, j: number, ms: number): void {
+    const changes = this.bands[this.basis].changes;
+    const known = changes.length;
     this.observe(t, j, ms);
     const ram = this.bands.ram.summary();
     const fan = this.bands.fan.summary();
@@ -77,6 +85,9 @@ export class TripWalk {
     const level = this.margins.level(primary, this.o);
     const m = this.margins.judged(level, primary);
     this.marginLevel[i] = m;
+    const bandLevel = m ?? this.margins.segmentMedian(primary, this.o);
+    this.tripMargins.take(t, i, ms, bandLevel);
+    if (changes.length > known) this.tripMargins.changed(changes[changes.length - 1]!.since_ms, bandLevel);
     const c = this.judgeCause(ram, fan);
     const step = this.machine.step({
       margin_pct: m,
@@ -95,7 +106,10 @@ export class TripWalk {
             this.vehicle.policy.hysteresis_margin_pct,
           )
         : null;
-    this.log.record(t.end, step, c, this.warning);
+    this.log.record(t.end, step, c, this.warning, () => {
+      const tr = this.trend();
+      return tr && tr.word !== 'steady' ? trendWords(tr) : null;
+    });
     this.status = step.status;
     this.cause = c;
     this.statuses[i] = step.status;
@@ -107,8 +121,27 @@ export class TripWalk {
     this.bands.ram.push(j, ms, flagged ? null : t.k_ram_w_m2k);
     this.bands.fan.push(j, ms, flagged ? null : t.k_fan_w_m2k);
     this.evidence.push(t, ms);
-    if (!flagged && t.margin_pct !== null && t.margin_basis === this.basis)
-      this.margins.push(ms, t.margin_pct);
+    const own = ownMargin(t);
+    if (!flagged && own.pct !== null && own.basis === this.basis) this.margins.push(ms, own.pct);
+  }
+
+  /**
+   * Where the margin's trend and projection start: its latest step since the governing band's
+   * re-baseline (MarginTrack.lastStep_ms), so neither is a fit across one.
+   */
+  trendStart_ms(): number {
+    const band = this.bands[this.basis];
+    return this.margins.lastStep_ms(
+      band.summary().period_start_ms,
+      band.periodChanges().map((c) => c.since_ms),
+      this.o,
+    );
+  }
+
+  /** The margin's trend since trendStart_ms, as of the latest trip. */
+  trend(): MarginTrend | null {
+    const since = this.margins.since(this.trendStart_ms());
+    return marginTrend(since.day, since.pct).trend;
   }
 
   private judgeCause(ram: BandSummary, fan: BandSummary): Candidate {

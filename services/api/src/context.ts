@@ -34,6 +34,6 @@ export class ApiContext {
     const data = await this.reader.vehicle(id);
     const latest = (await this.reader.latest()).get(id);
     const open = alertViews(id, data?.result, this.deps.workflow.alertActions(id)).filter(isOpenAlert).length;
-    return vehicleSummary(model, data, latest?.time_ms, open);
+    return vehicleSummary(model, data, latest?.time_ms, open, this.clock());
   }
 }

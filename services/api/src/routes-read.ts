@@ -10,6 +10,7 @@ import {
   type VehicleResponse,
 } from '@thermargin/shared';
 import type { Context } from 'hono';
+import { utcDay } from '@thermargin/core/health/due';
 import { tripGoingOn } from '@thermargin/core/trip/split';
 import type { ApiContext } from './context.ts';
 import { JsonPage } from './json-page.ts';
@@ -88,8 +89,8 @@ async function status(x: ApiContext): Promise<StatusResponse> {
 }
 
 /**
- * The fleet summary, kept encoded: the same results, writes, newest samples and fleet file give the
- * same answer (its time aside), so a repeat is a buffer write.
+ * The fleet summary, kept encoded: the same results, writes, newest samples, fleet file and day give
+ * the same answer (its time aside), so a repeat is a buffer write.
  */
 function fleetPages(x: ApiContext): (c: Context) => Promise<Answer<FleetResponse>> {
   const { deps } = x;
@@ -100,7 +101,9 @@ function fleetPages(x: ApiContext): (c: Context) => Promise<Answer<FleetResponse
     const all = await x.reader.all();
     const latest = await x.reader.latest();
     const fleetNow = deps.fleet.current().input;
-    const key = [...all.values()].map((d) => d.version).join(',');
+    // The day counts too: an inspection date passes into overdue by it.
+    const now = x.clock();
+    const key = `${[...all.values()].map((d) => d.version).join(',')}@${utcDay(now)}`;
     if (
       kept &&
       kept.key === key &&
@@ -116,7 +119,7 @@ function fleetPages(x: ApiContext): (c: Context) => Promise<Answer<FleetResponse
     const vehicles = [...deps.fleet.current().models.values()].map((m) => {
       const d = all.get(m.id);
       const open = alertViews(m.id, d?.result, actions.get(m.id) ?? []).filter(isOpenAlert).length;
-      const s = vehicleSummary(m, d, latest.get(m.id)?.time_ms, open);
+      const s = vehicleSummary(m, d, latest.get(m.id)?.time_ms, open, now);
       counts[s.status ?? 'unassessed']++;
       return s;
     });
@@ -133,7 +136,7 @@ function fleetPages(x: ApiContext): (c: Context) => Promise<Answer<FleetResponse
 
 /**
  * One vehicle's page, kept encoded per vehicle: it changes only with the results, a write (any write
- * bumps the revision), a new sample or a fleet reload.
+ * bumps the revision), a new sample, a fleet reload or the day (an inspection date turns overdue).
  */
 function vehiclePages(x: ApiContext): (c: Context, id: string) => Promise<Answer<VehicleResponse>> {
   const { deps } = x;
@@ -148,7 +151,8 @@ function vehiclePages(x: ApiContext): (c: Context, id: string) => Promise<Answer
       fleetAt = deps.fleet.current().input;
       fleetGen++;
     }
-    const key = `${data?.version}:${deps.workflow.revision()}:${latest?.time_ms}:${fleetGen}`;
+    const now = x.clock();
+    const key = `${data?.version}:${deps.workflow.revision()}:${latest?.time_ms}:${fleetGen}@${utcDay(now)}`;
     const hit = pages.get(id);
     if (hit?.key === key) return hit.page.respond(c);
     const config = fleetAt.vehicles.find((v) => v.id === id)!;
@@ -156,7 +160,7 @@ function vehiclePages(x: ApiContext): (c: Context, id: string) => Promise<Answer
     const page = JsonPage.of<VehicleResponse>({
       id,
       config,
-      summary: vehicleSummary(model, data, latest?.time_ms, alerts.filter(isOpenAlert).length),
+      summary: vehicleSummary(model, data, latest?.time_ms, alerts.filter(isOpenAlert).length, now),
       cause_evidence: data?.result.cause_evidence ?? null,
       notes: data?.assessment.notes ?? [],
       candidates: data?.assessment.candidates ?? [],

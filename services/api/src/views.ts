@@ -10,6 +10,7 @@ import type { StoredAnalysis } from '@thermargin/store/sqlite-analysis-store';
 import type { AlertAction, RecordedMaintenance } from '@thermargin/store/sqlite-workflow';
 import type { VehicleAssessment } from '@thermargin/core/health/assess';
 import { tripIdFromTime } from '@thermargin/core/trip/split';
+import { overdueDays } from '@thermargin/core/health/due';
 import { marginNow } from '@thermargin/core/vehicle-result';
 import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
 
@@ -82,11 +83,13 @@ export function maintenanceViews(
   return [...fleet, ...api].sort((a, b) => a.date.localeCompare(b.date));
 }
 
+/** One vehicle's row; `now_ms` (the API's clock) tells whether its inspection date is overdue. */
 export function vehicleSummary(
   model: VehicleModel,
   data: VehicleData | undefined,
   last_seen_ms: number | undefined,
   open_alerts: number,
+  now_ms: number,
 ): VehicleSummary {
   const r = data?.result;
   const now = data ? marginNow(data.assessment) : null;
@@ -102,9 +105,11 @@ export function vehicleSummary(
     route_max_ambient_c: model.route_max_ambient_c,
     margin_basis: data?.assessment.series.margin.basis ?? null,
     projected_inspect_date: r?.projected_inspect_date ?? null,
+    projected_inspect_overdue_days: overdueDays(r?.projected_inspect_date ?? null, now_ms),
     last_seen: last_seen_ms === undefined ? null : new Date(last_seen_ms).toISOString(),
     last_trip_end: data?.newest_first[0]?.end ?? null,
     trend: now?.trend ?? null,
+    trend_pct_per_30d: now?.trend_pct_per_30d ?? null,
     trips: r?.trips.length ?? 0,
     open_alerts,
   };

@@ -19,6 +19,7 @@ import {
 import { createInfluxStore, type SampleStore } from '@thermargin/store';
 import { createScenario, publishScenario } from '@thermargin/simulator';
 import { resolveFleet } from '@thermargin/core/vehicle/resolve';
+import { overdueDays } from '@thermargin/core/health/due';
 import { vehicleResult } from '@thermargin/core/vehicle-result';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { type InfluxServer, startInflux } from '../../support/servers/influx.ts';
@@ -119,6 +120,10 @@ describe('API against the running stack (Mosquitto → ingester → InfluxDB →
         cause: r.cause,
         health: r.health,
         projected_inspect_date: r.projected_inspect_date,
+        // As of the API's clock: a date that has passed reads as overdue.
+        projected_inspect_overdue_days: overdueDays(r.projected_inspect_date ?? null, now_ms),
+        trend: r.trend,
+        trend_pct_per_30d: r.trend_pct_per_30d,
         trips: r.trips.length,
         last_trip_end: r.trips.at(-1)!.end,
       });

@@ -136,14 +136,20 @@ export function MarginChart({
     if (p.date)
       markers.push({
         x: Date.parse(p.date),
-        label: `projected inspection ${when(p.date, false)}`,
+        label: `${Date.parse(p.date) <= last ? 'inspection due since' : 'projected inspection'} ${when(p.date, false)}`,
         color: INK.violet,
         dash: DASH.dashed,
       });
+    // A trip's own margin is a dot; one through the other band's k a hollow square; one that is the
+    // governing band's level (the trip gave that band no k) lies on the level line and is not repeated.
+    const kind = (i: number) => m.source?.[i] ?? 'trip';
+    const own = m.pct.map((v, i) => (kind(i) === 'trip' ? v : null));
+    const other = m.pct.map((v, i) => (kind(i) === 'other_band' ? v : null));
     return {
       data: [
         xs,
-        at(s.time_ms, m.pct),
+        at(s.time_ms, own),
+        at(s.time_ms, other),
         at(s.time_ms, m.level_pct),
         at(p.curve.time_ms, p.curve.margin_pct),
         at(s.time_ms, m.lat_level_c),
@@ -151,6 +157,10 @@ export function MarginChart({
       ] as uPlot.AlignedData,
       series: [
         { ...dots('margin per trip', INK.slate), value: (_u: uPlot, v: number | null) => num(v, '%') },
+        {
+          ...dots(`margin per trip via the ${m.basis === 'fan' ? 'ram' : 'fan'} band`, INK.slate, 'square'),
+          value: (_u: uPlot, v: number | null) => num(v, '%'),
+        },
         line('margin level', INK.blue, DASH.solid, '%'),
         line('projected margin', INK.violet, DASH.dashed, '%'),
         line('limiting ambient (level)', INK.orange, DASH.long, '°C', 'degC'),
@@ -201,7 +211,7 @@ export function MarginChart({
     <Chart
       id="vehicle-margin"
       title="Margin and limiting ambient temperature over time, with the projection"
-      summary={`inspect threshold ${num(s.margin.inspect_below_pct, '%', 0)}; projected inspection ${when(p.date, false)}${p.interval ? ` (interval ${when(p.interval[0], false)} to ${when(p.interval[1], false)})` : ''}`}
+      summary={`inspect threshold ${num(s.margin.inspect_below_pct, '%', 0)}; ${p.date && Date.parse(p.date) <= (s.time_ms.at(-1) ?? 0) ? 'inspection due since' : 'projected inspection'} ${when(p.date, false)}${p.interval ? ` (interval ${when(p.interval[0], false)} to ${when(p.interval[1], false)})` : ''}`}
       height={260}
       {...props}
     />

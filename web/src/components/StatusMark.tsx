@@ -1,6 +1,6 @@
-import type { Trend } from '@thermargin/shared/api';
+import type { Trend } from '@thermargin/shared/results';
 import type { Status } from '@thermargin/shared/results';
-import { STATUS_WORD, TREND_WORD } from '../format.ts';
+import { dueWords, rateWords, STATUS_WORD, TREND_WORD } from '../format.ts';
 
 /** Each status has a shape of its own as well as a colour and a word: a disc, a notched triangle, a diamond with a bar, a dashed ring. */
 function Shape({ status }: { status: Status | 'none' }) {
@@ -49,8 +49,8 @@ const ARROW: Record<Trend, string> = {
   rising: 'M2 12 L8 4 L14 12',
 };
 
-/** The margin's direction: an arrow and its word. */
-export function TrendMark({ trend }: { trend: Trend | null }) {
+/** The margin's direction: an arrow and its word, and its rate when it moves (the one the finding quotes). */
+export function TrendMark({ trend, rate }: { trend: Trend | null; rate?: number | null }) {
   if (!trend) return <span class="muted">too few trips</span>;
   return (
     <span class={`trend trend-${trend}`}>
@@ -66,6 +66,20 @@ export function TrendMark({ trend }: { trend: Trend | null }) {
         <path d={ARROW[trend]} />
       </svg>
       {TREND_WORD[trend]}
+      {trend !== 'steady' && rate !== null && rate !== undefined && (
+        <span class="small muted"> {rateWords(rate)}</span>
+      )}
+    </span>
+  );
+}
+
+/** When inspection is due: the date ahead, or how long overdue (in the status colour) with the date. */
+export function DueMark({ date, overdue }: { date: string | null; overdue?: number | null | undefined }) {
+  const d = dueWords(date, overdue);
+  if (!d.late) return <span>{d.due}</span>;
+  return (
+    <span class="due-late">
+      <strong class="bad">{d.late}</strong> <span class="small muted">due {d.due}</span>
     </span>
   );
 }

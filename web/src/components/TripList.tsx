@@ -1,6 +1,6 @@
 import type { TripResult } from '@thermargin/shared/results';
 import { useState } from 'preact/hooks';
-import { duration, num, when } from '../format.ts';
+import { duration, marginSourceWords, num, when } from '../format.ts';
 import { useResource } from '../state/resource.ts';
 import { href } from '../state/place.ts';
 import type { Session } from '../state/session.ts';
@@ -37,7 +37,11 @@ function Rows({ vehicle, trips }: { vehicle: string; trips: readonly TripResult[
               <td class="num" title={[t.k_ram_reason, t.k_fan_reason].filter(Boolean).join('; ')}>
                 {num(t.k_ram_w_m2k, '', 0)} / {num(t.k_fan_w_m2k, '', 0)}
               </td>
-              <td class="num">{num(t.margin_pct, '%')}</td>
+              <td class="num" title={marginSourceWords(t) ?? undefined}>
+                {num(t.margin_pct, '%')}
+                {t.margin_source === 'band_level' && <span class="muted small"> level</span>}
+                {t.margin_source === 'other_band' && <span class="muted small"> via {t.margin_basis}</span>}
+              </td>
               <td class="num">{t.derate_s > 0 ? duration(t.derate_s) : 'none'}</td>
               <td>{t.status ? <StatusMark status={t.status} /> : '—'}</td>
             </tr>

@@ -6,7 +6,7 @@ import { Pager } from '../components/Pager.tsx';
 import { rowLink } from '../components/rowKeys.ts';
 import { SortHeader } from '../components/SortHeader.tsx';
 import { Empty, Loaded } from '../components/States.tsx';
-import { StatusMark, TrendMark } from '../components/StatusMark.tsx';
+import { DueMark, StatusMark, TrendMark } from '../components/StatusMark.tsx';
 import { ago, causeWord, num, STATUS_WORD, when } from '../format.ts';
 import {
   DEFAULT_QUERY,
@@ -145,9 +145,11 @@ function FleetTable({ fleet }: { fleet: FleetResponse }) {
                       )}
                     </td>
                     <td>
-                      <TrendMark trend={v.trend} />
+                      <TrendMark trend={v.trend} rate={v.trend_pct_per_30d} />
                     </td>
-                    <td data-col="projected">{when(v.projected_inspect_date, false)}</td>
+                    <td data-col="projected">
+                      <DueMark date={v.projected_inspect_date} overdue={v.projected_inspect_overdue_days} />
+                    </td>
                     <td data-col="seen" title={when(seen)}>
                       {ago(seen, now_ms)}
                     </td>

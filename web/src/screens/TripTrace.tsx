@@ -4,7 +4,7 @@ import { ZoomLink } from '../charts/link.ts';
 import { TripCharts } from '../charts/trip-charts.tsx';
 import { Loaded } from '../components/States.tsx';
 import { StatusMark } from '../components/StatusMark.tsx';
-import { duration, num, when } from '../format.ts';
+import { duration, marginSourceWords, num, when } from '../format.ts';
 import { useResource } from '../state/resource.ts';
 import { href } from '../state/place.ts';
 import type { Session } from '../state/session.ts';
@@ -37,7 +37,11 @@ function TripFigures({ t }: { t: TraceResponse['trip'] }) {
         ? (t.k_fan_reason ?? '—')
         : `${num(t.k_fan_w_m2k, 'W/m²·K', 0)}${ci(t.k_fan_ci95)}`,
     ],
-    ['margin', 'Margin at design point', num(t.margin_pct, '%')],
+    [
+      'margin',
+      'Margin at design point',
+      `${num(t.margin_pct, '%')}${marginSourceWords(t) ? ` (${marginSourceWords(t)})` : ''}`,
+    ],
     ['lat', 'Limiting ambient', num(t.limiting_ambient_c, '°C')],
     [
       'coolant-max',

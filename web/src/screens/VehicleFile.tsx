@@ -4,7 +4,7 @@ import { AlertList } from '../components/AlertList.tsx';
 import { Caution } from '../components/Caution.tsx';
 import { MaintenanceForm } from '../components/MaintenanceForm.tsx';
 import { Empty, Loaded } from '../components/States.tsx';
-import { StatusMark, TrendMark } from '../components/StatusMark.tsx';
+import { DueMark, StatusMark, TrendMark } from '../components/StatusMark.tsx';
 import { TripList } from '../components/TripList.tsx';
 import { ACTION_WORD, CAUSE_WORD, causeWord, num, when } from '../format.ts';
 import { useLive } from '../state/live.ts';
@@ -33,12 +33,12 @@ export function Figures({ v }: { v: VehicleResponse }) {
         {num(s.limiting_ambient_c, '°C')}
         {route !== undefined && <span class="small muted"> route hottest {num(route, '°C')}</span>}
       </Figure>
-      <Figure label="Trend">
-        <TrendMark trend={s.trend} />
+      <Figure label="Trend" fig="trend">
+        <TrendMark trend={s.trend} rate={s.trend_pct_per_30d} />
       </Figure>
       <Figure label="Projected inspection" fig="projected">
-        {when(s.projected_inspect_date, false)}
-        {p?.interval && (
+        <DueMark date={s.projected_inspect_date} overdue={s.projected_inspect_overdue_days} />
+        {p?.interval && s.projected_inspect_overdue_days == null && (
           <span class="small muted">
             {' '}
             ({when(p.interval[0], false)} … {when(p.interval[1], false)})

@@ -5,8 +5,8 @@ import { Caution } from '../components/Caution.tsx';
 import { MaintenanceForm } from '../components/MaintenanceForm.tsx';
 import { Pager } from '../components/Pager.tsx';
 import { Empty, Loaded } from '../components/States.tsx';
-import { StatusMark } from '../components/StatusMark.tsx';
-import { causeWord, num, RECOMMENDATION, when } from '../format.ts';
+import { DueMark, StatusMark } from '../components/StatusMark.tsx';
+import { causeWord, num, RECOMMENDATION } from '../format.ts';
 import { useLive } from '../state/live.ts';
 import { inspectionQueue } from '../state/queue.ts';
 import { useResource } from '../state/resource.ts';
@@ -50,7 +50,10 @@ function QueueItem({
         <span>{causeWord(v.cause, v.status)}</span>
         <span class="num">margin {num(v.margin_pct, '%')}</span>
         <span class="num">limiting ambient {num(v.limiting_ambient_c, '°C')}</span>
-        <span>inspect by {when(v.projected_inspect_date, false)}</span>
+        <span data-fig="due">
+          {v.projected_inspect_overdue_days == null ? 'inspect by ' : 'inspection '}
+          <DueMark date={v.projected_inspect_date} overdue={v.projected_inspect_overdue_days} />
+        </span>
         <a class="btn" href={href.workOrder(v.id)}>
           Work order
         </a>

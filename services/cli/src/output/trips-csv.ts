@@ -1,6 +1,9 @@
 import type { AnalysisReport, TripResult } from '@thermargin/shared';
 
-/** Trip result columns of the CSV output; intervals are split into _lo/_hi, lists joined with "; ". */
+/**
+ * Trip result columns of the CSV output; intervals are split into _lo/_hi, lists joined with "; ". The
+ * margin is the governing band's (margin_source says how), the trip's own figures follow at the end.
+ */
 const COLUMNS = [
   'trip',
   'start',
@@ -33,6 +36,10 @@ const COLUMNS = [
   'k_ram_reason',
   'k_fan_reason',
   'sensor_flags',
+  'margin_source',
+  'trip_margin_pct',
+  'trip_limiting_ambient_c',
+  'trip_margin_basis',
 ] as const satisfies readonly (keyof TripResult)[];
 
 function cell(v: unknown): string {
