@@ -70,6 +70,8 @@ export const tripResultSchema = z.object({
   health_ram: nullableNumber.optional(),
   health_fan: nullableNumber.optional(),
   status: z.enum(STATUSES).optional(),
+  /** The cause named after this trip, once the vehicle is assessed ('none' while none is). */
+  cause: z.enum(CAUSES).optional(),
   /**
    * Set once the vehicle is assessed: margin_pct, limiting_ambient_c and margin_basis then hold the
    * design-point margin from the governing band (see MARGIN_SOURCES), and these the trip's own figures

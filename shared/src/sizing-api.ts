@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { designPointSchema, POWERTRAINS } from './fleet.ts';
+import { CAUSES, STATUSES } from './results.ts';
 
 /**
  * The sizing routes' contract (services/api/src/routes-sizing.ts): the sizing result as
@@ -71,6 +72,10 @@ const foulingSegment = z.object({
 const bandFouling = z.object({
   band,
   segments: z.array(foulingSegment),
+  /** Trips left out of the fit because a cause other than fouling was named by then (results.ts CAUSES). */
+  left_out_trips: num.optional(),
+  left_out_from: z.string().nullable().optional(),
+  left_out_cause: z.enum(CAUSES).nullable().optional(),
   loss_pct_per_month: nnum,
   loss_pct_per_1000km: nnum,
   k_clean_w_m2k: nnum,
@@ -79,6 +84,8 @@ const bandFouling = z.object({
   days_to_inspect: nnum,
   km_to_inspect: nnum,
   fouling_allowance: nnum,
+  /** Why no allowance although k was fitted (above the plausible bound); null otherwise. */
+  fouling_allowance_note: z.string().nullable().optional(),
 });
 
 /** core/src/sizing/calculator.ts DesignAnswer. */
@@ -97,6 +104,14 @@ const designCheck = designAnswerSchema.extend({
   k_design_w_m2k: num,
   fouling_allowance: num,
   allowance_source: z.enum(['fouling_fit', 'default']),
+  /** Why the default allowance although k was fitted; null otherwise. */
+  allowance_note: z.string().nullable().optional(),
+  /** %: the margin `thermargin analyze` reports now, and the status and cause named now. */
+  margin_now_pct: nnum.optional(),
+  status_now: z.enum(STATUSES).optional(),
+  cause_now: z.enum(CAUSES).optional(),
+  /** %: the installed area's margin with k_design_w_m2k and no allowance. */
+  margin_design_k_pct: nnum.optional(),
 });
 export const whatIfVehicleSchema = derateTotals.extend({
   ambient_rise_k: num,
@@ -162,8 +177,20 @@ const dutySchema = z.object({
   ambient_c: num,
 });
 /** core/src/sizing/drivetrain-compare.ts DrivetrainComparison. */
+const dutySource = z.enum(['given', 'fleet_data', 'default']);
 export const drivetrainComparisonSchema = z.object({
   duty: dutySchema,
+  /** Where each figure of the duty came from, and how the fleet's were read (core/src/sizing/fleet-duty.ts). */
+  duty_source: z
+    .object({
+      mass_kg: dutySource,
+      cda_m2: dutySource,
+      crr: dutySource,
+      speed_kmh: dutySource,
+      ambient_c: dutySource,
+    })
+    .optional(),
+  duty_note: z.string().optional(),
   aero_kw: num,
   rolling_kw: num,
   wheel_kw: num,
@@ -203,6 +230,7 @@ export const sizingResultSchema = z.object({
     min_fouling_span_days: num,
     cleaning_interval_days: num,
     default_fouling_allowance: num,
+    max_fouling_allowance: num.optional(),
     fan_full_within_k: num,
     derate_release_k: num,
     what_if: z.array(whatIfScenario),
@@ -245,7 +273,7 @@ export const calculatorBodySchema = z
       /** Whose field k and allowance are taken: vehicles of this powertrain (default: the fleet). */
       powertrain: powertrain.optional(),
     }),
-    /** The drivetrain comparison's duty; absent fields from the CLI's default duty, ambient from the design. */
+    /** The drivetrain comparison's duty; absent fields from the fleet's own duty, ambient from the design. */
     duty: z
       .strictObject({
         speed_kmh: finite('speed_kmh').gt(0, 'must be > 0').max(250),

@@ -3,6 +3,7 @@ import { compareDrivetrains } from '@thermargin/core/sizing/drivetrain-compare';
 import { median } from '@thermargin/core/stats/quantile';
 import { SAFETY_CAUTION } from '@thermargin/shared/safety';
 import type { CalculatorResponse, SizingResponse } from '@thermargin/shared/sizing-api';
+import { marginStepsWords } from '@thermargin/shared/sizing-text';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { num } from '../../web/src/format.ts';
@@ -70,6 +71,13 @@ describe('sizing sheet in a real browser against the running API', () => {
       String(sizing.fleet.derate!.events),
     );
     expect(await page.locator('[data-table="fouling"] tbody tr').count()).toBe(2 * (sizing.types.length + 1));
+    // Each design check beside the margin analyze reports, and the steps between them named.
+    for (const x of sizing.vehicles) {
+      const row = `[data-table="design-checks"] tr[data-vehicle="${x.id}"]`;
+      expect(await text(page, `${row} [data-col="now"]`)).toBe(num(x.design_check?.margin_now_pct, '%'));
+      if (x.design_check)
+        expect(await text(page, `${row} [data-col="steps"]`)).toContain(marginStepsWords(x.design_check));
+    }
     // Cleaning intervals lead to work on a vehicle: the caution sits beside them.
     expect(await text(page, '[aria-labelledby="fouling"] .caution')).toBe(SAFETY_CAUTION.replace(/\n/g, ' '));
     await page.close();
@@ -109,6 +117,10 @@ describe('sizing sheet in a real browser against the running API', () => {
       num(design(hotter).supported_ambient_c, '°C'),
     );
 
+    // The drivetrain comparison runs on the fleet's own duty, each figure's source named.
+    expect(await text(page, '[data-fig="duty"]')).toContain(
+      `${Math.round(sizing.drivetrains.duty.mass_kg).toLocaleString('en-US')} kg (fleet data)`,
+    );
     // The drivetrain comparison follows the duty speed.
     await page.locator('input[name="speed_kmh"]').fill('90');
     const rows = compareDrivetrains(

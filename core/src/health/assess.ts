@@ -21,6 +21,8 @@ export interface TripHealth extends TripMargin {
   health_ram: number | null;
   health_fan: number | null;
   status: Status;
+  /** The cause named after this trip ('none' while none is). */
+  cause: Cause;
   /** The trip's own margin, LAT and basis from its own k (margin_pct may be the band's level instead). */
   trip_margin_pct: number | null;
   trip_limiting_ambient_c: number | null;
@@ -129,6 +131,7 @@ function tripHealth(walk: TripWalk, trips: readonly TripResult[], order: readonl
       health_ram: null,
       health_fan: null,
       status,
+      cause: walk.causes[i]!,
       ...walk.tripMargins.out[i]!,
       trip_margin_pct: own.pct,
       trip_limiting_ambient_c: own.lat,

@@ -1,4 +1,4 @@
-import type { Status, TripResult } from '@thermargin/shared';
+import type { Cause, Status, TripResult } from '@thermargin/shared';
 import type { Band } from '../trip/bands.ts';
 import { designBand } from '../trip/design-point.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
@@ -38,6 +38,8 @@ export class TripWalk {
   readonly marginLevel: (number | null)[];
   readonly tripMargins: TripMargins;
   readonly statuses: Status[];
+  /** Per trip in input order: the cause named after it ('none' while none scores enough). */
+  readonly causes: Cause[];
   status: Status = 'ok';
   cause: Candidate;
   candidates: Candidate[] = [];
@@ -68,6 +70,7 @@ export class TripWalk {
       latForMargin_c(m, vehicle.coolant_limit_c, vehicle.design.ambient_c),
     );
     this.statuses = new Array<Status>(n);
+    this.causes = new Array<Cause>(n);
     this.cause = pickCause(
       rankCauses(this.bands.ram.summary(), this.bands.fan.summary(), this.evidence.read(), o, this.minDrop),
       o.cause_min_score,
@@ -113,6 +116,7 @@ export class TripWalk {
     this.status = step.status;
     this.cause = c;
     this.statuses[i] = step.status;
+    this.causes[i] = c.cause;
   }
 
   /** The trip's k to the band monitors (none from a trip with sensor flags), its signs to the evidence. */

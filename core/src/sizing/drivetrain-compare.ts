@@ -25,8 +25,15 @@ export interface DrivetrainRow {
   area_vs_ice: number;
 }
 
+/** Where a figure of the comparison's duty came from: the caller, the fleet's own data, or DEFAULT_DUTY. */
+export type DutySource = 'given' | 'fleet_data' | 'default';
+export const DUTY_FIGURES = ['mass_kg', 'cda_m2', 'crr', 'speed_kmh', 'ambient_c'] as const;
+
 export interface DrivetrainComparison {
   duty: Duty;
+  /** Per figure of the duty, where it came from, and how the fleet's figures were read (sizing only). */
+  duty_source?: Record<(typeof DUTY_FIGURES)[number], DutySource>;
+  duty_note?: string;
   aero_kw: number;
   rolling_kw: number;
   wheel_kw: number;

@@ -2,20 +2,14 @@ import type { TripResult } from '@thermargin/shared';
 import { median } from '../stats/quantile.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
 import { compareDrivetrains, type DrivetrainComparison, type Duty } from './drivetrain-compare.ts';
+import { fleetDuty, withDutySource } from './fleet-duty.ts';
 import { type GroupSizing, sizeGroup } from './group-sizing.ts';
 import { type MethodNote, SIZING_METHOD } from './method.ts';
 import type { SizingOptions } from './options.ts';
 import type { VehicleSamples } from './vehicle-samples.ts';
 import { sizeVehicle, type VehicleSizing } from './vehicle-sizing.ts';
 
-/** The duty the drivetrains are compared on when none is given: a car at 125 km/h on a 40 °C day (round figures). */
-export const DEFAULT_DUTY: Readonly<Duty> = Object.freeze({
-  mass_kg: 1500,
-  cda_m2: 0.6,
-  crr: 0.01,
-  speed_kmh: 125,
-  ambient_c: 40,
-});
+export { DEFAULT_DUTY } from './fleet-duty.ts';
 
 /** W/(m²·K): k of the comparison when the fleet gives none (a round figure, from memory). */
 export const DEFAULT_COMPARISON_K_W_M2K = 1000;
@@ -26,8 +20,8 @@ export interface SizingInput {
   trips: ReadonlyMap<string, readonly TripResult[]>;
   /** Sample-level accumulators per vehicle id, when the samples were read (duty cycle, derates, what if). */
   samples?: ReadonlyMap<string, VehicleSamples>;
-  /** The drivetrain comparison's duty; DEFAULT_DUTY when absent. */
-  duty?: Duty;
+  /** The drivetrain comparison's duty, whole or in part; the rest from the fleet's data (fleetDuty). */
+  duty?: Partial<Duty>;
 }
 
 /** The whole sizing result: plain JSON (no Infinity, no Maps), served by the API as it is. */
@@ -46,7 +40,8 @@ export interface SizingResult {
  * Closes the sizing loop for a fleet (docs/methods.md §6): per vehicle, per type (VehicleModel.type) and for
  * the fleet — field against bench k, duty cycle, fouling rates and allowance, derates, the design
  * point checked against field evidence, the "what if" replay, and a drivetrain comparison at the
- * fleet's median design-point k. `o` must come from resolveSizingOptions (the samples were fed with it).
+ * fleet's median design-point k on the fleet's own duty (fleet-duty.ts). `o` must come from
+ * resolveSizingOptions (the samples were fed with it).
  */
 export function sizeFleet(input: SizingInput, o: SizingOptions): SizingResult {
   const sized = input.vehicles.map((v) => {
@@ -65,6 +60,7 @@ export function sizeFleet(input: SizingInput, o: SizingOptions): SizingResult {
     );
   });
   const allTrips = sized.flatMap((x) => input.trips.get(x.v.id) ?? []);
+  const duty = fleetDuty(input, input.duty ?? {});
   const starts = allTrips.map((t) => t.start).sort();
   const designK = sized
     .map((x) => x.s.design_check?.k_design_w_m2k)
@@ -86,9 +82,9 @@ export function sizeFleet(input: SizingInput, o: SizingOptions): SizingResult {
       withSamples(sized),
       o,
     ),
-    drivetrains: compareDrivetrains(
-      input.duty ?? DEFAULT_DUTY,
-      designK.length ? median(designK) : DEFAULT_COMPARISON_K_W_M2K,
+    drivetrains: withDutySource(
+      compareDrivetrains(duty.duty, designK.length ? median(designK) : DEFAULT_COMPARISON_K_W_M2K),
+      duty,
     ),
     method: SIZING_METHOD,
   };

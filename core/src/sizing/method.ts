@@ -30,12 +30,12 @@ export const SIZING_METHOD: readonly MethodNote[] = Object.freeze([
   },
   {
     topic: 'Fouling rate',
-    text: 'Theil–Sen lines of trip k against days and against km since each radiator cleaning (fan band also since each fan repair; both since coolant service or sensor replacement), as a share of the line’s k at the interval start. Loss per month (30.44 days) and per 1000 km; median over intervals. Time to inspection = (1 − threshold ratio) ÷ rate, threshold the policy’s health ratio or the k at which the design margin reaches the inspect margin, whichever comes first. A straight line is the conservative reading of fouling that levels off.',
+    text: 'Theil–Sen lines of trip k against days and against km since each radiator cleaning (fan band also since each fan repair; both since coolant service or sensor replacement), as a share of the line’s k at the interval start. Loss per month (30.44 days) and per 1000 km; median over intervals. Time to inspection = (1 − threshold ratio) ÷ rate, threshold the policy’s health ratio or the k at which the design margin reaches the inspect margin, whichever comes first. A straight line is the conservative reading of fouling that levels off. Trips after the health assessment names a cause other than fouling are left out until the maintenance that renews the band: a fan fault from the fan band, a coolant-side loss or a suspect sensor from both.',
     source: 'Theil (1950), Sen (1968); asymptotic fouling, Kern & Seaton (1959)',
   },
   {
     topic: 'Fouling allowance and required area',
-    text: 'Allowance for a planned cleaning interval: L/(1 − L), L = fitted loss over the interval, so a fouled core still meets the design point at the end of it. A_req = Q_design / (k_field · (T_limit − T_amb,design)) · (1 + allowance), k_field the clean field k moved to the design air condition.',
+    text: 'Allowance for a planned cleaning interval: L/(1 − L), L = fitted loss over the interval, so a fouled core still meets the design point at the end of it; above 100 % (k halved within one interval: more than fouling; common practice plans 10–25 %) the fit is not used and the reason is given. A_req = Q_design / (k_field · (T_limit − T_amb,design)) · (1 + allowance), k_field the clean field k moved to the design air condition. The design check’s margins differ from the analysed margin only by what they name: the margin now (the governing band’s current level, as analyze reports it), the installed area with the named k and no allowance, and with the named allowance.',
     source: 'The rating formula solved for area, common practice (thermargin docs/methods.md §3)',
   },
   {
@@ -45,8 +45,8 @@ export const SIZING_METHOD: readonly MethodNote[] = Object.freeze([
   },
   {
     topic: 'Drivetrain comparison',
-    text: 'Wheel power from the road-load equation; heat to coolant from each preset: engine one-third rule (120 °C limit), battery-electric 0.93 per stage for battery, inverter and motor (80 °C), fuel cell 0.60 stack with 0.93 battery charging and the same chain (80 °C). Area at equal k.',
+    text: 'Wheel power from the road-load equation on the fleet’s own duty: mass, CdA and Crr fitted per vehicle to its samples (tractive force P/v by least squares on ½ρv², g, acceleration and 1/v for the auxiliaries), its typical moving speed and its hot day (95th percentile of its trips’ hottest ambient), the median over vehicles; figures given on the command line win, and what the data cannot give is a car at 125 km/h on a 40 °C day. Heat to coolant from each preset: engine one-third rule (120 °C limit), battery-electric 0.93 per stage for battery, inverter and motor (80 °C), fuel cell 0.60 stack with 0.93 battery charging and the same chain (80 °C). Area at equal k.',
     source:
-      'Road load: Gillespie, Fundamentals of Vehicle Dynamics (SAE 1992), ch. 4; drivetrain figures: common practice',
+      'Road load: Gillespie, Fundamentals of Vehicle Dynamics (SAE 1992), ch. 4; mass from drive data by least squares, e.g. Vahidi, Stefanopoulou & Peng (2005), Vehicle System Dynamics 43(1); drivetrain figures: common practice',
   },
 ]);

@@ -35,6 +35,12 @@ export interface SizingOptions {
   /** –, 0.15: fouling allowance the calculator uses where the fleet gives no fouling fit (common practice 10–25 %). */
   default_fouling_allowance: number;
   /**
+   * –, 1: largest fouling allowance a fit may give (our bound): 100 % more area means the fit has k
+   * halved within one cleaning interval, more than a core's fouling does (common practice plans
+   * 10–25 %); a fit above it is reported with the reason instead, and the default is used.
+   */
+  max_fouling_allowance: number;
+  /**
    * K, 5: in the replay the fan is taken at full duty once the coolant is within this of the limit
    * (controllers drive the fan to full before they derate; the recorded duty reflects the cooler real day).
    */
@@ -58,6 +64,7 @@ export const SIZING_DEFAULTS: Readonly<SizingOptions> = Object.freeze({
   min_fouling_span_days: 14,
   cleaning_interval_days: 180,
   default_fouling_allowance: 0.15,
+  max_fouling_allowance: 1,
   fan_full_within_k: 5,
   derate_release_k: 2,
   what_if: [
@@ -93,6 +100,8 @@ export function resolveSizingOptions(o: Partial<SizingOptions> = {}): SizingOpti
   }
   if (!(out.default_fouling_allowance >= 0))
     throw new RangeError('sizing option default_fouling_allowance must be ≥ 0');
+  if (!(out.max_fouling_allowance >= out.default_fouling_allowance))
+    throw new RangeError('sizing option max_fouling_allowance must be ≥ default_fouling_allowance');
   if (!(out.fan_full_within_k >= 0)) throw new RangeError('sizing option fan_full_within_k must be ≥ 0');
   if (!(out.derate_release_k >= 0)) throw new RangeError('sizing option derate_release_k must be ≥ 0');
   out.what_if.forEach((s, i) => {

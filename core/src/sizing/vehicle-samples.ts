@@ -1,5 +1,6 @@
 import type { SampleColumns, TripResult } from '@thermargin/shared';
 import { heatToCoolant_kw } from '../drivetrain/heat.ts';
+import { dryAirDensity_kg_m3 } from '../properties/air.ts';
 import { ESTIMATOR_DEFAULTS } from '../trip/estimator-options.ts';
 import type { TripSpan } from '../trip/split.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
@@ -9,7 +10,18 @@ import { type BandK, fieldKaModel } from './field-ka.ts';
 import { LogHistogram } from './log-histogram.ts';
 import type { SizingOptions, WhatIfScenario } from './options.ts';
 import { LoopReplay } from './replay.ts';
+import { RoadLoadFit } from './road-load-fit.ts';
 import { tripK } from './trip-k.ts';
+
+/** km/h: speeds from which the vehicle counts as moving (for its typical speed). */
+const MOVING_KMH = 5;
+const SPEED_BINS = Object.freeze({ floor: MOVING_KMH, ceiling: 250, ratio: 0.01 });
+/**
+ * Samples the road-load fit takes: moving at ≥ 15 km/h (F = P/v blows up near standstill), under
+ * traction (braking and regeneration are capped by the drivetrain, not road load), not derated, with
+ * neighbours at most 2 s away for the acceleration, which stays within ±1.5 m/s² (our choice).
+ */
+const FIT = { min_kmh: 15, max_gap_ms: 2000, max_accel_ms2: 1.5 } as const;
 
 /** One scenario's replay of one vehicle. */
 export interface ScenarioReplay {
@@ -39,6 +51,10 @@ export class VehicleSamples {
   /** Heat (kW) of the demand mean at each recorded derate's onset, one count per event. */
   readonly onsetHeat = new LogHistogram();
   readonly replays: ScenarioReplay[];
+  /** The vehicle's road load (mass, CdA, Crr) fitted from its samples, for the drivetrain comparison. */
+  readonly roadLoad = new RoadLoadFit();
+  /** km/h of the time driven at ≥ MOVING_KMH, time-weighted: the vehicle's typical speed. */
+  readonly movingSpeed = new LogHistogram(SPEED_BINS);
   samples = 0;
   private last: BandK;
   private readonly kaAt: ReturnType<typeof fieldKaModel>;
@@ -106,6 +122,8 @@ export class VehicleSamples {
       const amb = c.ambient_c[i]!;
       this.samples++;
       this.duty.add(q, speed, amb, dt_s);
+      if (speed >= MOVING_KMH) this.movingSpeed.add(speed, dt_s);
+      if (i > from && i + 1 < to) this.fitRoadLoad(c, i);
 
       const derated = c.derate[i] === 1;
       const lost_kwh = derated ? (Math.max(demand_kw - p, 0) * dt_s) / 3600 : 0;
@@ -128,5 +146,17 @@ export class VehicleSamples {
     }
     this.derate.endTrip();
     for (const r of this.replays) r.tally.endTrip();
+  }
+
+  /** Sample i (with neighbours i ± 1 in the same trip) to the road-load fit, when it qualifies. */
+  private fitRoadLoad(c: SampleColumns, i: number): void {
+    const t0 = c.time_ms[i - 1]!;
+    const t2 = c.time_ms[i + 1]!;
+    const v_kmh = c.speed_kmh[i]!;
+    if (v_kmh < FIT.min_kmh || c.derate[i] === 1 || !(c.power_kw[i]! > 0)) return;
+    if (t2 - c.time_ms[i]! > FIT.max_gap_ms || c.time_ms[i]! - t0 > FIT.max_gap_ms) return;
+    const a = (c.speed_kmh[i + 1]! - c.speed_kmh[i - 1]!) / 3.6 / ((t2 - t0) / 1000);
+    if (!(Math.abs(a) <= FIT.max_accel_ms2)) return;
+    this.roadLoad.add(v_kmh / 3.6, a, c.power_kw[i]!, dryAirDensity_kg_m3(c.ambient_c[i]!));
   }
 }

@@ -1,6 +1,7 @@
-import type { DesignPoint, Powertrain, TripResult } from '@thermargin/shared';
+import type { Cause, DesignPoint, Powertrain, Status, TripResult } from '@thermargin/shared';
 import type { Band } from '../trip/bands.ts';
 import { designBand, designKa_w_k } from '../trip/design-point.ts';
+import { type VehicleOutcome, vehicleResult } from '../vehicle-result.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
 import { answerDesign, type DesignAnswer } from './calculator.ts';
 import type { DerateTotals } from './derate-tally.ts';
@@ -31,7 +32,12 @@ export interface WhatIfVehicle extends DerateTotals {
   hours_not_replayed: number;
 }
 
-/** The design point and what the field evidence says about it for one vehicle. */
+/**
+ * The design point and what the field evidence says about it for one vehicle. Its margins differ from
+ * the one `thermargin analyze` reports (margin_now_pct) only by what they name: margin_design_k_pct takes
+ * the k named by k_source instead of the band's current level, margin_pct adds the fouling allowance
+ * named by allowance_source.
+ */
 export interface DesignCheck extends DesignAnswer {
   band: Band;
   /** Which k went in: the clean field k, the median field k, or the bench k. */
@@ -42,6 +48,15 @@ export interface DesignCheck extends DesignAnswer {
   fouling_allowance: number;
   /** Where the fouling allowance came from. */
   allowance_source: 'fouling_fit' | 'default';
+  /** Why the default was used although k was fitted (the fit's allowance was implausible); else null. */
+  allowance_note: string | null;
+  /** %: the margin analyze reports now (the governing band's current level); null when not judged. */
+  margin_now_pct: number | null;
+  /** The status and cause the health assessment names now: what stands between now and clean. */
+  status_now: Status;
+  cause_now: Cause;
+  /** %: the installed area's margin with k_design_w_m2k and no allowance. */
+  margin_design_k_pct: number | null;
 }
 
 export interface VehicleSizing {
@@ -92,6 +107,7 @@ function designCheck(
   fk: BandFieldK[],
   fouling: BandFouling[],
   o: SizingOptions,
+  health: VehicleOutcome,
 ): DesignCheck | null {
   const band = designBand(v);
   const f = fk.find((x) => x.band === band)!;
@@ -104,23 +120,29 @@ function designCheck(
           ? [f.bench_k_w_m2k, 'bench' as const]
           : [null, null];
   if (kRef === null || k_source === null) return null;
-  const fitted = fouling.find((x) => x.band === band)?.fouling_allowance ?? null;
+  const fit = fouling.find((x) => x.band === band);
+  const fitted = fit?.fouling_allowance ?? null;
   const allowance = fitted ?? o.default_fouling_allowance;
   const k = designKa_w_k(v, band, kRef) / v.radiator_area_m2;
+  const question = {
+    ambient_c: v.design.ambient_c,
+    heat_kw: v.design.heat_kw,
+    coolant_limit_c: v.coolant_limit_c,
+    k_w_m2k: k,
+    area_m2: v.radiator_area_m2,
+  };
   return {
     band,
     k_source,
     k_design_w_m2k: Math.round(k * 10) / 10,
     fouling_allowance: allowance,
     allowance_source: fitted === null ? 'default' : 'fouling_fit',
-    ...answerDesign({
-      ambient_c: v.design.ambient_c,
-      heat_kw: v.design.heat_kw,
-      coolant_limit_c: v.coolant_limit_c,
-      k_w_m2k: k,
-      fouling_allowance: allowance,
-      area_m2: v.radiator_area_m2,
-    }),
+    allowance_note: fitted === null ? (fit?.fouling_allowance_note ?? null) : null,
+    margin_now_pct: health.result.margin_pct ?? null,
+    status_now: health.result.status!,
+    cause_now: health.result.cause!,
+    margin_design_k_pct: answerDesign({ ...question, fouling_allowance: 0 }).margin_pct,
+    ...answerDesign({ ...question, fouling_allowance: allowance }),
   };
 }
 
@@ -142,7 +164,15 @@ export function sizeVehicle(
   samples: VehicleSamples | null,
   o: SizingOptions,
 ): VehicleSizing {
-  const fouling = foulingRates(v, trips, o);
+  // The same assessment analyze makes: its causes keep other faults out of the fouling fit, its margin
+  // stands beside the design check's.
+  const health = vehicleResult(v, trips);
+  const fouling = foulingRates(
+    v,
+    trips,
+    o,
+    health.result.trips.map((t) => t.cause),
+  );
   const fk = fieldK(v, trips, fouling);
   let duty: DutyCycle | null = null;
   let derate: DerateSummary | null = null;
@@ -167,7 +197,7 @@ export function sizeVehicle(
     km: Math.round(trips.reduce((s, t) => s + t.distance_km, 0) * 10) / 10,
     field_k: fk,
     fouling,
-    design_check: designCheck(v, fk, fouling, o),
+    design_check: designCheck(v, fk, fouling, o, health),
     duty_cycle: duty,
     derate,
     what_if: samples ? whatIf(v, samples) : null,

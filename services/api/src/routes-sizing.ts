@@ -1,10 +1,6 @@
 import { answerDesign } from '@thermargin/core/sizing/calculator';
 import { compareDrivetrains, type DrivetrainComparison } from '@thermargin/core/sizing/drivetrain-compare';
-import {
-  DEFAULT_COMPARISON_K_W_M2K,
-  DEFAULT_DUTY,
-  type SizingResult,
-} from '@thermargin/core/sizing/fleet-sizing';
+import { DEFAULT_COMPARISON_K_W_M2K, type SizingResult } from '@thermargin/core/sizing/fleet-sizing';
 import { median } from '@thermargin/core/stats/quantile';
 import { SAFETY_CAUTION } from '@thermargin/shared';
 import type {
@@ -91,13 +87,23 @@ export function sizingRoutes(x: ApiContext): Handlers<'sizing' | 'calculator'> {
           ...(d.area_m2 === undefined ? {} : { area_m2: d.area_m2 }),
         }),
       );
-      const drivetrains: DrivetrainComparison = await refusedAs('duty', () =>
-        compareDrivetrains(
-          { ...DEFAULT_DUTY, ...body.duty, ambient_c: d.ambient_c },
+      // The fleet's own duty (as the sizing figures read it), the figures asked for, the design's ambient.
+      const fleet = sizing.drivetrains;
+      const drivetrains: DrivetrainComparison = await refusedAs('duty', () => ({
+        ...compareDrivetrains(
+          { ...fleet.duty, ...body.duty, ambient_c: d.ambient_c },
           b.k_w_m2k,
           b.fouling_allowance,
         ),
-      );
+        ...(fleet.duty_source && {
+          duty_source: {
+            ...fleet.duty_source,
+            ...Object.fromEntries(Object.keys(body.duty ?? {}).map((k) => [k, 'given'])),
+            ambient_c: 'given',
+          },
+          duty_note: fleet.duty_note,
+        }),
+      }));
       const w = body.what_if;
       const what_if = w
         ? whatIfAnswer(await refusedAs('what_if.limit_drop_k', () => cache.whatIf(w)), w)

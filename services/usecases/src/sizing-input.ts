@@ -72,7 +72,7 @@ export async function sizingInputFromStore(
   results: ResultsStore,
   vehicles: readonly VehicleModel[],
   o: SizingOptions,
-  duty?: Duty,
+  duty?: Partial<Duty>,
 ): Promise<StoreSizingInput> {
   const parts: VehicleSizingInput[] = [];
   for (const v of vehicles) parts.push(await vehicleSizingInput(samples, results, v, o));
@@ -83,7 +83,7 @@ export async function sizingInputFromStore(
 export function assembleSizingInput(
   vehicles: readonly VehicleModel[],
   parts: readonly VehicleSizingInput[],
-  duty?: Duty,
+  duty?: Partial<Duty>,
 ): StoreSizingInput {
   return {
     input: {
@@ -101,7 +101,7 @@ export async function sizingInputFromConfig(
   config: Pick<DeploymentConfig, 'samples' | 'results_path'>,
   vehicles: readonly VehicleModel[],
   o: SizingOptions,
-  duty?: Duty,
+  duty?: Partial<Duty>,
 ): Promise<StoreSizingInput> {
   const samples = openSampleStore(config.samples);
   const results = createAnalysisStore(openResultsDb(config.results_path));

@@ -1,6 +1,8 @@
 import { ColumnBuilder, NUMERIC_COLUMNS, type Sample } from '@thermargin/shared';
 import { describe, expect, it } from 'vitest';
 import { analyzeVehicle } from '../../../core/src/analyze.ts';
+import { resolveSizingOptions } from '../../../core/src/sizing/options.ts';
+import { sizeVehicle } from '../../../core/src/sizing/vehicle-sizing.ts';
 import { vehicleResult } from '../../../core/src/vehicle-result.ts';
 import { resolveVehicle } from '../../../core/src/vehicle/resolve.ts';
 import { createScenario, type Scenario } from '../../../services/simulator/src/scenario.ts';
@@ -53,6 +55,29 @@ describe.each([1, 2])('the demo fleet, seed %i', (seed) => {
     expect(result.status).toBe('inspect');
     expect(result.projected_inspect_overdue_days).not.toBeNull();
     expect(assessment.series.projection.reason ?? '').not.toMatch(/more than \d+ days ahead/);
+  });
+
+  it('sizing keeps the faults apart: no fouling allowance from a coolant loss or a failed fan', () => {
+    const o = resolveSizingOptions({ what_if: [] });
+    for (const id of IDS) {
+      const { result } = got[id]!;
+      const model = resolveVehicle(sc.fleet.vehicles.find((v) => v.id === id)!, sc.fleet.policy);
+      const v = sizeVehicle(model, result.trips, null, o);
+      for (const f of v.fouling)
+        if (f.fouling_allowance !== null)
+          expect(f.fouling_allowance, `${id} ${f.band}`).toBeLessThanOrEqual(o.max_fouling_allowance);
+      expect(v.design_check!.margin_now_pct, id).toBe(result.margin_pct);
+    }
+    const band = (id: string, b: 'ram' | 'fan') =>
+      sizeVehicle(
+        resolveVehicle(sc.fleet.vehicles.find((v) => v.id === id)!, sc.fleet.policy),
+        got[id]!.result.trips,
+        null,
+        o,
+      ).fouling.find((f) => f.band === b)!;
+    expect(band('bus-03', 'fan').left_out_cause).toBe('fan');
+    expect(band('bus-03', 'ram').left_out_trips).toBe(0);
+    expect(['coolant_flow', 'fan']).toContain(band('truck-01', 'ram').left_out_cause);
   });
 
   it('the margin the summary reads is the level of the governing band, with its trend', () => {

@@ -194,18 +194,19 @@ describe('"what if" replay against the generated fleet', () => {
   it('at a limit 15 K lower derates on exactly the days the recorded coolant passed the new limit', () => {
     // With the fan override off, the replay is the generator's own lumped loop (same C and heat, k
     // estimated within a fraction of a per cent), so it must derate where the recorded coolant rose above
-    // the new limit, and nowhere else (±0.3 K for the k estimate and the 0.01 K rounding of the data).
+    // the new limit, and nowhere else (±0.5 K for the k estimate, which the cold key-on readings next to
+    // the first window move by about 0.5 %, and the 0.01 K rounding of the data).
     const limit = BASE_CONFIG.coolant_limit_c - 15;
     let expected = 0;
     for (const spec of SPECS) {
       const replayed = new Set(vehicle(spec.id).what_if![1]!.days.map((d) => d.date));
       for (const t of tripsOf.get(spec.id)!) {
         const date = t.start.slice(0, 10);
-        if (t.coolant_max_c > limit + 0.3) {
+        if (t.coolant_max_c > limit + 0.5) {
           expected++;
           expect(replayed.has(date), `${spec.id} ${date} (${t.coolant_max_c} °C)`).toBe(true);
         }
-        if (t.coolant_max_c < limit - 0.3)
+        if (t.coolant_max_c < limit - 0.5)
           expect(replayed.has(date), `${spec.id} ${date} (${t.coolant_max_c} °C)`).toBe(false);
       }
     }

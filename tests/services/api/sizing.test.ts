@@ -127,9 +127,15 @@ describe('GET /api/sizing and POST /api/sizing/calculator against the stores', (
     expect(body.design).toEqual(
       answerDesign({ ...DESIGN, k_w_m2k: median(ks), fouling_allowance: allowance, area_m2: 0.3 }),
     );
-    expect(body.drivetrains).toEqual(
-      compareDrivetrains({ ...DEFAULT_DUTY, speed_kmh: 100, ambient_c: 40 }, median(ks), allowance),
+    // On the fleet's own duty (the sizing figures'), with the speed asked for and the design's ambient.
+    const { duty_source, duty_note, ...comparison } = body.drivetrains;
+    expect(comparison).toEqual(
+      compareDrivetrains({ ...cli.drivetrains.duty, speed_kmh: 100, ambient_c: 40 }, median(ks), allowance),
     );
+    expect(duty_source).toEqual({ ...cli.drivetrains.duty_source, speed_kmh: 'given', ambient_c: 'given' });
+    expect(duty_note).toBe(cli.drivetrains.duty_note);
+    expect(cli.drivetrains.duty_source!.mass_kg).toBe('fleet_data');
+    expect(cli.drivetrains.duty.mass_kg).not.toBe(DEFAULT_DUTY.mass_kg);
     expect(body.what_if).toBeNull();
     expect(body.safety_caution).toBe(SAFETY_CAUTION);
   });

@@ -12,7 +12,8 @@ import { createRng } from '@thermargin/core/stats/prng';
  * A fleet generator whose true sizing figures are known: one trip a day, a ram-band leg (85 km/h, fan 0)
  * and a fan-band climb (10 km/h, fan 100 %), heat drawn uniformly within ±spread of a set level, the
  * coolant from a lumped loop C·dT/dt = Q − kA·(T − T_amb) with k following the core's air-side model
- * exactly (k_ref·(v/v_ref)^0.5), and k falling linearly with days since the last cleaning.
+ * exactly (k_ref·(v/v_ref)^0.5), and k falling linearly with days since the last cleaning. After the
+ * night's stop the coolant reads ambient for the first samples (a soaked loop at key-on).
  */
 export interface SizingVehicleSpec {
   id: string;
@@ -35,6 +36,8 @@ export interface SizingVehicleSpec {
 }
 
 export const LEG = { ram_s: 1200, fan_s: 600, step_s: 2, ram_kmh: 85, fan_kmh: 10, derate_s: 120 } as const;
+/** Samples at key-on that read the soaked loop (ambient): the soak check's 5 and one more. */
+const KEY_ON_SAMPLES = 6;
 /** °C: clean-radiator coolant level the heat is set for. */
 const TARGET_C = 74;
 /** –: heat drawn uniformly within ±20 % of the set level. */
@@ -123,7 +126,10 @@ export function generateVehicle(spec: SizingVehicleSpec): { columns: SampleColum
       values[0] = t0 + s * 1000;
       values[1] = ram ? LEG.ram_kmh : LEG.fan_kmh;
       values[2] = (q * BASE_CONFIG.drivetrain_efficiency) / SHARE;
-      values[3] = Math.round(T * 100) / 100;
+      // Key-on after the night's soak: the first samples read the loop at ambient, as a real one would
+      // (the soak check of the health assessment); the warm-up itself is left out, so the heat and k
+      // truths stay those of the two legs.
+      values[3] = i < KEY_ON_SAMPLES ? amb : Math.round(T * 100) / 100;
       values[4] = Number.NaN;
       values[5] = amb;
       values[6] = ram ? 0 : 100;

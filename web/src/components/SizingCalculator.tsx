@@ -1,5 +1,6 @@
 import type { Powertrain } from '@thermargin/shared/fleet';
 import type { CalculatorResponse, SizingResultView } from '@thermargin/shared/sizing-api';
+import { dutyWords } from '@thermargin/shared/sizing-text';
 import { useEffect, useState } from 'preact/hooks';
 import { ApiFailure } from '../api/client.ts';
 import { num, POWERTRAIN_WORD } from '../format.ts';
@@ -87,10 +88,10 @@ function Answer({ a }: { a: CalculatorResponse }) {
         </Figure>
       </dl>
       <h3>Drivetrains on the same duty</h3>
-      <p class="small muted">
-        {num(a.drivetrains.duty.speed_kmh, 'km/h', 0)}, {num(a.drivetrains.duty.mass_kg, 'kg', 0)}, wheel
-        power {num(a.drivetrains.wheel_kw, 'kW')} (aero {num(a.drivetrains.aero_kw, 'kW')}, rolling{' '}
-        {num(a.drivetrains.rolling_kw, 'kW')}); same k and allowance for all.
+      <p class="small muted" data-fig="duty">
+        {dutyWords(a.drivetrains)}: wheel power {num(a.drivetrains.wheel_kw, 'kW')} (aero{' '}
+        {num(a.drivetrains.aero_kw, 'kW')}, rolling {num(a.drivetrains.rolling_kw, 'kW')}); same k and
+        allowance for all.{a.drivetrains.duty_note && ` ${a.drivetrains.duty_note}.`}
       </p>
       <div class="table-wrap">
         <table class="grid" data-table="drivetrains">
@@ -221,8 +222,21 @@ export function SizingCalculator({ session, sizing }: { session: Session; sizing
         </fieldset>
         <fieldset>
           <legend>Drivetrain duty</legend>
-          <NumberInput form={form} set={set} name="speed_kmh" label="Speed (km/h)" />
-          <NumberInput form={form} set={set} name="mass_kg" label="Mass (kg)" />
+          {(
+            [
+              ['speed_kmh', 'Speed (km/h)'],
+              ['mass_kg', 'Mass (kg)'],
+            ] as const
+          ).map(([name, label]) => (
+            <NumberInput
+              key={name}
+              form={form}
+              set={set}
+              name={name}
+              label={label}
+              hint={`fleet ${num(sizing.drivetrains.duty[name], '', 0)}`}
+            />
+          ))}
         </fieldset>
         <fieldset>
           <legend>What if, over the recorded days</legend>

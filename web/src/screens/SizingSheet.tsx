@@ -1,6 +1,7 @@
 import type { GroupSizingView, SizingResponse, SizingResultView } from '@thermargin/shared/sizing-api';
 import { DutyChart } from '../charts/duty-charts.tsx';
 import { Caution } from '../components/Caution.tsx';
+import { DesignChecks, FoulingNotes } from '../components/DesignChecks.tsx';
 import { SizingCalculator } from '../components/SizingCalculator.tsx';
 import { Empty, Loaded } from '../components/States.tsx';
 import { num, POWERTRAIN_WORD, when } from '../format.ts';
@@ -125,8 +126,10 @@ function Fouling({ s }: { s: SizingResultView }) {
       <p class="small muted">
         From the health trend fits between cleanings (at least {s.options.min_fouling_trips} trips over{' '}
         {s.options.min_fouling_span_days} days). The cleaning interval is the time from a cleaning to the
-        inspection threshold at the fitted rate.
+        inspection threshold at the fitted rate. Trips after a fan fault, a coolant-side loss or a suspect
+        sensor is named are left out: what they lose is not fouling.
       </p>
+      <FoulingNotes s={s} />
       <Caution />
     </>
   );
@@ -238,6 +241,10 @@ function Sheet({ r, session }: { r: SizingResponse; session: Session }) {
       <section aria-labelledby="calc">
         <h2 id="calc">Calculator</h2>
         <SizingCalculator session={session} sizing={s} />
+      </section>
+      <section aria-labelledby="checks">
+        <h2 id="checks">Design points against the field</h2>
+        <DesignChecks s={s} />
       </section>
       <section aria-labelledby="fieldk">
         <h2 id="fieldk">Field k against the bench</h2>

@@ -21,7 +21,7 @@ export interface CalculatorForm {
 
 const text = (x: number | undefined): string => (x === undefined || !Number.isFinite(x) ? '' : String(x));
 
-/** Starting inputs: the fleet's typical vehicle (median design point, limit and area), its comparison duty
+/** Starting inputs: the fleet's typical vehicle (median design point, limit and area), its own duty
  *  and its first what-if scenario. */
 export function defaultForm(s: SizingResultView): CalculatorForm {
   const vs = s.vehicles;
@@ -35,8 +35,9 @@ export function defaultForm(s: SizingResultView): CalculatorForm {
     area_m2: text(of((v) => v.radiator_area_m2)),
     k_w_m2k: '',
     powertrain: '',
-    speed_kmh: text(s.drivetrains.duty.speed_kmh),
-    mass_kg: text(s.drivetrains.duty.mass_kg),
+    // Blank: the fleet's own duty (the sizing figures'), which the inputs show as their hint.
+    speed_kmh: '',
+    mass_kg: '',
     ambient_rise_k: text(scenario?.ambient_rise_k),
     limit_drop_k: text(scenario?.limit_drop_k),
   };

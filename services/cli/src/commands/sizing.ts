@@ -25,7 +25,8 @@ export const SIZING_USAGE = `thermargin sizing --fleet FLEET.json (--data PATH |
                default ${SIZING_DEFAULTS.what_if.map((s) => `${s.ambient_rise_k},${s.limit_drop_k}`).join(' and ')})
   --cleaning-interval DAYS  planned cleaning interval the fouling allowance is worked out for (default ${SIZING_DEFAULTS.cleaning_interval_days})
   --duty k=v,…  drivetrain comparison duty: mass_kg, cda_m2, crr, speed_kmh, grade_pct, ambient_c
-               (default ${Object.entries(DEFAULT_DUTY)
+               (default: the fleet's own, read from its data; what the data cannot give from
+               ${Object.entries(DEFAULT_DUTY)
                  .map(([k, v]) => `${k}=${v}`)
                  .join(',')})`;
 
@@ -40,8 +41,9 @@ function parseWhatIf(text: string, problems: Problem[]): WhatIfScenario | null {
   return { ambient_rise_k: Number(m[1]), limit_drop_k: Number(m[2]) };
 }
 
-function parseDuty(text: string, problems: Problem[]): Duty {
-  const duty: Duty = { ...DEFAULT_DUTY };
+/** The figures given; the others come from the fleet's data (core/src/sizing/fleet-duty.ts). */
+function parseDuty(text: string, problems: Problem[]): Partial<Duty> {
+  const duty: Partial<Duty> = {};
   for (const part of text.split(',')) {
     const [key, value] = part.split('=').map((s) => s.trim());
     const x = Number(value);
@@ -123,7 +125,7 @@ async function readData(
   fleet: string,
   dataPath: string,
   options: SizingOptions,
-  duty: Duty | undefined,
+  duty: Partial<Duty> | undefined,
   log: (line: string) => void,
 ): Promise<SizingRead> {
   const samples = new Map<string, VehicleSamples>();
@@ -149,7 +151,7 @@ async function readData(
 async function readStore(
   fleetPath: string | undefined,
   options: SizingOptions,
-  duty: Duty | undefined,
+  duty: Partial<Duty> | undefined,
 ): Promise<SizingRead> {
   // Loaded here: the stores' modules would slow every `sizing --data` run's start-up.
   const [{ deploymentConfig }, { loadFleetFile }, { sizingInputFromConfig }] = await Promise.all([

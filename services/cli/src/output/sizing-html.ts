@@ -1,4 +1,5 @@
 import { SAFETY_CAUTION } from '@thermargin/shared';
+import { dutyWords, leftOutWords, marginStepsWords } from '@thermargin/shared/sizing-text';
 import type { SizingResult } from '@thermargin/core/sizing/fleet-sizing';
 import type { GroupSizing } from '@thermargin/core/sizing/group-sizing';
 import type { Spread } from '@thermargin/core/sizing/spread';
@@ -141,8 +142,14 @@ function fouling(r: SizingResult): string {
       f.inspect_ratio === null ? '–' : `${f.inspect_ratio.toFixed(3)} (${f.inspect_basis})`,
       fmt(f.days_to_inspect, 0),
       fmt(f.km_to_inspect, 0),
-      pct(f.fouling_allowance),
+      f.fouling_allowance_note ? 'not given (below)' : pct(f.fouling_allowance),
+      esc(leftOutWords(f) ?? '–'),
     ]),
+  );
+  const notes = r.vehicles.flatMap((v) =>
+    v.fouling
+      .filter((f) => f.fouling_allowance_note)
+      .map((f) => `<li>${esc(v.id)}, ${f.band} band: ${esc(f.fouling_allowance_note!)}</li>`),
   );
   const ram = r.vehicles.map((v) => v.fouling.find((f) => f.band === 'ram')!.loss_pct_per_month);
   const fan = r.vehicles.map((v) => v.fouling.find((f) => f.band === 'fan')!.loss_pct_per_month);
@@ -158,13 +165,15 @@ ${barChart(
     { name: 'fan band', values: fan },
   ],
 )}
-${table(['vehicle', 'band', 'intervals fitted', 'loss %/month', 'loss %/1000 km', 'clean k', 'inspect at k ÷ clean', 'days to inspection', 'km to inspection', 'allowance'], rows)}`;
+${table(['vehicle', 'band', 'intervals fitted', 'loss %/month', 'loss %/1000 km', 'clean k', 'inspect at k ÷ clean', 'days to inspection', 'km to inspection', 'allowance', 'not fouling'], rows)}
+<p>Trips after the health assessment names a fan fault (fan band), a coolant-side loss or a suspect sensor (both bands) are left out until the maintenance that renews the band.</p>
+${notes.length ? `<ul>${notes.join('')}</ul>` : ''}`;
 }
 
 function calculator(r: SizingResult): string {
   const rows = r.vehicles.map((v) => {
     const c = v.design_check;
-    if (!c) return [esc(v.id), '–', '–', '–', '–', '–', '–', '–', '–', '–'];
+    if (!c) return [esc(v.id), '–', '–', '–', '–', '–', '–', '–', '–', '–', '–'];
     return [
       esc(v.id),
       `${v.design.ambient_c} °C, ${v.design.heat_kw} kW, limit ${v.coolant_limit_c} °C`,
@@ -176,6 +185,7 @@ function calculator(r: SizingResult): string {
       fmt(c.supported_heat_kw, 1),
       fmt(c.supported_ambient_c, 1),
       fmt(c.margin_pct, 1),
+      esc(marginStepsWords(c)),
     ];
   });
   const dt = r.drivetrains;
@@ -189,12 +199,12 @@ function calculator(r: SizingResult): string {
     fmt(x.required_area_m2, 3),
     fmt(x.area_vs_ice, 2),
   ]);
-  const d = dt.duty;
   return `<h2>Sizing calculator: design points against field evidence</h2>
 <p>A_req = Q_design / (k_field · (T_limit − T_amb,design)) · (1 + fouling allowance), k_field the clean field k moved to the design air condition.</p>
-${table(['vehicle', 'design point', 'k from', 'k at design W/(m²·K)', 'fouling allowance', 'required m²', 'installed m²', 'installed supports kW', 'installed supports up to °C', 'margin %'], rows)}
-<h3>Drivetrain comparison for the same duty</h3>
-<p>${d.mass_kg} kg, CdA ${d.cda_m2} m², Crr ${d.crr}, ${d.speed_kmh} km/h${d.grade_pct ? `, ${d.grade_pct} % grade` : ''}, ${d.ambient_c} °C: aero ${dt.aero_kw.toFixed(1)} kW + rolling ${dt.rolling_kw.toFixed(1)} kW = ${dt.wheel_kw.toFixed(1)} kW at the wheels; equal k ${dt.k_w_m2k.toFixed(0)} W/(m²·K).</p>
+<p>The margin differs from the one <code>analyze</code> reports only by the steps named: from the band's current level to the named k, then the named fouling allowance.</p>
+${table(['vehicle', 'design point', 'k from', 'k at design W/(m²·K)', 'fouling allowance', 'required m²', 'installed m²', 'installed supports kW', 'installed supports up to °C', 'margin %', 'margin: analysed → design'], rows)}
+<h3>Drivetrain comparison on the fleet's duty</h3>
+<p>${esc(dutyWords(dt))}: aero ${dt.aero_kw.toFixed(1)} kW + rolling ${dt.rolling_kw.toFixed(1)} kW = ${dt.wheel_kw.toFixed(1)} kW at the wheels; equal k ${dt.k_w_m2k.toFixed(0)} W/(m²·K).${dt.duty_note ? ` ${esc(dt.duty_note)}.` : ''}</p>
 ${barChart(
   'Required net area for the same duty',
   'm²',
