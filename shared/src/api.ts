@@ -1,8 +1,9 @@
 import { z } from 'zod';
 import { NUMERIC_COLUMNS } from './columns.ts';
 import { MAINTENANCE_ACTIONS, maintenanceEntrySchema, vehicleConfigSchema } from './fleet.ts';
+import { healthSeriesSchema } from './health-series.ts';
 import { idSchema } from './ids.ts';
-import { CAUSES, MARGIN_SOURCES, STATUSES, TRENDS, tripResultSchema } from './results.ts';
+import { CAUSES, STATUSES, TRENDS, tripResultSchema } from './results.ts';
 import { REJECT_REASONS } from './telemetry.ts';
 
 /**
@@ -148,76 +149,6 @@ export const maintenanceViewSchema = z.object({
   recorded_at: iso.nullable(),
 });
 export type MaintenanceView = z.infer<typeof maintenanceViewSchema>;
-
-const col = z.array(num);
-export const bandSeriesSchema = z.object({
-  health: col,
-  level: col,
-  ewma: col,
-  ewma_lcl: col,
-  cusum: col,
-  cusum_h: z.number(),
-  change_points: z.array(
-    z.object({
-      signal: iso,
-      since: iso,
-      detector: z.enum(['cusum', 'ewma', 'step']),
-      /** The level at the end of the change's segment less the median health before the change began, in points (absent in results stored before it). */
-      shift_pct: num.optional(),
-    }),
-  ),
-  baselines: z.array(
-    z.object({
-      start: iso,
-      k_w_m2k: num,
-      source: z.enum(['bench', 'trips']),
-      reference: num,
-    }),
-  ),
-});
-
-/** Chart data of the health module (core/health/series.ts): one entry per trip, by `time_ms`. */
-export const healthSeriesSchema = z.object({
-  time_ms: z.array(z.number()),
-  ram: bandSeriesSchema,
-  fan: bandSeriesSchema,
-  margin: z.object({
-    basis: z.enum(['ram', 'fan']),
-    pct: col,
-    level_pct: col,
-    lat_c: col,
-    lat_level_c: col,
-    inspect_below_pct: z.number(),
-    watch_below_pct: z.number(),
-    /** Where each trip's margin comes from (results.ts MARGIN_SOURCES); absent in results stored before it. */
-    source: z.array(z.enum(MARGIN_SOURCES).nullable()).optional(),
-    /** The margin's trend since the governing band's last change; the tile, finding and alerts quote it. */
-    trend: z
-      .object({
-        word: z.enum(TRENDS),
-        /** Points of margin per 30 days (Theil–Sen), with Sen's 95 % interval. */
-        pct_per_30d: z.number(),
-        pct_per_30d_ci95: z.tuple([z.number(), z.number()]).nullable(),
-        since: iso,
-        trips: z.number().int(),
-      })
-      .nullable()
-      .optional(),
-  }),
-  projection: z.object({
-    method: z.enum(['kern-seaton', 'theil-sen']).nullable(),
-    threshold_pct: z.number(),
-    date: iso.nullable(),
-    interval: z.tuple([iso.nullable(), iso.nullable()]).nullable(),
-    curve: z.object({
-      time_ms: z.array(z.number()),
-      margin_pct: z.array(z.number()),
-      lat_c: z.array(z.number()),
-    }),
-    reason: z.string().nullable(),
-  }),
-});
-export type HealthSeriesView = z.infer<typeof healthSeriesSchema>;
 
 /** Trips shown on the vehicle page, newest first; the rest through the trips route. */
 export const VEHICLE_RECENT_TRIPS = 20;

@@ -2,6 +2,7 @@ export * from './column-builder.ts';
 export * from './columns.ts';
 export * from './fleet.ts';
 export * from './fleet-text.ts';
+export * from './health-series.ts';
 export * from './ids.ts';
 export * from './policy.ts';
 export * from './results.ts';

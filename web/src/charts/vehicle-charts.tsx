@@ -1,5 +1,6 @@
 import { DAY_MS } from '@thermargin/shared/time';
-import type { HealthSeriesView, MaintenanceView } from '@thermargin/shared/api';
+import type { MaintenanceView } from '@thermargin/shared/api';
+import type { HealthSeriesView } from '@thermargin/shared/health-series';
 import type { VehicleConfigInput } from '@thermargin/shared/fleet';
 import { useMemo } from 'preact/hooks';
 import type uPlot from 'uplot';
