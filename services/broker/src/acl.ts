@@ -17,6 +17,21 @@ export function canPublish(user: Pick<BrokerUser, 'username' | 'role'>, topic: s
   return user.role === 'vehicle' && isValidId(user.username) && topic === sampleTopic(user.username);
 }
 
+/**
+ * The client id a login gets: a vehicle's is its user name whatever it asked for (as Mosquitto's
+ * `use_username_as_clientid` on the vehicles' listener), so a vehicle can only ever replace its own
+ * session, never the ingester's or another vehicle's; an ingester keeps the ids it asks for, except a
+ * vehicle's name (undefined: refused), so the ids vehicles get stay theirs alone.
+ */
+export function boundClientId(
+  user: Pick<BrokerUser, 'username' | 'role'>,
+  requested: string,
+  isVehicle: (name: string) => boolean,
+): string | undefined {
+  if (user.role === 'vehicle') return user.username;
+  return isVehicle(requested) ? undefined : requested;
+}
+
 /** `$share/{group}/{filter}` is judged by its filter (MQTT 5 shared subscriptions). */
 export function canSubscribe(user: Pick<BrokerUser, 'role'>, filter: string): boolean {
   if (user.role !== 'ingester') return false;

@@ -1,18 +1,23 @@
 import { timingSafeEqual } from 'node:crypto';
 import { type AddressInfo, createServer } from 'node:net';
 import { Aedes } from 'aedes';
-import { type BrokerUser, canPublish, canSubscribe } from './acl.ts';
+import { type BrokerUser, boundClientId, canPublish, canSubscribe } from './acl.ts';
+import { StoredAcks, VOID_TOPIC } from './stored-ack.ts';
 
 export * from './acl.ts';
 
 /**
- * The embedded broker for a zero-setup single machine: aedes with the same authentication and ACL as
- * the shipped Mosquitto config. aedes speaks MQTT 3.1.1 (no shared subscriptions, sessions in memory):
- * one ingester, connected with protocol 4 (see services/ingester/README.md).
+ * The embedded broker for a zero-setup single machine: aedes with the same authentication, ACL and
+ * client-id binding as the shipped Mosquitto config. aedes speaks MQTT 3.1.1 (no shared subscriptions,
+ * sessions in memory): one ingester, connected with protocol 4 (see services/ingester/README.md).
+ * A vehicle's QoS 1 publish is acknowledged only once the ingester has stored it (stored-ack.ts), so
+ * nothing acknowledged lives only in this process's memory.
  */
 export interface EmbeddedBroker {
   url: string;
   port: number;
+  /** Vehicle publishes waiting for the ingester's acknowledgement. */
+  readonly unacknowledged: number;
   close(): Promise<void>;
 }
 
@@ -23,6 +28,7 @@ export interface EmbeddedBrokerOptions {
   host?: string;
 }
 
+const IDENTIFIER_REJECTED = 2;
 const NOT_AUTHORIZED = 5;
 const BAD_CREDENTIALS = 4;
 
@@ -38,21 +44,34 @@ function samePassword(a: string, b: Buffer | undefined): boolean {
 export async function startEmbeddedBroker(options: EmbeddedBrokerOptions): Promise<EmbeddedBroker> {
   const users = new Map(options.users.map((u) => [u.username, u]));
   const roleOf = new WeakMap<object, BrokerUser>();
-  const broker = await Aedes.createBroker({
+  const isVehicle = (name: string) => users.get(name)?.role === 'vehicle';
+  const broker = new Aedes({
     authenticate(client, username, password, done) {
       const user = username === undefined ? undefined : users.get(username);
       if (!user || !samePassword(user.password, password)) {
         return done(authError(BAD_CREDENTIALS, 'bad user name or password'), false);
       }
+      const id = boundClientId(user, client.id, isVehicle);
+      if (id === undefined)
+        return done(authError(IDENTIFIER_REJECTED, `client id ${client.id} is a vehicle's`), false);
+      // Set before aedes registers the client (and closes any other with the same id).
+      (client as { id: string }).id = id;
       roleOf.set(client, user);
       done(null, true);
     },
     authorizePublish(client, packet, done) {
       const user = client ? roleOf.get(client) : undefined;
-      done(
-        user && canPublish(user, packet.topic)
-          ? null
-          : authError(NOT_AUTHORIZED, `publish to ${packet.topic} denied`),
+      if (!client || !user || !canPublish(user, packet.topic))
+        return done(authError(NOT_AUTHORIZED, `publish to ${packet.topic} denied`));
+      if (packet.qos === 0) return done(null);
+      acks.relay(client, packet).then(
+        () => {
+          // The copy is stored; aedes now answers the vehicle and routes the original nowhere.
+          packet.topic = VOID_TOPIC;
+          packet.retain = false;
+          done(null);
+        },
+        (e: Error) => done(e),
       );
     },
     authorizeSubscribe(client, subscription, done) {
@@ -61,6 +80,8 @@ export async function startEmbeddedBroker(options: EmbeddedBrokerOptions): Promi
       done(authError(NOT_AUTHORIZED, `subscribe to ${subscription.topic} denied`), null);
     },
   });
+  const acks = new StoredAcks(broker, (client) => roleOf.get(client)?.role === 'ingester');
+  await broker.listen();
   const server = createServer(broker.handle);
   await new Promise<void>((resolve, reject) => {
     server.once('error', reject);
@@ -70,6 +91,9 @@ export async function startEmbeddedBroker(options: EmbeddedBrokerOptions): Promi
   return {
     url: `mqtt://${options.host ?? '127.0.0.1'}:${port}`,
     port,
+    get unacknowledged() {
+      return acks.pending;
+    },
     async close() {
       await new Promise<void>((resolve) => broker.close(() => resolve()));
       await new Promise<void>((resolve) => server.close(() => resolve()));

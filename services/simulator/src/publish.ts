@@ -65,7 +65,7 @@ export async function publishScenario(
     }
     let c = own.get(vehicle);
     if (!c) {
-      c = mqtt.connectAsync(o.url!, { ...login, clientId: `sim-${vehicle}`, reconnectPeriod: 1000 });
+      c = mqtt.connectAsync(o.url!, { ...login, clientId: vehicle, reconnectPeriod: 1000 });
       own.set(vehicle, c);
     }
     return c;

@@ -12,11 +12,14 @@ import {
   oneSample,
   publishStream,
   startFleetIngester,
+  storedTotals,
+  takeoverAttempts,
   tempDir,
   waitForCount,
 } from '../ingester/support.ts';
 
 const IDS = ['bus-01', 'bus-02'];
+const T0 = Date.UTC(2025, 6, 1);
 const dir = tempDir('embedded');
 let broker: EmbeddedBroker;
 beforeAll(async () => {
@@ -61,6 +64,68 @@ describe('embedded broker (aedes, MQTT 3.1.1) with the same auth and ACL', () =>
     const want = expectedTotals(stream);
     expect(await waitForCount(store, IDS, want.count)).toEqual(want);
     expect((await store.readSamples('bus-02', sample.time, sample.time + 1)).n).toBe(0);
+    await ingester.stop();
+    await store.close();
+  });
+
+  it("acknowledges a vehicle's QoS 1 publish only once the ingester has stored it", async () => {
+    // A fresh broker: no ingester yet, so aedes alone would acknowledge and drop the message.
+    const fresh = await startEmbeddedBroker({ users: fleetUsers(IDS) });
+    const store = createSqliteStore({ path: join(dir, 'stored-ack.db') });
+    const vehicle = await connectAs(fresh.url, 'bus-01', { protocolVersion: 4 });
+    const storedWhenAcked: number[] = [];
+    const publish = (i: number) =>
+      vehicle
+        .publishAsync(sampleTopic('bus-01'), JSON.stringify(oneSample('bus-01', T0 + i * 1000)), { qos: 1 })
+        .then(async () => storedWhenAcked.push((await storedTotals(store, ['bus-01'])).count));
+    const first = publish(0);
+    const ingester = await startFleetIngester({
+      mqtt_url: fresh.url,
+      dir,
+      ids: IDS,
+      client_id: 'acked',
+      share_group: '',
+      store,
+      env: { [ENV.MQTT_PROTOCOL]: '4', [ENV.CONNECTIONS]: '1' },
+    });
+    await first;
+    for (let i = 1; i < 30; i++) await publish(i);
+    expect(storedWhenAcked).toEqual(Array.from({ length: 30 }, (_, i) => i + 1));
+    expect(fresh.unacknowledged).toBe(0);
+    await vehicle.endAsync();
+    await ingester.stop();
+    await store.close();
+    await fresh.close();
+  });
+
+  it("binds client ids to user names: a vehicle cannot take the ingester's session, nor the ingester a vehicle's id", async () => {
+    const store = createSqliteStore({ path: join(dir, 'takeover.db') });
+    const ingester = await startFleetIngester({
+      mqtt_url: broker.url,
+      dir,
+      ids: IDS,
+      client_id: 'bound',
+      share_group: '',
+      store,
+      env: { [ENV.MQTT_PROTOCOL]: '4', [ENV.CONNECTIONS]: '1' },
+    });
+    const stream = fleetStream(['bus-01'], 400);
+    const publishing = publishStream(broker.url, stream, 20, undefined, 4);
+    const kicks = await takeoverAttempts({
+      vehicle_url: broker.url,
+      thief: 'bus-02',
+      client_id: 'bound',
+      attempts: 20,
+      protocol: 4,
+      ingester,
+    });
+    await publishing;
+    expect(kicks).toBe(0);
+    expect(await waitForCount(store, ['bus-01'], 400)).toEqual(expectedTotals(stream));
+    // The ingester's credentials with a vehicle's id are refused (identifier rejected).
+    await expect(
+      connectAs(broker.url, 'ingester', { clientId: 'bus-01', protocolVersion: 4, reconnectPeriod: 0 }),
+    ).rejects.toThrow(/identifier rejected|client id/i);
     await ingester.stop();
     await store.close();
   });

@@ -293,3 +293,30 @@ export async function audit(store: SampleStore, stream: WireSample[][]): Promise
 }
 
 export const sleep = (ms: number) => new Promise<void>((r) => setTimeout(r, ms));
+
+/**
+ * A vehicle trying to take over the ingester's session: `attempts` logins with `thief`'s credentials
+ * and the ingester's client id (`${client_id}-0`) on `vehicle_url`, while the ingester runs. Resolves
+ * with how often the ingester had to reconnect.
+ */
+export async function takeoverAttempts(o: {
+  vehicle_url: string;
+  thief: string;
+  client_id: string;
+  attempts: number;
+  protocol: 4 | 5;
+  ingester: Ingester;
+}): Promise<number> {
+  const before = o.ingester.metrics.broker_reconnects;
+  for (let i = 0; i < o.attempts; i++) {
+    const c = await connectAs(o.vehicle_url, o.thief, {
+      clientId: `${o.client_id}-0`,
+      protocolVersion: o.protocol,
+      reconnectPeriod: 0,
+    }).catch(() => undefined);
+    await sleep(20);
+    await c?.endAsync(true);
+  }
+  await sleep(300);
+  return o.ingester.metrics.broker_reconnects - before;
+}

@@ -31,6 +31,9 @@ describe('publishScenario', () => {
       username: 'reader',
       password: 'pw-reader',
       protocolVersion: 4,
+      // the embedded broker acknowledges a vehicle once a receiver with a persistent session has
+      clientId: 'reader',
+      clean: false,
     });
     const got = new Map<string, number>();
     let invalid = 0;
