@@ -21,7 +21,7 @@ import {
 import { type SampleStore, createInfluxStore, createSqliteStore } from '@thermargin/store';
 import mqtt from 'mqtt';
 import { startInflux } from '../support/servers/influx.ts';
-import { startMosquitto } from '../support/servers/mosquitto.ts';
+import { type MosquittoServer, startMosquitto } from '../support/servers/mosquitto.ts';
 import { machineBusy_s, processCpu_s } from './cpu-meter.ts';
 import {
   INGESTER_USER,
@@ -110,13 +110,13 @@ const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
  * The broker's ceiling for the ingester's subscription shape: the same payloads and QoS, `CONNECTIONS`
  * sessions in one shared group with the ingester's receive maximum, each message acknowledged on arrival.
  */
-async function brokerCeiling(url: string, servers: Servers, group: string): Promise<Measured> {
+async function brokerCeiling(broker: Listeners, servers: Servers, group: string): Promise<Measured> {
   let samples = 0;
   let done: () => void = () => {};
   const all = new Promise<void>((r) => (done = r));
   const subs = await Promise.all(
     Array.from({ length: CONNECTIONS }, async (_, i) => {
-      const sub = await mqtt.connectAsync(url, {
+      const sub = await mqtt.connectAsync(broker.ingester_url, {
         clientId: `${group}-${i}`,
         username: INGESTER_USER.username,
         password: INGESTER_USER.password,
@@ -131,7 +131,7 @@ async function brokerCeiling(url: string, servers: Servers, group: string): Prom
       return sub;
     }),
   );
-  const go = await preparePublisher(url);
+  const go = await preparePublisher(broker.url);
   const m = await measure(servers, async () => (await Promise.all([go(), all]))[0]);
   await Promise.all(subs.map((sub) => sub.endAsync()));
   return m;
@@ -186,6 +186,9 @@ interface Measured {
   peak_rss_mb?: number;
 }
 
+/** The broker's two listeners: vehicles publish on `url`, the ingesters read on `ingester_url`. */
+type Listeners = Pick<MosquittoServer, 'url' | 'ingester_url'>;
+
 /** Process ids of the servers a path runs through (their CPU is counted). */
 type Servers = readonly (number | undefined)[];
 
@@ -212,10 +215,15 @@ async function measure(servers: Servers, run: () => Promise<number>): Promise<Me
   };
 }
 
-async function endToEnd(url: string, store: SampleStore, servers: Servers, name: string): Promise<Measured> {
+async function endToEnd(
+  broker: Listeners,
+  store: SampleStore,
+  servers: Servers,
+  name: string,
+): Promise<Measured> {
   const config = readIngesterConfig({
     ...ingesterEnv({
-      mqtt_url: url,
+      mqtt_url: broker.ingester_url,
       fleet_file: writeFleetFile(dir, IDS),
       client_id: `bench-${name}`,
       spool_dir: join(dir, `spool-${name}`),
@@ -231,7 +239,7 @@ async function endToEnd(url: string, store: SampleStore, servers: Servers, name:
   await ingester.start();
   let peakRss = 0;
   const sampler = setInterval(() => (peakRss = Math.max(peakRss, process.memoryUsage().rss)), 100);
-  const go = await preparePublisher(url);
+  const go = await preparePublisher(broker.url);
   let stored = 0;
   const m = await measure(servers, async () => {
     const publisher = await go();
@@ -267,16 +275,16 @@ console.log(
 const PATHS = ['broker', 'sqlite_raw', 'influx_raw', 'sqlite_e2e', 'influx_e2e'] as const;
 const rounds: Record<(typeof PATHS)[number], Measured>[] = [];
 for (let r = 0; r < ROUNDS; r++) {
-  const broker_ = await brokerCeiling(broker.url, mosquittoOnly, `bench-raw-${r}`);
+  const broker_ = await brokerCeiling(broker, mosquittoOnly, `bench-raw-${r}`);
   const sqlite_raw = await storeCeiling(createSqliteStore({ path: join(dir, `raw-${r}.db`) }), []);
   const influx_raw = await storeCeiling(await influxStore(`raw_${r}`), influxOnly);
   const sqlite_e2e = await endToEnd(
-    broker.url,
+    broker,
     createSqliteStore({ path: join(dir, `e2e-${r}.db`) }),
     mosquittoOnly,
     `sqlite-${r}`,
   );
-  const influx_e2e = await endToEnd(broker.url, await influxStore(`e2e_${r}`), both, `influx-${r}`);
+  const influx_e2e = await endToEnd(broker, await influxStore(`e2e_${r}`), both, `influx-${r}`);
   rounds.push({ broker: broker_, sqlite_raw, influx_raw, sqlite_e2e, influx_e2e });
   const pct = (e2e: number, ceilings: number[]) => `${Math.round((e2e / Math.min(...ceilings)) * 100)} %`;
   console.log(

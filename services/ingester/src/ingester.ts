@@ -68,6 +68,15 @@ export function createIngester(config: IngesterConfig, deps: IngesterDeps): Inge
     throw new Error(
       `ingester: ${config.mqtt.connections} connections need a shared subscription (INGEST_SHARE_GROUP); without one use INGEST_CONNECTIONS=1`,
     );
+  // Its ids are reserved for it: a vehicle logging in with one would replace this session.
+  const taken = Array.from(
+    { length: config.mqtt.connections },
+    (_, i) => `${config.mqtt.client_id}-${i}`,
+  ).filter((id) => deps.known_vehicles.has(id));
+  if (taken.length)
+    throw new Error(
+      `ingester: client id ${taken.join(', ')} is a vehicle id of the fleet file; choose another INGEST_MQTT_CLIENT_ID`,
+    );
   const decodeContext = { known_vehicles: deps.known_vehicles, max_payload_bytes: config.max_payload_bytes };
   const pool =
     config.decode_workers > 0 ? new DecodePool(config.decode_workers, decodeContext, log) : undefined;

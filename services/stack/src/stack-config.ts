@@ -16,6 +16,7 @@ export const STACK_ENV = {
   DEMO_SEED: 'THERMARGIN_DEMO_SEED',
   SPEEDUP: 'THERMARGIN_SPEEDUP',
   RUN_FOR_S: 'THERMARGIN_RUN_FOR_S',
+  VEHICLE_MQTT_URL: 'THERMARGIN_VEHICLE_MQTT_URL',
 } as const;
 
 export interface StackConfig {
@@ -32,6 +33,11 @@ export interface StackConfig {
   speedup: number;
   /** s, 0 = until Ctrl-C: stop by itself after this long (smoke tests). */
   run_for_s: number;
+  /**
+   * Where the demo's vehicles publish on an external broker (its vehicles' listener); default
+   * INGEST_MQTT_URL. Unused with the embedded broker.
+   */
+  vehicle_mqtt_url: string | undefined;
   /** The environment with the config file's entries under it (the environment wins). */
   env: Record<string, string | undefined>;
 }
@@ -65,6 +71,7 @@ export function readStackConfig(processEnv: Env = process.env): StackConfig {
     seed: num(STACK_ENV.DEMO_SEED, 1, int, 'must be an integer ≥ 0'),
     speedup: num(STACK_ENV.SPEEDUP, 1, (x) => x > 0 && x <= 3600, 'must be a number in (0, 3600]'),
     run_for_s: num(STACK_ENV.RUN_FOR_S, 0, (x) => x >= 0, 'must be a number ≥ 0'),
+    vehicle_mqtt_url: env[STACK_ENV.VEHICLE_MQTT_URL] || env.INGEST_MQTT_URL || undefined,
     env,
   };
   if (problems.length) throw new Error(`start configuration:\n  ${problems.join('\n  ')}`);

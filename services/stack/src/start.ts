@@ -125,7 +125,7 @@ async function main(): Promise<void> {
   const publish = (samples: AsyncIterable<Sample>) =>
     publishScenario(null, scenario, {
       samples,
-      url: broker?.url ?? env.INGEST_MQTT_URL,
+      url: broker?.url ?? cfg.vehicle_mqtt_url,
       credentials: (vehicle) => ({ username: vehicle, password: state.vehicle_passwords[vehicle]! }),
     });
   const simulate = async () => {

@@ -58,7 +58,7 @@ beforeAll(async () => {
   samples = createInfluxStore({ url: influx.url, api: 'v1', database: 'stack' });
   const config = readIngesterConfig({
     ...ingesterEnv({
-      mqtt_url: broker.url,
+      mqtt_url: broker.ingester_url,
       fleet_file: writeFleetFile(dir, IDS),
       client_id: 'api-stack',
       spool_dir: join(dir, 'spool'),

@@ -3,7 +3,22 @@ import { sampleTopic } from '@thermargin/shared';
 import { createSqliteStore } from '@thermargin/store';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { type MosquittoServer, startMosquitto } from '../../support/servers/mosquitto.ts';
-import { connectAs, fleetUsers, oneSample, sleep, startFleetIngester, tempDir } from './support.ts';
+import { readIngesterConfig } from '@thermargin/ingester/config';
+import { createIngester } from '@thermargin/ingester/ingester';
+import {
+  connectAs,
+  ingesterEnv,
+  expectedTotals,
+  fleetStream,
+  fleetUsers,
+  oneSample,
+  publishStream,
+  sleep,
+  startFleetIngester,
+  takeoverAttempts,
+  tempDir,
+  waitForCount,
+} from './support.ts';
 
 const IDS = ['bus-01', 'bus-02'];
 const dir = tempDir('acl');
@@ -15,13 +30,18 @@ afterAll(async () => {
   await broker?.close();
 });
 
-const connect = (id: string) => connectAs(broker.url, id, { protocolVersion: 5, reconnectPeriod: 0 });
+/** Vehicles log in on the vehicles' listener, the ingester on its own. */
+const connect = (id: string) =>
+  connectAs(id === 'ingester' ? broker.ingester_url : broker.url, id, {
+    protocolVersion: 5,
+    reconnectPeriod: 0,
+  });
 
 describe('Mosquitto per-vehicle ACL (shipped rules, real broker)', () => {
   it("a vehicle publishing to another vehicle's topic is refused and nothing is stored", async () => {
     const store = createSqliteStore({ path: join(dir, 'acl.db') });
     const ingester = await startFleetIngester({
-      mqtt_url: broker.url,
+      mqtt_url: broker.ingester_url,
       dir,
       ids: IDS,
       client_id: 'acl',
@@ -73,5 +93,56 @@ describe('Mosquitto per-vehicle ACL (shipped rules, real broker)', () => {
         { protocolVersion: 5, reconnectPeriod: 0 },
       ),
     ).rejects.toThrow();
+  });
+
+  it('the ingester refuses a client id that is a vehicle id of its fleet', () => {
+    const env = ingesterEnv({
+      mqtt_url: broker.ingester_url,
+      fleet_file: 'unused.json',
+      client_id: 'van',
+      spool_dir: join(dir, 'spool-reserved'),
+    });
+    const store = createSqliteStore({ path: ':memory:' });
+    const create = () =>
+      createIngester(
+        { ...readIngesterConfig(env), metrics_port: -1 },
+        { store, known_vehicles: new Set(['van-2']) },
+      );
+    expect(create).toThrow(/client id van-2 is a vehicle id/);
+  });
+
+  it("binds client ids to user names (shipped config): a vehicle cannot take the ingester's session", async () => {
+    const store = createSqliteStore({ path: join(dir, 'takeover.db') });
+    const ingester = await startFleetIngester({
+      mqtt_url: broker.ingester_url,
+      dir,
+      ids: IDS,
+      client_id: 'bound',
+      share_group: 'bound',
+      store,
+    });
+    const stream = fleetStream(['bus-01'], 400);
+    const publishing = publishStream(broker.url, stream, 20);
+    const kicks = await takeoverAttempts({
+      vehicle_url: broker.url,
+      thief: 'bus-02',
+      client_id: 'bound',
+      attempts: 20,
+      protocol: 5,
+      ingester,
+    });
+    await publishing;
+    expect(kicks).toBe(0);
+    expect(await waitForCount(store, ['bus-01'], 400)).toEqual(expectedTotals(stream));
+    // Nor on the ingesters' listener: vehicles have no login there.
+    await expect(
+      connectAs(broker.ingester_url, 'bus-02', {
+        clientId: 'bound-0',
+        protocolVersion: 5,
+        reconnectPeriod: 0,
+      }),
+    ).rejects.toThrow();
+    await ingester.stop();
+    await store.close();
   });
 });

@@ -33,7 +33,7 @@ describe('bad input never stops the ingester; each is dead-lettered with its rea
   it('a corpus of ≥ 1 000 hostile messages interleaved with valid ones (real Mosquitto, SQLite)', async () => {
     const store = createSqliteStore({ path: join(dir, 'bad.db') });
     const ingester = await startFleetIngester({
-      mqtt_url: broker.url,
+      mqtt_url: broker.ingester_url,
       dir,
       ids: IDS,
       client_id: 'bad',

@@ -10,6 +10,7 @@ import { describe, expect, it } from 'vitest';
  */
 interface Service {
   image: string;
+  ports?: string[];
   command?: string[];
   environment?: Record<string, string>;
   volumes?: string[];
@@ -23,9 +24,10 @@ describe('docker-compose.yml', () => {
   it('has Mosquitto with the shipped auth/ACL config, InfluxDB 2 with its initial setup, two ingesters', () => {
     const m = compose.services.mosquitto!;
     expect(m.volumes).toContain('./config/mosquitto:/mosquitto/config:ro');
+    expect(m.ports).toEqual(['1883:1883']);
     const conf = readFileSync('config/mosquitto/mosquitto.conf', 'utf8');
     expect(conf).toMatch(/^allow_anonymous false$/m);
-    for (const f of ['passwd', 'acl']) {
+    for (const f of ['passwd', 'passwd-ingesters', 'acl']) {
       expect(conf).toContain(`/mosquitto/config/${f}`);
       expect(existsSync(`config/mosquitto/${f}`)).toBe(true);
     }
@@ -48,6 +50,8 @@ describe('docker-compose.yml', () => {
       expect(Object.keys(env).filter((k) => !known.has(k))).toEqual([]);
       const config = readIngesterConfig(env);
       expect(config.mqtt.share_group).toBe('ingesters');
+      // The ingesters' own listener (client ids their own), not the vehicles' one that is published.
+      expect(config.mqtt.url).toBe('mqtt://mosquitto:1884');
       expect(config.store).toMatchObject({
         kind: 'influx',
         api: 'v2',

@@ -29,7 +29,7 @@ afterAll(async () => {
 
 async function runThrough(store: SampleStore, name: string, env: Record<string, string> = {}) {
   const ingester = await startFleetIngester({
-    mqtt_url: broker.url,
+    mqtt_url: broker.ingester_url,
     dir,
     ids: IDS,
     client_id: `once-${name}`,

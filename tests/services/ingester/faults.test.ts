@@ -49,7 +49,7 @@ const influxEnv = (database: string) => ({
 
 function env(name: string, store: Record<string, string>, client = name) {
   return ingesterEnv({
-    mqtt_url: broker.url,
+    mqtt_url: broker.ingester_url,
     fleet_file: fleetFile,
     client_id: client,
     spool_dir: join(dir, client),

@@ -36,7 +36,8 @@ describe('npm start against external Mosquitto and InfluxDB', () => {
       const stack = await runStack(
         {
           ...SMOKE_DEMO,
-          INGEST_MQTT_URL: mosquitto.url,
+          INGEST_MQTT_URL: mosquitto.ingester_url,
+          THERMARGIN_VEHICLE_MQTT_URL: mosquitto.url,
           INGEST_MQTT_USERNAME: 'ingester',
           INGEST_MQTT_PASSWORD: password('ingester'),
           INGEST_CONNECTIONS: '4',

@@ -1,5 +1,5 @@
 import { execFileSync } from 'node:child_process';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { connect } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -12,16 +12,22 @@ export const MOSQUITTO = '/usr/sbin/mosquitto';
 export const MOSQUITTO_PASSWD = '/usr/bin/mosquitto_passwd';
 
 export interface MosquittoServer {
+  /** The vehicles' listener (client id = user name). */
   url: string;
   port: number;
+  /** The ingesters' listener. */
+  ingester_url: string;
   dir: string;
   process: ServerProcess;
   close(): Promise<void>;
 }
 
+const SHIPPED_CONF = join(import.meta.dirname, '../../../config/mosquitto/mosquitto.conf');
+
 /**
- * The shipped config/mosquitto/mosquitto.conf settings, with paths and port of the temp dir: the
- * password file is generated with `mosquitto_passwd -b` from the test users given (never a real one).
+ * The shipped config/mosquitto/mosquitto.conf itself, with the temp dir's paths and free ports for its
+ * two listeners (vehicles, ingesters): the password files are generated with `mosquitto_passwd -b`
+ * from the test users given (never a real one), vehicles in `passwd`, ingesters in `passwd-ingesters`.
  */
 export function startMosquitto(users: readonly BrokerUser[]): Promise<MosquittoServer> {
   return retryOnPortClash(() => startOnFreshPort(users));
@@ -30,30 +36,27 @@ export function startMosquitto(users: readonly BrokerUser[]): Promise<MosquittoS
 async function startOnFreshPort(users: readonly BrokerUser[]): Promise<MosquittoServer> {
   const dir = mkdtempSync(join(tmpdir(), 'thermargin-mosquitto-'));
   const port = await freePort();
-  const passwd = join(dir, 'passwd');
-  writeFileSync(passwd, '');
-  for (const u of users) execFileSync(MOSQUITTO_PASSWD, ['-b', passwd, u.username, u.password]);
+  const ingesterPort = await freePort();
+  for (const [file, role] of [
+    ['passwd', 'vehicle'],
+    ['passwd-ingesters', 'ingester'],
+  ] as const) {
+    writeFileSync(join(dir, file), '');
+    for (const u of users.filter((x) => x.role === role))
+      execFileSync(MOSQUITTO_PASSWD, ['-b', join(dir, file), u.username, u.password]);
+  }
   writeFileSync(join(dir, 'acl'), renderMosquittoAcl(users));
   const conf = join(dir, 'mosquitto.conf');
-  // Started as root, Mosquitto switches to its own user, which cannot read this private temp dir.
+  const shipped = readFileSync(SHIPPED_CONF, 'utf8')
+    .replace(/^listener 1883$/m, `listener ${port} 127.0.0.1`)
+    .replace(/^listener 1884$/m, `listener ${ingesterPort} 127.0.0.1`)
+    .replaceAll('/mosquitto/config/', `${dir}/`)
+    .replaceAll('/mosquitto/data/', `${dir}/`)
+    .replace(/^log_dest stdout$/m, 'log_dest stderr');
+  // Started as root, Mosquitto switches to its own user, which cannot read this private temp dir. The
+  // tests publish faster than a vehicle: no cap on QoS 1 messages in flight per client.
   const runAsRoot = process.getuid?.() === 0;
-  writeFileSync(
-    conf,
-    `${runAsRoot ? 'user root\n' : ''}listener ${port} 127.0.0.1
-allow_anonymous false
-password_file ${passwd}
-acl_file ${join(dir, 'acl')}
-persistence true
-persistence_location ${dir}/
-autosave_interval 1
-max_queued_messages 0
-max_inflight_messages 0
-max_packet_size 16777216
-log_dest stderr
-log_type error
-log_type warning
-`,
-  );
+  writeFileSync(conf, `${runAsRoot ? 'user root\n' : ''}max_inflight_messages 0\n${shipped}`);
   const reachable = () =>
     new Promise<boolean>((resolve) => {
       const socket = connect(port, '127.0.0.1', () => {
@@ -72,6 +75,7 @@ log_type warning
   return {
     url: `mqtt://127.0.0.1:${port}`,
     port,
+    ingester_url: `mqtt://127.0.0.1:${ingesterPort}`,
     dir,
     process: proc,
     async close() {
