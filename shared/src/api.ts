@@ -67,6 +67,11 @@ export const statusResponseSchema = z.object({
      * watermark: a trip going on, analysed once it ends.
      */
     on_trip_vehicles: z.number().int(),
+    /**
+     * Samples that arrived after their time had been analysed (a logger uploading its buffer late),
+     * since the analyzer started; the trips they touch or make were analysed again.
+     */
+    late_samples: z.number().int(),
     watermarks: z.array(z.object({ vehicle: z.string(), analysed_to: iso.nullable() })),
   }),
 });

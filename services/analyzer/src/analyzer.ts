@@ -1,6 +1,6 @@
 import type { MaintenanceEntry, Status, TripResult } from '@thermargin/shared';
 import type { Logger } from '@thermargin/shared/log';
-import type { SampleStore } from '@thermargin/store';
+import type { LateMark, SampleStore } from '@thermargin/store';
 import type { AnalysisStore } from '@thermargin/store/sqlite-analysis-store';
 import { tripGoingOn } from '@thermargin/core/trip/split';
 import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
@@ -32,6 +32,8 @@ export interface AnalyzerStats {
   samples_analysed: number;
   /** Vehicles left with samples past their watermark after the last pass, not counting a trip going on. */
   backlog_vehicles: number;
+  /** Samples that arrived after their time had been analysed; the trips they touch were analysed again. */
+  late_samples: number;
 }
 
 export interface RunScope {
@@ -55,6 +57,19 @@ export interface Analyzer {
   stop(): Promise<void>;
 }
 
+/** Per vehicle, the earliest late time and how many late samples its marks hold. */
+function earliestLate(marks: readonly LateMark[]): Map<string, { from_ms: number; count: number }> {
+  const out = new Map<string, { from_ms: number; count: number }>();
+  for (const m of marks) {
+    const v = out.get(m.vehicle);
+    if (v) {
+      v.from_ms = Math.min(v.from_ms, m.from_ms);
+      v.count += m.count;
+    } else out.set(m.vehicle, { from_ms: m.from_ms, count: m.count });
+  }
+  return out;
+}
+
 export function createAnalyzer(deps: AnalyzerDeps, options: Partial<AnalyzerOptions> = {}): Analyzer {
   const o = { ...ANALYZER_DEFAULTS, ...options };
   const clock = deps.clock ?? Date.now;
@@ -68,6 +83,7 @@ export function createAnalyzer(deps: AnalyzerDeps, options: Partial<AnalyzerOpti
     trips_analysed: 0,
     samples_analysed: 0,
     backlog_vehicles: 0,
+    late_samples: 0,
   };
   let chain: Promise<void> = Promise.resolve();
   let timer: NodeJS.Timeout | undefined;
@@ -81,22 +97,33 @@ export function createAnalyzer(deps: AnalyzerDeps, options: Partial<AnalyzerOpti
 
   async function pass(scope: RunScope): Promise<void> {
     const fleet = deps.fleet();
+    // Read before the samples: a late write after this leaves a mark for the next pass.
+    const marks = (await deps.samples.lateMarks()).filter(
+      (m) => scope.vehicle === undefined || m.vehicle === scope.vehicle,
+    );
+    const late = earliestLate(marks);
     const spans = await deps.samples.listVehicles();
     let backlog = 0;
     for (const span of spans) {
       const model = fleet.get(span.vehicle);
       if (!model || (scope.vehicle !== undefined && span.vehicle !== scope.vehicle)) continue;
       const prev = deps.results.readAnalysis(span.vehicle);
-      const redo = scope.since_ms !== undefined;
+      const mark = late.get(span.vehicle);
+      // Late samples behind the watermark reopen the span from the trip they touch.
+      const reopen = mark && prev && mark.from_ms < prev.analysed_to_ms ? mark.from_ms : undefined;
+      if (reopen !== undefined) stats.late_samples += mark!.count;
+      const since_ms = scope.since_ms ?? reopen;
+      const redo = since_ms !== undefined;
       let start: AnalysisProgress = prev ?? { ...noProgress(), analysed_to_ms: span.first_ms };
       let delete_from_ms: number | undefined;
       if (redo) {
-        const since = Math.max(scope.since_ms!, span.first_ms);
+        const since = Math.max(since_ms, span.first_ms);
         const stored = (await deps.results.readTripResults(span.vehicle)).filter(
           (t) => Date.parse(t.start) < since,
         );
-        const inside = stored.find((t) => Date.parse(t.end) >= since);
-        delete_from_ms = inside ? Date.parse(inside.start) : since;
+        // A trip ending within the trip gap before `since` may take the new samples in: redone too.
+        const touched = stored.find((t) => Date.parse(t.end) >= since - o.trip_gap_s * 1000);
+        delete_from_ms = touched ? Date.parse(touched.start) : since;
         const before = stored.filter((t) => Date.parse(t.start) < delete_from_ms!).at(-1);
         start = {
           analysed_to_ms: delete_from_ms,
@@ -119,6 +146,8 @@ export function createAnalyzer(deps: AnalyzerDeps, options: Partial<AnalyzerOpti
         backlog++;
     }
     stats.backlog_vehicles = backlog;
+    // Every mark read is dealt with: reopened, ahead of its watermark (read above), or not in the fleet.
+    await deps.samples.clearLateMarks(marks);
   }
 
   function enqueue(work: () => Promise<void>): Promise<void> {

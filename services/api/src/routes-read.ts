@@ -80,6 +80,7 @@ async function status(x: ApiContext): Promise<StatusResponse> {
       samples_analysed: s?.samples_analysed ?? 0,
       backlog_vehicles: behind.length - onTrip,
       on_trip_vehicles: onTrip,
+      late_samples: s?.late_samples ?? 0,
       watermarks: spans.map((sp) => {
         const w = wm.get(sp.vehicle);
         return { vehicle: sp.vehicle, analysed_to: w === undefined ? null : iso(w) };

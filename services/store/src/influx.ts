@@ -1,5 +1,6 @@
 import { InfluxDB, type Transport } from '@influxdata/influxdb-client';
 import { DEAD_LETTERS_MEASUREMENT, SAMPLES_MEASUREMENT, deadLetterLine, sampleLine } from './influx-line.ts';
+import { influxLateMarks, lateDeleteBody } from './influx-late.ts';
 import { deadLetterQueries, sampleQueries } from './influx-queries.ts';
 import { v1Transport } from './influx-transport.ts';
 import { lineWriter } from './influx-write.ts';
@@ -73,12 +74,20 @@ export function createInfluxStore(options: InfluxStoreOptions): SampleStore {
   const client = new InfluxDB({ url: o.url, transport });
   const query = (q: string) => influxql(transport, t.db, t.rp, q);
   let letterSeq = BigInt(Math.floor(Math.random() * 1e5)) * 10n;
+  const late = influxLateMarks(query);
 
   const writeLines = lineWriter(client, t, o);
 
   return {
     kind: 'influx',
-    writeSamples: (samples) => writeLines(samples.map(sampleLine), 'ms'),
+    async writeSamples(samples) {
+      if (samples.length === 0) return;
+      const marks = await late.lines(samples, Date.now());
+      await writeLines(samples.map(sampleLine), 'ms');
+      // After the samples: a mark is never seen before what it marks is readable.
+      await writeLines(marks, 'ms');
+      await late.written(samples);
+    },
     ...sampleQueries(query),
     writeDeadLetters(letters) {
       const lines = letters.map((l) =>
@@ -87,6 +96,16 @@ export function createInfluxStore(options: InfluxStoreOptions): SampleStore {
       return writeLines(lines, 'ns');
     },
     ...deadLetterQueries(query),
+    lateMarks: () => late.read(),
+    async clearLateMarks(marks) {
+      if (marks.length === 0) return;
+      if (o.api === 'v1') {
+        await query(late.deleteStatements(marks));
+        return;
+      }
+      const path = `/api/v2/delete?${new URLSearchParams({ org: t.org, bucket: t.bucket })}`;
+      for (const m of marks) await transport.request(path, lateDeleteBody(m), { method: 'POST' });
+    },
     async deleteBefore(before_ms) {
       if (o.api === 'v1') {
         await query(

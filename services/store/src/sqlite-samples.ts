@@ -37,6 +37,9 @@ const BLOCKS_IN = `FROM sample_blocks WHERE vehicle = @vehicle AND first_ms < @t
 type BlockMeta = { id: number; first_ms: number; last_ms: number };
 type BlockRow = { id: number; n: number; columns: Buffer; trips: string };
 
+/** Told, inside the write's transaction, of each vehicle's sorted times and its newest stored time before them. */
+export type BeforeVehicleWrite = (vehicle: string, times: Float64Array, newest_ms: number | null) => void;
+
 const decode = (r: BlockRow) => decodeBlock(r.n, r.columns, r.trips);
 
 /**
@@ -46,10 +49,14 @@ const decode = (r: BlockRow) => decodeBlock(r.n, r.columns, r.trips);
  * that keep reads a plain merge: a vehicle's blocks cover disjoint time ranges, no row lies inside a
  * block's range (a write there rewrites the block), and its newest sample is a row.
  */
-export function createSampleTables(db: Database.Database, block: typeof BLOCK_DEFAULTS) {
+export function createSampleTables(
+  db: Database.Database,
+  block: typeof BLOCK_DEFAULTS,
+  beforeWrite?: BeforeVehicleWrite,
+) {
   db.exec(samplesSql());
   const q = sampleStatements(db);
-  const writeVehicle = blockWriter(q, block);
+  const writeVehicle = blockWriter(q, block, beforeWrite);
   return {
     /** One transaction for the whole write, vehicle by vehicle. */
     write: db.transaction((samples: readonly Sample[]) => {
@@ -150,7 +157,7 @@ type SampleStatements = ReturnType<typeof sampleStatements>;
  * The write path: each vehicle's new samples become rows, rewrite the blocks whose range they fall in,
  * or are packed into blocks at once; a vehicle's oldest rows are packed once there are a block's worth.
  */
-function blockWriter(q: SampleStatements, block: typeof BLOCK_DEFAULTS) {
+function blockWriter(q: SampleStatements, block: typeof BLOCK_DEFAULTS, beforeWrite?: BeforeVehicleWrite) {
   const { insertSample, selectRange, selectOldest, countRows, newestRow, deleteRows } = q;
   const { blockMeta, previousEnd, blockById, insertBlock, updateBlock } = q;
   /** Rows this connection wrote per vehicle since it last looked whether to compact. */
@@ -208,6 +215,7 @@ function blockWriter(q: SampleStatements, block: typeof BLOCK_DEFAULTS) {
 
   function writeVehicle(vehicle: string, list: readonly Sample[]): void {
     const c = sortedUnique(list);
+    beforeWrite?.(vehicle, c.time_ms, newestRow.get(vehicle) as number | null);
     const around = blockMeta.all({
       vehicle,
       from: c.time_ms[0],

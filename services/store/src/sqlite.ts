@@ -3,6 +3,7 @@ import { dirname } from 'node:path';
 import Database from 'better-sqlite3';
 import { BLOCK_DEFAULTS } from './sqlite-blocks.ts';
 import { createDeadLetterTable } from './sqlite-dead-letters.ts';
+import { createSqliteLateMarks } from './sqlite-late.ts';
 import { createResultTables } from './sqlite-result-tables.ts';
 import { createSampleTables } from './sqlite-samples.ts';
 import type { ResultsStore, SampleStore } from './store.ts';
@@ -37,7 +38,8 @@ export function createSqliteStore(options: SqliteStoreOptions): SqliteStore {
   db.pragma('journal_mode = WAL');
   db.pragma(`synchronous = ${o.synchronous === 'full' ? 'FULL' : 'NORMAL'}`);
   db.pragma(`busy_timeout = ${Math.round(o.busy_timeout_ms)}`);
-  const samples = createSampleTables(db, { ...BLOCK_DEFAULTS, ...options.blocks });
+  const late = createSqliteLateMarks(db);
+  const samples = createSampleTables(db, { ...BLOCK_DEFAULTS, ...options.blocks }, late.note);
   const letters = createDeadLetterTable(db);
   const results = createResultTables(db);
   const deleteBefore = db.transaction((before_ms: number) => {
@@ -68,6 +70,12 @@ export function createSqliteStore(options: SqliteStoreOptions): SqliteStore {
     },
     async countDeadLetters() {
       return letters.count();
+    },
+    async lateMarks() {
+      return late.read();
+    },
+    async clearLateMarks(marks) {
+      late.clear(marks);
     },
     async deleteBefore(before_ms) {
       deleteBefore(before_ms);

@@ -21,6 +21,14 @@ export interface SampleStore {
   readDeadLetters(query?: DeadLetterQuery): Promise<DeadLetter[]>;
   /** Counts per vehicle ('' when none was known) and reason. */
   countDeadLetters(): Promise<DeadLetterCount[]>;
+  /**
+   * Marks of samples written behind their vehicle's newest stored sample (late: their time may have
+   * been analysed already), each with the earliest such time and how many. Every write leaves one when
+   * it stores late samples; a vehicle may have several marks.
+   */
+  lateMarks(): Promise<LateMark[]>;
+  /** Forgets exactly these marks (one that changed since it was read stays, to be read again). */
+  clearLateMarks(marks: readonly LateMark[]): Promise<void>;
   /** Deletes samples and dead letters older than `before_ms`. */
   deleteBefore(before_ms: number): Promise<void>;
   /** Resolves when the store answers (used to probe for recovery after an outage). */
@@ -33,6 +41,16 @@ export interface VehicleSpan {
   first_ms: number;
   last_ms: number;
   count: number;
+}
+
+export interface LateMark {
+  vehicle: string;
+  /** ms: the earliest late sample. */
+  from_ms: number;
+  /** Late samples written (a rewrite of a sample already stored counts too). */
+  count: number;
+  /** The adapter's handle for clearing this very mark. */
+  id: string;
 }
 
 /** One refused message or sample, kept with what it was and why. */

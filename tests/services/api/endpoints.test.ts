@@ -13,6 +13,7 @@ import {
   statusResponseSchema,
   rejectedResponseSchema,
   deadLettersResponseSchema,
+  encodeSamplePayload,
   sampleTopic,
   VEHICLE_RECENT_TRIPS,
 } from '@thermargin/shared';
@@ -286,6 +287,46 @@ describe('API against the running stack (Mosquitto → ingester → InfluxDB →
         '/api/vehicles/{id}/maintenance',
       ]),
     );
+  });
+
+  it('a trip uploaded a day late (1 200 samples over MQTT) is analysed as the offline CLI finds it, and counted', async () => {
+    const id = IDS[0]!;
+    const own = [...scenario.vehicleSamples(id)];
+    // The first quiet hour of the day before the last: no sample of this vehicle for over an hour.
+    const k = own.findIndex(
+      (x, i) => x.time_ms > END_MS - 40 * 3_600_000 && own[i + 1]!.time_ms - x.time_ms > 3_600_000,
+    );
+    const t0 = own[k]!.time_ms + 1_200_000;
+    const late = Array.from({ length: 1200 }, (_, i) => ({
+      time: t0 + i * 1000,
+      vehicle: id,
+      trip: 'uploaded-late',
+      speed_kmh: 60 + (i % 20),
+      power_kw: 60,
+      coolant_in_c: 82,
+      ambient_c: 25,
+      fan_pct: 10,
+    }));
+    const logger = await connectAs(broker.url, id, { protocolVersion: 5 });
+    for (let i = 0; i < late.length; i += 200)
+      await logger.publishAsync(sampleTopic(id), encodeSamplePayload(late.slice(i, i + 200)), { qos: 1 });
+    await logger.endAsync();
+    await waitForCount(samples, IDS, total + late.length);
+    await stack.analyzer.runOnce();
+
+    const model = resolveFleet(scenario.fleet).find((m) => m.id === id)!;
+    const s = new CliVehicleStream(model);
+    const merged = [...own, ...late.map((w) => ({ ...w, time_ms: w.time }))].sort(
+      (a, b) => a.time_ms - b.time_ms,
+    );
+    for (const x of merged) s.pushSample(x);
+    s.finish();
+    const trips = (await stack.results.readVehicleResult(id))!.trips;
+    expect(trips.map((t) => t.trip)).toContain('uploaded-late');
+    expect(trips).toEqual(vehicleResult(model, s.trips).result.trips);
+    const status = statusResponseSchema.parse(await (await stack.get('/api/status')).json());
+    expect(status.analyzer.late_samples).toBe(late.length);
+    expect(status.analyzer.backlog_vehicles).toBe(0);
   });
 
   it('live events (last: it adds a trip): the new trip result and the newest sample arrive over SSE', async () => {

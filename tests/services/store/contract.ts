@@ -137,6 +137,29 @@ export function storeContract(name: string, open: () => Promise<SampleStore>): v
       expect(await store.readDeadLetters()).toEqual([letter(5000)]);
     });
 
+    it("marks samples written behind their vehicle's newest, and clears exactly the marks read", async () => {
+      const earliest = async () => {
+        const by = new Map<string, number>();
+        for (const m of await store.lateMarks())
+          by.set(m.vehicle, Math.min(by.get(m.vehicle) ?? m.from_ms, m.from_ms));
+        return Object.fromEntries(by);
+      };
+      await store.writeSamples([10, 11, 12].map((i) => sample('v-1', i)));
+      await store.writeSamples([sample('v-1', 20), sample('v-2', 0)]);
+      expect(await store.lateMarks()).toEqual([]);
+      await store.writeSamples([sample('v-1', 6), sample('v-1', 5), sample('v-1', 30), sample('v-2', 1)]);
+      const marks = await store.lateMarks();
+      expect(marks.map(({ vehicle, from_ms, count }) => ({ vehicle, from_ms, count }))).toEqual([
+        { vehicle: 'v-1', from_ms: t0 + 5000, count: 2 },
+      ]);
+      // A late write between the read and the clear keeps a mark for what it wrote.
+      await store.writeSamples([sample('v-1', 3)]);
+      await store.clearLateMarks(marks);
+      expect(await earliest()).toEqual({ 'v-1': t0 + 3000 });
+      await store.clearLateMarks(await store.lateMarks());
+      expect(await store.lateMarks()).toEqual([]);
+    });
+
     it('answers ping', async () => {
       await expect(store.ping()).resolves.toBeUndefined();
     });

@@ -187,6 +187,9 @@ function Health({ s }: { s: StatusResponse }) {
         {s.analyzer.trips_analysed} trips · {s.analyzer.samples_analysed.toLocaleString('en')} samples ·
         backlog {s.analyzer.backlog_vehicles} vehicles · {s.analyzer.on_trip_vehicles} on a trip now
       </Figure>
+      <Figure label="Arrived late, analysed again" fig="late-samples">
+        {s.analyzer.late_samples.toLocaleString('en')} samples
+      </Figure>
       {stale.length > 0 && <Figure label="Never analysed">{stale.map((w) => w.vehicle).join(', ')}</Figure>}
     </dl>
   );
