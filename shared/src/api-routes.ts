@@ -185,7 +185,8 @@ export const API_ROUTES = {
     path: '/api/events',
     role: 'viewer',
     summary:
-      'Server-sent events: trip (new trip result), status (status change), sample (newest sample per vehicle)',
+      'Server-sent events: trip (new trip result), status (status change), sample (newest sample per vehicle); ' +
+      'revoked (the token was revoked: the stream ends)',
     response: null,
   },
   sizing: {

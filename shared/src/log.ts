@@ -21,6 +21,7 @@ export interface LogEvents {
   // API
   api_error: { path: string; error: string };
   api_store_unavailable: { path: string; error: string };
+  auth_backoff: { address: string; failures: number; wait_s: number };
   events_poll_failed: { error: string };
   reanalyze_failed: { vehicle: string; error: string };
 }

@@ -15,6 +15,7 @@ import { cors } from 'hono/cors';
 import { secureHeaders } from 'hono/secure-headers';
 import { z } from 'zod';
 import { ApiContext } from './context.ts';
+import { AUTH_BACKOFF_DEFAULTS, AuthBackoff } from './auth-backoff.ts';
 import { API_DEFAULTS, type ApiDeps } from './deps.ts';
 import { outageAs503 } from './store-outage.ts';
 import { EventHub, eventRoutes } from './events.ts';
@@ -38,6 +39,13 @@ function clientIp(c: Context): string {
   } catch {
     return 'unknown';
   }
+}
+
+/** 429 with Retry-After when `wait_s` > 0. */
+function tooMany(c: Context, wait_s: number, what: string): void {
+  if (wait_s <= 0) return;
+  c.header('retry-after', String(wait_s));
+  throw new HttpError(429, 'too_many_requests', `${what}: retry in ${wait_s} s`);
 }
 
 async function readJson(c: Context): Promise<unknown> {
@@ -98,11 +106,21 @@ export function createApi(deps: ApiDeps): Hono {
     ...readRoutes(x),
     ...traceRoutes(x),
     ...writeRoutes(x),
-    ...eventRoutes(hub),
+    ...eventRoutes(hub, deps.tokens),
     ...sizingRoutes(x),
     ...meRoutes(),
   };
-  const limiter = new RateLimiter({ ...RATE_LIMIT_DEFAULTS, ...deps.rate_limit }, x.clock);
+  const rates = { ...RATE_LIMIT_DEFAULTS, ...deps.rate_limit };
+  const limiter = new RateLimiter(rates, x.clock);
+  const addressLimiter = new RateLimiter(
+    {
+      ...rates,
+      per_minute: rates.per_minute * rates.address_factor,
+      burst: rates.burst * rates.address_factor,
+    },
+    x.clock,
+  );
+  const backoff = new AuthBackoff({ ...AUTH_BACKOFF_DEFAULTS, ...deps.auth_backoff }, x.clock, deps.log);
   const app = new Hono();
 
   app.onError((e, c) => {
@@ -136,21 +154,27 @@ export function createApi(deps: ApiDeps): Hono {
       cors({ origin: [...deps.cors_origins], allowHeaders: ['authorization', 'content-type'], maxAge: 600 }),
     );
 
-  // Who asks (a bad token is refused even on public routes), then the rate limit per token or IP.
+  // Before any token is looked at: an address in back-off after failed sign-ins, or over its own
+  // limit, is turned away. Then who asks (a bad token is refused even on public routes), then the rate
+  // limit per token or address.
   app.use('/api/*', async (c, next) => {
+    const address = clientIp(c);
+    tooMany(c, backoff.wait(address), 'too many failed sign-ins from this address');
+    tooMany(c, addressLimiter.take(`addr:${address}`), 'rate limit of this address reached');
     const auth = c.req.header('authorization');
     let actor: Actor | undefined;
     if (auth !== undefined) {
       const m = /^Bearer\s+(\S+)$/i.exec(auth);
       const t = m ? deps.tokens.verify(m[1]!) : undefined;
-      if (!t) throw new HttpError(401, 'unauthorized', 'the bearer token is not valid');
+      if (!t) {
+        backoff.failed(address);
+        throw new HttpError(401, 'unauthorized', 'the bearer token is not valid');
+      }
+      backoff.succeeded(address);
       actor = { by: t.name, role: t.role };
+      c.set('token' as never, t as never);
     }
-    const wait = limiter.take(actor ? `token:${actor.by}` : `ip:${clientIp(c)}`);
-    if (wait > 0) {
-      c.header('retry-after', String(wait));
-      throw new HttpError(429, 'too_many_requests', `rate limit reached: retry in ${wait} s`);
-    }
+    tooMany(c, limiter.take(actor ? `token:${actor.by}` : `ip:${address}`), 'rate limit reached');
     c.set('actor' as never, actor as never);
     await next();
   });

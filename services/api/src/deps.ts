@@ -4,6 +4,7 @@ import type { LoadedFleet } from '@thermargin/usecases/fleet-file';
 import type { SampleStore } from '@thermargin/store';
 import type { AnalysisStore } from '@thermargin/store/sqlite-analysis-store';
 import type { WorkflowStore } from '@thermargin/store/sqlite-workflow';
+import type { AuthBackoffOptions } from './auth-backoff.ts';
 import type { RateLimitOptions } from './rate-limit.ts';
 import type { TokenRegistry } from './tokens.ts';
 
@@ -31,6 +32,7 @@ export interface ApiDeps {
   /** Origins allowed by CORS; none (the default) means no CORS headers at all. */
   cors_origins?: readonly string[];
   rate_limit?: Partial<RateLimitOptions>;
+  auth_backoff?: Partial<AuthBackoffOptions>;
   /** bytes, 65 536: largest request body (the fleet file PUT: 1 MiB). */
   max_body_bytes?: number;
   /** ms, 1000: how often live events look for new results and samples. */

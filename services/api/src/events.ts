@@ -2,6 +2,7 @@ import type { ApiEvent, Status } from '@thermargin/shared';
 import { streamSSE } from 'hono/streaming';
 import type { ApiContext } from './context.ts';
 import type { Handlers } from './route.ts';
+import type { TokenEntry, TokenRegistry } from './tokens.ts';
 
 type Listener = (e: ApiEvent) => void;
 
@@ -99,19 +100,26 @@ export class EventHub {
 /** s, 15: a comment line this often keeps proxies from closing an idle stream. */
 const KEEPALIVE_MS = 15_000;
 
-export function eventRoutes(hub: EventHub): Handlers<'events'> {
+export function eventRoutes(hub: EventHub, tokens: TokenRegistry): Handlers<'events'> {
   return {
-    events: async ({ c }) =>
-      streamSSE(c, async (stream) => {
+    events: async ({ c }) => {
+      const token = c.get('token' as never) as TokenEntry;
+      return streamSSE(c, async (stream) => {
         const queue: ApiEvent[] = [];
         let wake: (() => void) | undefined;
+        let revoked = false;
         const off = hub.subscribe((e) => {
           queue.push(e);
           wake?.();
         });
+        // Revoked in this process: at once; in another one: seen at the next keep-alive.
+        const unwatch = tokens.whenRevoked(token.name, () => {
+          revoked = true;
+          wake?.();
+        });
         stream.onAbort(off);
         try {
-          while (!stream.aborted) {
+          while (!stream.aborted && !revoked) {
             const e = queue.shift();
             if (e) {
               await stream.writeSSE({ event: e.event, data: JSON.stringify(e.data) });
@@ -124,11 +132,16 @@ export function eventRoutes(hub: EventHub): Handlers<'events'> {
             });
             clearTimeout(timer);
             wake = undefined;
-            if (!queue.length && !stream.aborted) await stream.write(': keep-alive\n\n');
+            revoked ||= !tokens.isListed(token.sha256);
+            if (!queue.length && !stream.aborted && !revoked) await stream.write(': keep-alive\n\n');
           }
+          if (revoked && !stream.aborted)
+            await stream.writeSSE({ event: 'revoked', data: JSON.stringify({ token: token.name }) });
         } finally {
           off();
+          unwatch();
         }
-      }),
+      });
+    },
   };
 }

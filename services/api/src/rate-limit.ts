@@ -6,6 +6,11 @@ export const RATE_LIMIT_DEFAULTS = {
   burst: 120,
   /** keys kept, 10 000: the oldest are forgotten beyond it (bounded memory under a spray of IPs). */
   max_keys: 10_000,
+  /**
+   * 4: each client address also has a bucket of this many times the rate and burst, taken before any
+   * token is looked at (several users behind one proxy share an address).
+   */
+  address_factor: 4,
 };
 
 export type RateLimitOptions = typeof RATE_LIMIT_DEFAULTS;
@@ -14,7 +19,7 @@ export class RateLimiter {
   private readonly buckets = new Map<string, { tokens: number; at_ms: number }>();
 
   constructor(
-    private readonly o: RateLimitOptions,
+    private readonly o: Pick<RateLimitOptions, 'per_minute' | 'burst' | 'max_keys'>,
     private readonly clock: () => number,
   ) {}
 

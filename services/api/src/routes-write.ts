@@ -56,7 +56,7 @@ export function writeRoutes(x: ApiContext): Handlers<WriteRoute> {
           'conflict',
           `${name} is configured in the token file or env: remove it there`,
         );
-      if (!deps.workflow.removeToken(name, actor, x.clock())) throw notFound(`token ${name}`);
+      if (!deps.tokens.revoke(name, actor, x.clock())) throw notFound(`token ${name}`);
       return { removed: name };
     },
     audit: async ({ query }) => ({ entries: deps.workflow.readAudit(query.limit) }),

@@ -49,6 +49,9 @@ export function readTokenFile(path: string): TokenEntry[] {
 
 /** The tokens the API accepts: configured ones plus those added through the API (kept hashed). */
 export class TokenRegistry {
+  /** Token name → what to do when it is revoked (close its event streams). */
+  private readonly onRevoke = new Map<string, Set<() => void>>();
+
   constructor(
     private readonly configured: readonly TokenEntry[],
     private readonly workflow: WorkflowStore,
@@ -77,6 +80,27 @@ export class TokenRegistry {
     const secret = `tm_${randomBytes(24).toString('base64url')}`;
     this.workflow.addToken({ name, role, sha256: sha256Hex(secret), created_ms: now_ms }, actor);
     return secret;
+  }
+
+  /** Removes an API-added token and tells everyone holding it; false when there is none of that name. */
+  revoke(name: string, actor: Actor, now_ms: number): boolean {
+    if (!this.workflow.removeToken(name, actor, now_ms)) return false;
+    for (const f of this.onRevoke.get(name) ?? []) f();
+    this.onRevoke.delete(name);
+    return true;
+  }
+
+  /** Calls `f` when the token `name` is revoked in this process; returns the unsubscribe. */
+  whenRevoked(name: string, f: () => void): () => void {
+    let set = this.onRevoke.get(name);
+    if (!set) this.onRevoke.set(name, (set = new Set()));
+    set.add(f);
+    return () => set.delete(f);
+  }
+
+  /** Whether the token with this hash is still listed (a revocation by another API process). */
+  isListed(sha256: string): boolean {
+    return this.list().some((t) => t.sha256 === sha256);
   }
 
   isConfigured(name: string): boolean {

@@ -212,4 +212,49 @@ describe('API security', () => {
       await other.close();
     }
   });
+
+  it('wrong tokens: 5 free per address, then 429 before any token is read, the wait doubling, logged; a valid token clears it', async () => {
+    const clock = { ms: scenario.history.to_ms };
+    const logged: Record<string, unknown>[] = [];
+    const other = await startApiStack(tempDir('api-backoff'), scenario.fleet, samples, () => clock.ms, {
+      log: (event, detail) => logged.push({ event, ...detail }),
+    });
+    const ask = (token: string) =>
+      fetch(`${other.url}/api/fleet`, { headers: { authorization: `Bearer ${token}` } });
+    const wrong = () => ask('not-a-token-at-all').then((r) => r.status);
+    try {
+      const first = [];
+      for (let i = 0; i < 9; i++) first.push(await wrong());
+      expect(first).toEqual([401, 401, 401, 401, 401, 401, 429, 429, 429]);
+      const waiting = await ask(TOKENS.viewer);
+      expect(waiting.status).toBe(429); // the address waits, whatever its token
+      expect(waiting.headers.get('retry-after')).toBe('1');
+      clock.ms += 1000;
+      expect([await wrong(), await wrong()]).toEqual([401, 429]);
+      clock.ms += 2000;
+      expect((await ask(TOKENS.viewer)).status).toBe(200);
+      expect(await wrong()).toBe(401); // cleared by the valid token
+      expect(logged.filter((l) => l.event === 'auth_backoff')).toEqual([
+        { event: 'auth_backoff', address: '127.0.0.1', failures: 6, wait_s: 1 },
+        { event: 'auth_backoff', address: '127.0.0.1', failures: 7, wait_s: 2 },
+      ]);
+    } finally {
+      await other.close();
+    }
+  });
+
+  it('revoking a token closes its open event stream at once', async () => {
+    const made = await stack.send('POST', '/api/tokens', { name: 'watcher', role: 'viewer' }, 'admin');
+    const { token } = (await made.json()) as { token: string };
+    const auth = { authorization: `Bearer ${token}` };
+    const res = await fetch(`${stack.url}/api/events`, { headers: auth });
+    expect(res.status).toBe(200);
+    const reader = res.body!.getReader();
+    expect((await stack.send('DELETE', '/api/tokens/watcher', {}, 'admin')).status).toBe(200);
+    let text = '';
+    for (let r = await reader.read(); !r.done; r = await reader.read())
+      text += new TextDecoder().decode(r.value);
+    expect(text).toContain('event: revoked');
+    expect((await fetch(`${stack.url}/api/events`, { headers: auth })).status).toBe(401);
+  });
 });

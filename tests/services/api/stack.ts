@@ -5,6 +5,7 @@ import { join } from 'node:path';
 import { type Analyzer, createAnalyzer } from '@thermargin/analyzer/analyzer';
 import { fileFleetSource } from '@thermargin/api/fleet-source';
 import { createApi } from '@thermargin/api/app';
+import type { ApiDeps } from '@thermargin/api/deps';
 import { parseTokenList, TokenRegistry } from '@thermargin/api/tokens';
 import type { FleetInput } from '@thermargin/shared';
 import type { SampleStore } from '@thermargin/store';
@@ -47,6 +48,8 @@ export async function startApiStack(
   fleet: FleetInput,
   samples: SampleStore,
   now: () => number,
+  /** More of the API's dependencies (a log, limits), over the ones set here. */
+  more: Partial<ApiDeps> = {},
 ): Promise<ApiStack> {
   const fleetFile = join(dir, 'fleet.json');
   writeFileSync(fleetFile, JSON.stringify(fleet));
@@ -80,6 +83,7 @@ export async function startApiStack(
     clock: now,
     events_poll_ms: 100,
     rate_limit: { per_minute: 60_000, burst: 10_000 },
+    ...more,
   });
   const server = serve({ fetch: app.fetch, port: 0, hostname: '127.0.0.1' }) as Server;
   // Client and server share this process: a test step that holds the event loop (an analyzer run, a
