@@ -21,6 +21,19 @@ const status = z.enum(STATUSES);
 const cause = z.enum(CAUSES);
 const iso = z.string();
 
+/**
+ * A whole number in a query string, in decimal digits only (Number() would read `0x10` as 16, `1e3`
+ * as 1000), within [min, max]; `fallback` when absent. The dashboard's client may pass a number: it
+ * goes out as its decimal text.
+ */
+export const queryInt = (min: number, max: number, fallback: number) =>
+  z.coerce
+    .string<number | string>()
+    .regex(/^\d{1,16}$/, 'must be a whole number in decimal digits')
+    .transform(Number)
+    .pipe(z.number().int().min(min).max(max))
+    .default(fallback);
+
 /** Every 4xx/5xx body. `problems` lists each field and the rule it broke (400). */
 export const apiErrorSchema = z.object({
   error: z.object({
@@ -191,8 +204,8 @@ export const tripsQuerySchema = z.strictObject({
   /** Trips starting before this time. */
   to: dateParam.optional(),
   status: status.optional(),
-  limit: z.coerce.number().int().min(1).max(500).default(50),
-  offset: z.coerce.number().int().min(0).max(1_000_000).default(0),
+  limit: queryInt(1, 500, 50),
+  offset: queryInt(0, 1_000_000, 0),
 });
 export type TripsQuery = z.infer<typeof tripsQuerySchema>;
 
@@ -222,7 +235,7 @@ export const TRACE_COLUMNS = [
 export type TraceColumn = (typeof TRACE_COLUMNS)[number];
 
 export const traceQuerySchema = z.strictObject({
-  points: z.coerce.number().int().min(10).max(20_000).default(2000),
+  points: queryInt(10, 20_000, 2000),
 });
 
 export const traceResponseSchema = z.object({
@@ -260,7 +273,7 @@ export const deadLettersQuerySchema = z.strictObject({
   /** '' for messages whose vehicle could not be read. */
   vehicle: z.string().max(64).optional(),
   reason: z.enum(REJECT_REASONS).optional(),
-  limit: z.coerce.number().int().min(1).max(500).default(50),
+  limit: queryInt(1, 500, 50),
 });
 export type DeadLettersQuery = z.infer<typeof deadLettersQuerySchema>;
 
@@ -331,7 +344,7 @@ export const auditEntrySchema = z.object({
 });
 export type AuditEntry = z.infer<typeof auditEntrySchema>;
 export const auditQuerySchema = z.strictObject({
-  limit: z.coerce.number().int().min(1).max(1000).default(100),
+  limit: queryInt(1, 1000, 100),
 });
 export const auditResponseSchema = z.object({ entries: z.array(auditEntrySchema) });
 

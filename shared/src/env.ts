@@ -1,3 +1,5 @@
+import { decimalNumber } from './validation.ts';
+
 /**
  * Typed readers of environment variables for the services' configs. Each reader records a bad value
  * in `problems` instead of throwing, so a config can report every bad variable in one error.
@@ -25,7 +27,7 @@ export function envReader(env: Env, problems: string[]): EnvReader {
     int: (name, fallback, min) => {
       const raw = env[name];
       if (raw === undefined || raw === '') return fallback;
-      const v = Number(raw);
+      const v = decimalNumber(raw);
       if (!Number.isInteger(v) || v < min)
         problems.push(`${name} must be an integer ≥ ${min} (got ${JSON.stringify(raw)})`);
       return v;

@@ -17,6 +17,18 @@ export class InputError extends Error {
   }
 }
 
+/** A plain decimal number: sign, digits, point, exponent (`-12.5`, `.5`, `1e-3`); nothing else. */
+const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
+/**
+ * The number written in decimal in `text` (spaces around allowed), else NaN: hexadecimal, octal and
+ * binary literals (`0x10`), `Infinity` and digit separators are refused, which Number() would take.
+ */
+export function decimalNumber(text: string): number {
+  const t = text.trim();
+  return DECIMAL.test(t) ? Number(t) : Number.NaN;
+}
+
 /** `vehicles[2].design.heat_kw` from a zod issue path. */
 export function formatPath(path: readonly PropertyKey[]): string {
   let out = '';

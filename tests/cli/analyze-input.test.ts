@@ -1,3 +1,4 @@
+import { truncateSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { runCli, tempFiles } from '../support/run-cli.ts';
@@ -96,5 +97,60 @@ describe('thermargin analyze on bad input', () => {
     const r = runCli(['analyze', '--colour', 'red']);
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/usage/);
+  });
+
+  it('refuses a line over the limit with exit 2 at its file:line, without reading it all (no line break anywhere, or a runaway row)', () => {
+    // 64 MiB of one line: the old reader grew its buffer to hold it; now the first read ends it.
+    const dir = tempFiles({ 'fleet.json': FLEET });
+    const runaway = join(dir, 'runaway.csv');
+    writeFileSync(runaway, `${HEADER}\n${row(0)}\n`);
+    truncateSync(runaway, 64 << 20); // zeros to the end: a third line without a line break
+    const noBreak = join(dir, 'nobreak.csv');
+    writeFileSync(noBreak, 'time');
+    truncateSync(noBreak, 64 << 20);
+    for (const [file, line] of [
+      [runaway, 3],
+      [noBreak, 1],
+    ] as const) {
+      const r = runCli(['analyze', '--fleet', join(dir, 'fleet.json'), '--data', file]);
+      expect(r.code, r.stderr).toBe(2);
+      expect(r.stderr).toContain(`${file}:${line}: line longer than 1048576 bytes`);
+      expect(r.stderr).toContain('--max-line-bytes');
+    }
+    const raised = runCli([
+      'analyze',
+      '--fleet',
+      join(dir, 'fleet.json'),
+      '--data',
+      noBreak,
+      '--max-line-bytes',
+      '0x10',
+    ]);
+    expect(raised.code).toBe(2);
+    expect(raised.stderr).toMatch(/--max-line-bytes: must be a whole number of bytes/);
+  });
+
+  it('refuses a header naming a column twice, naming both positions', () => {
+    const r = analyze(
+      `time,vehicle,speed_kmh,power_kw,coolant_in_c,ambient_c,fan_pct,speed_kmh\n${row(0)},9\n`,
+    );
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/data\.csv:1: column speed_kmh appears twice \(columns 3 and 8\)/);
+  });
+
+  it('reads decimal numbers only: 0x10, Infinity and 1_0 are not numbers, 1e1 and .5 are', () => {
+    const lines = [
+      HEADER,
+      row(0).replace(',85,', ',0x10,'),
+      row(1).replace(',85,', ',Infinity,'),
+      row(2).replace(',85,', ',1_0,'),
+      row(3).replace(',85,', ',1e1,'),
+      row(4).replace(',85,', ',.5,'),
+    ];
+    const r = analyze(`${lines.join('\n')}\n`);
+    expect(r.code).toBe(0);
+    for (const line of [2, 3, 4])
+      expect(r.stderr).toContain(`data.csv:${line}: row skipped: csv_not_a_number:speed_kmh`);
+    expect(JSON.parse(r.stdout).vehicles[0].trips[0].samples).toBe(2);
   });
 });

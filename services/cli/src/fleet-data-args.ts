@@ -1,11 +1,24 @@
 import type { Problem } from '@thermargin/shared';
+import { CSV_LIMITS } from './import/csv-reader.ts';
 
 /** parseArgs options every command that reads a fleet file and its data takes. */
 export const FLEET_DATA_OPTIONS = {
   fleet: { type: 'string' },
   data: { type: 'string' },
   out: { type: 'string' },
+  'max-line-bytes': { type: 'string' },
 } as const;
+
+export const MAX_LINE_USAGE = `  --max-line-bytes N  the longest CSV line read (default ${CSV_LIMITS.max_line_bytes}); a longer one stops with exit 2`;
+
+/** --max-line-bytes (a whole number of bytes ≥ 64; default CSV_LIMITS.max_line_bytes), or a problem added. */
+export function maxLineBytes(values: { 'max-line-bytes'?: string }, problems: Problem[]): number {
+  const raw = values['max-line-bytes'];
+  if (raw === undefined) return CSV_LIMITS.max_line_bytes;
+  const n = /^\d{1,12}$/.test(raw) ? Number(raw) : Number.NaN;
+  if (!(n >= 64)) problems.push({ where: '--max-line-bytes', rule: 'must be a whole number of bytes ≥ 64' });
+  return n;
+}
 
 /** The missing required ones of --fleet and --data, for the command to add its own checks to. */
 export function fleetDataProblems(values: { fleet?: string; data?: string }): Problem[] {

@@ -1,4 +1,5 @@
 import { readFileSync } from 'node:fs';
+import { decimalNumber } from '@thermargin/shared';
 import type { Env } from '@thermargin/shared/env';
 
 /**
@@ -57,7 +58,7 @@ export function readStackConfig(processEnv: Env = process.env): StackConfig {
   const num = (name: string, fallback: number, ok: (x: number) => boolean, rule: string) => {
     const raw = env[name];
     if (raw === undefined || raw === '') return fallback;
-    const x = Number(raw);
+    const x = decimalNumber(raw);
     if (!ok(x)) problems.push(`${name} ${rule} (got ${JSON.stringify(raw)})`);
     return x;
   };

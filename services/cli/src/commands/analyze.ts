@@ -4,14 +4,15 @@ import { InputError } from '@thermargin/shared';
 import { tripsCsv } from '../output/trips-csv.ts';
 import { textSummary } from '../output/text-summary.ts';
 import { analyzeData } from '../import/analyze-data.ts';
-import { FLEET_DATA_OPTIONS, fleetDataProblems } from '../fleet-data-args.ts';
+import { FLEET_DATA_OPTIONS, fleetDataProblems, MAX_LINE_USAGE, maxLineBytes } from '../fleet-data-args.ts';
 import { buildReport } from '../output/report.ts';
 
 export const ANALYZE_USAGE = `thermargin analyze --fleet FLEET.json --data PATH [--out FILE] [--format json|csv|text]
   --fleet   fleet file (JSON): the vehicles, their cooling packages and design points
   --data    a CSV file, or a folder of CSV files, in the import format
   --out     write the result here instead of to standard output
-  --format  json (default: the full result), csv (one row per trip) or text (one line per vehicle)`;
+  --format  json (default: the full result), csv (one row per trip) or text (one line per vehicle)
+${MAX_LINE_USAGE}`;
 
 const FORMATS = ['json', 'csv', 'text'] as const;
 
@@ -23,10 +24,11 @@ export async function analyzeCommand(argv: string[], log: (line: string) => void
   });
   const format = (values.format ?? 'json') as (typeof FORMATS)[number];
   const problems = fleetDataProblems(values);
+  const maxLine = maxLineBytes(values, problems);
   if (!FORMATS.includes(format))
     problems.push({ where: '--format', rule: `must be one of ${FORMATS.join(', ')}` });
   if (problems.length) throw new InputError(problems, `usage:\n${ANALYZE_USAGE}\n`);
-  const data = await analyzeData(values.fleet!, values.data!, log);
+  const data = await analyzeData(values.fleet!, values.data!, log, undefined, maxLine);
   const report = buildReport(data);
   const text =
     format === 'csv'

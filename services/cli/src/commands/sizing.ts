@@ -1,6 +1,6 @@
 import { writeFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
-import { InputError, type Problem } from '@thermargin/shared';
+import { decimalNumber, InputError, type Problem } from '@thermargin/shared';
 import { DEFAULT_DUTY, type SizingInput, sizeFleet } from '@thermargin/core/sizing/fleet-sizing';
 import type { Duty } from '@thermargin/core/sizing/drivetrain-compare';
 import {
@@ -12,7 +12,7 @@ import {
 import { VehicleSamples } from '@thermargin/core/sizing/vehicle-samples';
 import { sizingHtml } from '../output/sizing-html.ts';
 import { analyzeData } from '../import/analyze-data.ts';
-import { FLEET_DATA_OPTIONS, fleetDataProblems } from '../fleet-data-args.ts';
+import { FLEET_DATA_OPTIONS, fleetDataProblems, MAX_LINE_USAGE, maxLineBytes } from '../fleet-data-args.ts';
 
 export const SIZING_USAGE = `thermargin sizing --fleet FLEET.json (--data PATH | --from-store) [--out RESULT.json] [--html REPORT.html] [options]
   --fleet      fleet file (JSON): the vehicles, their cooling packages and design points
@@ -28,7 +28,8 @@ export const SIZING_USAGE = `thermargin sizing --fleet FLEET.json (--data PATH |
                (default: the fleet's own, read from its data; what the data cannot give from
                ${Object.entries(DEFAULT_DUTY)
                  .map(([k, v]) => `${k}=${v}`)
-                 .join(',')})`;
+                 .join(',')})
+${MAX_LINE_USAGE}`;
 
 const DUTY_KEYS = ['mass_kg', 'cda_m2', 'crr', 'speed_kmh', 'grade_pct', 'ambient_c'] as const;
 
@@ -38,7 +39,7 @@ function parseWhatIf(text: string, problems: Problem[]): WhatIfScenario | null {
     problems.push({ where: `--what-if ${text}`, rule: 'must be RISE,DROP in K, e.g. 5,0' });
     return null;
   }
-  return { ambient_rise_k: Number(m[1]), limit_drop_k: Number(m[2]) };
+  return { ambient_rise_k: decimalNumber(m[1]!), limit_drop_k: decimalNumber(m[2]!) };
 }
 
 /** The figures given; the others come from the fleet's data (core/src/sizing/fleet-duty.ts). */
@@ -46,7 +47,7 @@ function parseDuty(text: string, problems: Problem[]): Partial<Duty> {
   const duty: Partial<Duty> = {};
   for (const part of text.split(',')) {
     const [key, value] = part.split('=').map((s) => s.trim());
-    const x = Number(value);
+    const x = decimalNumber(value ?? '');
     if (!DUTY_KEYS.includes(key as (typeof DUTY_KEYS)[number]) || value === undefined || !Number.isFinite(x))
       problems.push({
         where: `--duty ${part}`,
@@ -80,10 +81,11 @@ export async function sizingCommand(argv: string[], log: (line: string) => void)
     .map((t) => parseWhatIf(t, problems))
     .filter((s): s is WhatIfScenario => s !== null);
   const interval =
-    values['cleaning-interval'] === undefined ? undefined : Number(values['cleaning-interval']);
+    values['cleaning-interval'] === undefined ? undefined : decimalNumber(values['cleaning-interval']);
   if (interval !== undefined && !(interval > 0))
     problems.push({ where: '--cleaning-interval', rule: 'must be a number of days > 0' });
   const duty = values.duty === undefined ? undefined : parseDuty(values.duty, problems);
+  const maxLine = maxLineBytes(values, problems);
   if (problems.length) throw new InputError(problems, `usage:\n${SIZING_USAGE}\n`);
 
   let options: ReturnType<typeof resolveSizingOptions>;
@@ -97,7 +99,7 @@ export async function sizingCommand(argv: string[], log: (line: string) => void)
   }
   const read = fromStore
     ? await readStore(values.fleet, options, duty)
-    : await readData(values.fleet!, values.data!, options, duty, log);
+    : await readData(values.fleet!, values.data!, options, duty, log, maxLine);
   const result = sizeFleet(read.input, options);
   const json = `${JSON.stringify(result, null, 1)}\n`;
   if (values.out) writeFileSync(values.out, json);
@@ -127,18 +129,25 @@ async function readData(
   options: SizingOptions,
   duty: Partial<Duty> | undefined,
   log: (line: string) => void,
+  max_line_bytes: number,
 ): Promise<SizingRead> {
   const samples = new Map<string, VehicleSamples>();
-  const data = await analyzeData(fleet, dataPath, log, (v) => {
-    let acc: VehicleSamples;
-    try {
-      acc = new VehicleSamples(v, options);
-    } catch (e) {
-      throw new InputError([{ where: `--what-if (vehicle ${v.id})`, rule: (e as Error).message }]);
-    }
-    samples.set(v.id, acc);
-    return (cleaned, spans, trips) => acc.add(cleaned, spans, trips);
-  });
+  const data = await analyzeData(
+    fleet,
+    dataPath,
+    log,
+    (v) => {
+      let acc: VehicleSamples;
+      try {
+        acc = new VehicleSamples(v, options);
+      } catch (e) {
+        throw new InputError([{ where: `--what-if (vehicle ${v.id})`, rule: (e as Error).message }]);
+      }
+      samples.set(v.id, acc);
+      return (cleaned, spans, trips) => acc.add(cleaned, spans, trips);
+    },
+    max_line_bytes,
+  );
   const trips = new Map(data.vehicles.map((v) => [v.id, data.streams.get(v.id)!.trips]));
   return {
     input: { vehicles: data.vehicles, trips, samples, ...(duty ? { duty } : {}) },

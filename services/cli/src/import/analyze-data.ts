@@ -23,6 +23,7 @@ export async function analyzeData(
   log: (line: string) => void,
   /** Optional observer per vehicle of each analysed piece of samples and its trips (see VehicleStream). */
   observe?: (v: VehicleModel) => ConstructorParameters<typeof VehicleStream>[1],
+  max_line_bytes?: number,
 ): Promise<AnalyzedData> {
   const vehicles = [...loadFleetFile(fleetPath).models.values()];
   const { files, bytes } = listCsvFiles(dataPath);
@@ -54,6 +55,7 @@ export async function analyzeData(
         },
       },
       (n) => progress.bytes(n, rows),
+      max_line_bytes,
     );
   }
   progress.end();

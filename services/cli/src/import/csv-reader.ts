@@ -1,5 +1,5 @@
 import { closeSync, openSync, readSync } from 'node:fs';
-import { InputError, isValidId, NUMERIC_COLUMNS, SIGNALS } from '@thermargin/shared';
+import { InputError, isValidId, NUMERIC_COLUMNS, type Problem, SIGNALS } from '@thermargin/shared';
 import { readDecimal } from './decimal.ts';
 import { fastTime_ms } from './iso-time.ts';
 
@@ -17,6 +17,9 @@ const REQUIRED_COLUMNS = [
     .map(([k]) => k),
 ];
 
+/** Every column the reader takes a value from: each may appear once in a header. */
+const USED_COLUMNS = ['vehicle', 'trip', ...NUMERIC_COLUMNS.map((c) => (c === 'time_ms' ? 'time' : c))];
+
 interface Layout {
   vehicle: number;
   trip: number;
@@ -25,8 +28,25 @@ interface Layout {
   width: number;
 }
 
+/** A column the reader takes a value from, named twice: which, and both positions (1-based). */
+function repeatedColumns(file: string, names: readonly string[]): Problem[] {
+  const out: Problem[] = [];
+  for (const c of USED_COLUMNS) {
+    const first = names.indexOf(c);
+    const second = first < 0 ? -1 : names.indexOf(c, first + 1);
+    if (second >= 0)
+      out.push({
+        where: `${file}:1`,
+        rule: `column ${c} appears twice (columns ${first + 1} and ${second + 1}): keep one`,
+      });
+  }
+  return out;
+}
+
 function layoutOf(file: string, header: string): Layout {
   const names = splitCsvLine(header).map((h) => h.trim().replace(/^(\uFEFF|\u00EF\u00BB\u00BF)/, ''));
+  const twice = repeatedColumns(file, names);
+  if (twice.length) throw new InputError(twice, `${file} has a header that names a column twice`);
   const missing = REQUIRED_COLUMNS.filter((c) => !names.includes(c));
   if (missing.length)
     throw new InputError(
@@ -207,15 +227,41 @@ function isBlankLine(s: Uint8Array, start: number, end: number): boolean {
 /** bytes read per system call: few large reads win where a system call is dear (virtual machines). */
 const READ_BYTES = 4 << 20;
 
+export const CSV_LIMITS = {
+  /**
+   * bytes, 1 MiB (`--max-line-bytes`): the longest line read; a longer one (a file without line
+   * breaks, a runaway field) ends the file with exit 2 at its file:line, and memory stays at the read
+   * buffer. A row of every signal takes about 200 bytes; exports with many extra columns, a few KiB.
+   */
+  max_line_bytes: 1 << 20,
+};
+
+function tooLong(file: string, line: number, max: number): InputError {
+  return new InputError(
+    [
+      {
+        where: `${file}:${line}`,
+        rule: `line longer than ${max} bytes (no line break within it); if the file is right, raise --max-line-bytes`,
+      },
+    ],
+    `${file} has a line over the limit`,
+  );
+}
+
 /**
  * Reads one CSV file of the import format (header naming the contract's columns in any order,
  * unknown columns ignored, empty cell = missing) into `sink`, chunk by chunk, parsing the bytes in
  * place (no string per line or field; only a changed id becomes a string). Read as Latin-1: every
  * valid field is ASCII, and a stray byte makes an invalid id or number that is rejected, never a crash.
- * Throws InputError when the file itself is unusable (empty, no header, required columns missing);
- * bad rows go to `sink.bad` with file:line.
+ * Throws InputError when the file itself is unusable (empty, no header, required columns missing, a
+ * line over `max_line_bytes`); bad rows go to `sink.bad` with file:line.
  */
-export function readCsvFile(file: string, sink: CsvSink, onBytes?: (n: number) => void): number {
+export function readCsvFile(
+  file: string,
+  sink: CsvSink,
+  onBytes?: (n: number) => void,
+  max_line_bytes = CSV_LIMITS.max_line_bytes,
+): number {
   const p = new RowParser(file, sink);
   let buf = Buffer.allocUnsafe(READ_BYTES);
   let fd: number;
@@ -241,11 +287,13 @@ export function readCsvFile(file: string, sink: CsvSink, onBytes?: (n: number) =
       // Searched once per chunk, not per line: most files hold no quote at all.
       let quote = s.indexOf(34);
       for (let nl = s.indexOf(10); nl >= 0; nl = s.indexOf(10, start)) {
+        if (nl - start > max_line_bytes) throw tooLong(file, p.line + 1, max_line_bytes);
         if (quote >= 0 && quote < start) quote = s.indexOf(34, start);
         p.take(s, start, nl > start && s[nl - 1] === 13 ? nl - 1 : nl, quote >= 0 && quote < nl);
         start = nl + 1;
       }
       kept = s.length - start;
+      if (kept > max_line_bytes) throw tooLong(file, p.line + 1, max_line_bytes);
       buf.copyWithin(0, start, s.length);
       onBytes?.(n);
     }

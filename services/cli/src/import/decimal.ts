@@ -1,8 +1,11 @@
+import { decimalNumber } from '@thermargin/shared';
+
 /**
  * Reads a plain decimal number (`-12.345`, spaces around allowed) from the Latin-1 bytes s[a, b)
  * without making a string. Exact: digits ≤ 15 and a power of ten ≤ 10²² are exact doubles, so one
  * division rounds correctly, as Number() does. Anything else (exponents, long mantissas, text) goes
- * through Number(); returns NaN for text that is not a number and undefined for an empty cell.
+ * through decimalNumber (decimal notation only: `0x10` is not 16); returns NaN for text that is not a
+ * decimal number and undefined for an empty cell.
  */
 export function readDecimal(s: Buffer, a: number, b: number): number | undefined {
   while (a < b && s[a] === 32) a++;
@@ -26,9 +29,9 @@ export function readDecimal(s: Buffer, a: number, b: number): number | undefined
       digits++;
       if (dot) scale++;
     } else if (c === 46 && !dot) dot = true;
-    else return Number(s.toString('latin1', a, b));
+    else return decimalNumber(s.toString('latin1', a, b));
   }
-  if (digits === 0 || digits > 15 || scale > 22) return Number(s.toString('latin1', a, b));
+  if (digits === 0 || digits > 15 || scale > 22) return decimalNumber(s.toString('latin1', a, b));
   const x = scale ? mant / 10 ** scale : mant;
   return neg ? -x : x;
 }
