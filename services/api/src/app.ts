@@ -20,6 +20,7 @@ import { API_DEFAULTS, type ApiDeps } from './deps.ts';
 import { outageAs503 } from './store-outage.ts';
 import { EventHub, eventRoutes } from './events.ts';
 import { errorBody, HttpError, parseInput } from './http-error.ts';
+import { readJson } from './json-body.ts';
 import { openApiDocument } from './openapi.ts';
 import { RATE_LIMIT_DEFAULTS, RateLimiter } from './rate-limit.ts';
 import { meRoutes } from './routes-me.ts';
@@ -46,20 +47,6 @@ function tooMany(c: Context, wait_s: number, what: string): void {
   if (wait_s <= 0) return;
   c.header('retry-after', String(wait_s));
   throw new HttpError(429, 'too_many_requests', `${what}: retry in ${wait_s} s`);
-}
-
-async function readJson(c: Context): Promise<unknown> {
-  const type = c.req.header('content-type') ?? '';
-  if (!/^application\/json\b/i.test(type))
-    throw new HttpError(415, 'unsupported_media_type', 'send the body as application/json');
-  const text = await c.req.text();
-  try {
-    return JSON.parse(text);
-  } catch (e) {
-    throw new HttpError(400, 'bad_request', `body is not valid JSON (${(e as Error).message})`, [
-      { where: 'body', rule: 'must be valid JSON' },
-    ]);
-  }
 }
 
 const NO_QUERY = z.strictObject({});

@@ -16,7 +16,9 @@ const TYPES: Record<string, string> = {
 
 /**
  * Serves the built dashboard from `dist` for every GET outside /api: a file when one matches (never
- * outside `dist`), else index.html (the SPA's own router takes over).
+ * outside `dist`), else index.html (the SPA's own router takes over) — except for a path naming a file
+ * (an extension, or under /assets/), which is a 404: a page asking for a missing script must fail,
+ * not be handed the page itself.
  */
 export function serveDashboard(app: Hono, dist: string): void {
   const root = normalize(dist);
@@ -32,7 +34,9 @@ export function serveDashboard(app: Hono, dist: string): void {
     }
     const file = normalize(join(root, rel));
     const inside = file.startsWith(root + sep);
-    const target = inside && existsSync(file) && statSync(file).isFile() ? file : index;
+    const found = inside && existsSync(file) && statSync(file).isFile();
+    if (!found && (rel.startsWith('/assets/') || extname(rel) !== '')) return next();
+    const target = found ? file : index;
     const type = TYPES[extname(target)] ?? 'application/octet-stream';
     const cache = target === index ? 'no-cache' : 'public, max-age=3600';
     return c.body(readFileSync(target), 200, { 'content-type': type, 'cache-control': cache });

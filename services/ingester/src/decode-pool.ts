@@ -1,6 +1,5 @@
 import { Worker } from 'node:worker_threads';
 import type { Logger } from '@thermargin/shared/log';
-import type { DeadLetter } from '@thermargin/store';
 import { type DecodeContext, type Decoded, safeDecode } from './decode.ts';
 import { type PackedSamples, unpackSamples } from './sample-pack.ts';
 
@@ -14,10 +13,9 @@ export interface DecodeJob {
   payload: Uint8Array;
   now_ms: number;
 }
-export interface DecodeResult {
+export interface DecodeResult extends Omit<Decoded, 'samples'> {
   id: number;
   samples: PackedSamples;
-  rejects: DeadLetter[];
 }
 
 interface Pending {
@@ -91,7 +89,7 @@ export class DecodePool {
       }
       const job = slot.jobs.get(r.id);
       slot.jobs.delete(r.id);
-      job?.resolve({ samples: unpackSamples(r.samples), rejects: r.rejects });
+      job?.resolve({ samples: unpackSamples(r.samples), rejects: r.rejects, refused: r.refused });
     });
     worker.on('error', (e) => this.log('decode_worker_error', { error: e.message }));
     worker.on('exit', (code) => {

@@ -12,7 +12,7 @@ port.on('message', (job: DecodeJob) => {
   const payload = Buffer.from(job.payload.buffer, job.payload.byteOffset, job.payload.byteLength);
   const d = safeDecode(job.topic, payload, { known_vehicles: known, now_ms: job.now_ms, max_payload_bytes });
   const samples = packSamples(d.samples);
-  const result: DecodeResult = { id: job.id, samples, rejects: d.rejects };
+  const result: DecodeResult = { id: job.id, samples, rejects: d.rejects, refused: d.refused };
   port.postMessage(result, [samples.numbers.buffer]);
 });
 port.postMessage('ready');

@@ -25,8 +25,17 @@ export interface DecodeContext {
 
 export interface Decoded {
   samples: Sample[];
+  /**
+   * At most one dead letter per message: the whole message refused, or, for refused samples of it,
+   * how many and why, with the first few named.
+   */
   rejects: DeadLetter[];
+  /** What was refused, by reason: each refused sample, or 1 for a message refused whole (metrics). */
+  refused: Partial<Record<RejectReason, number>>;
 }
+
+/** Refused samples of one message named in its dead letter (the rest are counted). */
+export const NAMED_REFUSALS = 3;
 
 /**
  * One MQTT message → the samples to store and the dead letters, never a throw: a payload is refused
@@ -52,6 +61,7 @@ export function decodeMessage(topic: string, payload: Buffer, ctx: DecodeContext
   const whole = (reason: RejectReason, detail: string, v?: string): Decoded => ({
     samples: [],
     rejects: [letter(reason, detail, () => payload.subarray(0, 4096).toString('utf8'), v)],
+    refused: { [reason]: 1 },
   });
 
   if (vehicle === undefined)
@@ -83,14 +93,35 @@ export function decodeMessage(topic: string, payload: Buffer, ctx: DecodeContext
     );
   }
 
-  const out: Decoded = { samples: [], rejects: [] };
+  const out: Decoded = { samples: [], rejects: [], refused: {} };
+  const named: { where: string; detail: string; item: unknown }[] = [];
+  let first: RejectReason | undefined;
   items.forEach((item, i) => {
     const verdict = judgeSample(item, vehicle, ctx.now_ms);
-    if ('reason' in verdict) {
-      const where = isBatch ? `samples[${i}]` : 'sample';
-      out.rejects.push(letter(verdict.reason, `${where}: ${verdict.detail}`, () => safeStringify(item)));
-    } else out.samples.push(verdict);
+    if (!('reason' in verdict)) {
+      out.samples.push(verdict);
+      return;
+    }
+    first ??= verdict.reason;
+    out.refused[verdict.reason] = (out.refused[verdict.reason] ?? 0) + 1;
+    if (named.length < NAMED_REFUSALS)
+      named.push({ where: isBatch ? `samples[${i}]` : 'sample', detail: verdict.detail, item });
   });
+  if (first === undefined) return out;
+  // One letter for the message (10 000 bad items made 10 000 rows): its most frequent reason.
+  const counts = Object.entries(out.refused) as [RejectReason, number][];
+  const reason = counts.reduce((a, b) => (b[1] > a[1] ? b : a), [first, out.refused[first]!])[0];
+  const bad = counts.reduce((n, [, c]) => n + c, 0);
+  const list = named.map((n) => `${n.where}: ${n.detail}`).join('; ');
+  const detail = !isBatch
+    ? list
+    : `${bad} of ${items.length} samples refused (${counts.map(([r, c]) => `${r} ${c}`).join(', ')}); ` +
+      `${bad > named.length ? `first ${named.length}: ` : ''}${list}`;
+  out.rejects.push(
+    letter(reason, detail, () =>
+      safeStringify(named.length === 1 ? named[0]!.item : named.map((n) => n.item)),
+    ),
+  );
   return out;
 }
 
@@ -108,7 +139,7 @@ export function safeDecode(topic: string, payload: Buffer, ctx: DecodeContext): 
       excerpt: excerpt(payload.subarray(0, 4096).toString('utf8')),
       payload_bytes: payload.length,
     };
-    return { samples: [], rejects: [letter] };
+    return { samples: [], rejects: [letter], refused: { schema: 1 } };
   }
 }
 

@@ -1,5 +1,10 @@
 import type { Server } from 'node:http';
-import { SAMPLE_TOPIC_FILTER, sharedSampleFilter } from '@thermargin/shared';
+import {
+  parseSampleTopic,
+  type RejectReason,
+  SAMPLE_TOPIC_FILTER,
+  sharedSampleFilter,
+} from '@thermargin/shared';
 import type { Logger } from '@thermargin/shared/log';
 import type { SampleStore } from '@thermargin/store';
 import mqtt, { type IClientOptions, type MqttClient } from 'mqtt';
@@ -127,7 +132,9 @@ export function createIngester(config: IngesterConfig, deps: IngesterDeps): Inge
       const deliver = (decoded: Decoded) => {
         metrics.messages_received++;
         metrics.samples_received += decoded.samples.length;
-        for (const r of decoded.rejects) metrics.reject(r.vehicle, r.reason);
+        const vehicle = parseSampleTopic(packet.topic) ?? '';
+        for (const [reason, n] of Object.entries(decoded.refused))
+          metrics.reject(vehicle, reason as RejectReason, n);
         pipeline.submit({ samples: decoded.samples, letters: decoded.rejects, ack: () => done() });
       };
       if (!pool) return deliver(safeDecode(packet.topic, payload, { ...decodeContext, now_ms: clock() }));

@@ -140,6 +140,24 @@ describe('API security', () => {
     expect((await stack.get(`/api/vehicles/${ID}/trips?limit=-1`)).status).toBe(400);
     expect((await stack.get(`/api/vehicles/${ID}/trips?sort=1`)).status).toBe(400);
     expect((await stack.get(`/api/vehicles/${ID}/trips?from=2026-02-30`)).status).toBe(400);
+    expect((await stack.get(`/api/vehicles/${ID}/trips?limit=0x10`)).status).toBe(400); // decimal only
+    // Nested brackets (100 000 gave a 500, a stack overflow): refused by depth before parsing.
+    for (const [method, where] of [
+      ['PUT', '/api/fleet'],
+      ['POST', path],
+    ] as const) {
+      const deep = await stack.send(
+        method,
+        where,
+        `{"vehicles":${'['.repeat(20_000)}${']'.repeat(20_000)}}`,
+        'admin',
+        true,
+      );
+      expect(deep.status, where).toBe(400);
+      expect(((await deep.json()) as { error: { message: string } }).error.message).toBe(
+        'body nests deeper than 32 levels',
+      );
+    }
     expect(await auditCount()).toBe(before);
   });
 

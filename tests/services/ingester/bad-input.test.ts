@@ -80,6 +80,38 @@ describe('bad input never stops the ingester; each is dead-lettered with its rea
     await Promise.all([...pubs.values()].map((c) => c.endAsync()));
     await store.close();
   });
+
+  it('a message of 10 000 bad samples is one dead letter with the count and the first reasons', async () => {
+    const store = createSqliteStore({ path: join(dir, 'one-letter.db') });
+    const ingester = await startFleetIngester({
+      mqtt_url: broker.ingester_url,
+      dir,
+      ids: IDS,
+      client_id: 'one-letter',
+      share_group: 'one-letter',
+      store,
+    });
+    // ≈ 20 KB: 9 999 items that are no sample at all, one sample with a value out of range.
+    const batch: unknown[] = Array.from({ length: 10_000 }, () => 0);
+    batch[7] = { ...validSample('bus-01', 7), fan_pct: 101 };
+    const pub = await connectAs(broker.url, 'bus-01', { protocolVersion: 5 });
+    await pub.publishAsync(sampleTopic('bus-01'), JSON.stringify(batch), { qos: 1 });
+    const deadline = Date.now() + 30_000;
+    while (ingester.metrics.messages_acked < 1 && Date.now() < deadline) await sleep(50);
+    await ingester.stop();
+    const letters = await store.readDeadLetters({ limit: 20_000 });
+    expect(letters).toHaveLength(1);
+    expect(letters[0]!.reason).toBe('schema');
+    expect(letters[0]!.detail).toMatch(
+      /^10000 of 10000 samples refused \(schema 9999, range 1\); first 3: samples\[0\]: .+; samples\[1\]: .+; samples\[2\]: /,
+    );
+    expect(ingester.metrics.rejections()).toEqual([
+      { vehicle: 'bus-01', reason: 'schema', count: 9999 },
+      { vehicle: 'bus-01', reason: 'range', count: 1 },
+    ]);
+    await pub.endAsync();
+    await store.close();
+  });
 });
 
 describe('decodeMessage property-based (fast-check)', () => {
@@ -91,7 +123,9 @@ describe('decodeMessage property-based (fast-check)', () => {
       fc.property(fc.jsonValue(), (value) => {
         const d = decodeMessage(topic, Buffer.from(JSON.stringify(value) ?? ''), ctx);
         const items = Array.isArray(value) && value.length > 0 ? value.length : 1;
-        expect(d.samples.length + d.rejects.length).toBe(items);
+        const refused = Object.values(d.refused).reduce((n, c) => n + c, 0);
+        expect(d.samples.length + refused).toBe(items);
+        expect(d.rejects.length).toBe(refused > 0 ? 1 : 0); // one letter per message
         for (const r of d.rejects) expect(REJECT_REASONS).toContain(r.reason);
       }),
       { numRuns: 2000, seed: 42 },
@@ -123,7 +157,7 @@ describe('decodeMessage property-based (fast-check)', () => {
             return s;
           });
           const d = decodeMessage(topic, Buffer.from(JSON.stringify(batch)), ctx);
-          expect(d.rejects.length).toBe(plan.filter(Boolean).length);
+          expect(Object.values(d.refused).reduce((n, c) => n + c, 0)).toBe(plan.filter(Boolean).length);
           expect(d.samples.length).toBe(plan.filter((b) => !b).length);
         },
       ),
