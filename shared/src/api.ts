@@ -4,6 +4,7 @@ import { MAINTENANCE_ACTIONS, maintenanceEntrySchema, vehicleConfigSchema } from
 import { healthSeriesSchema } from './health-series.ts';
 import { idSchema } from './ids.ts';
 import { CAUSES, STATUSES, TRENDS, tripResultSchema } from './results.ts';
+import { STORE_FAULTS } from './store-faults.ts';
 import { REJECT_REASONS } from './telemetry.ts';
 
 /**
@@ -56,7 +57,16 @@ export type MeResponse = z.infer<typeof meResponseSchema>;
 // ---- GET /api/status (viewer): ingest and analyzer health
 export const statusResponseSchema = z.object({
   time: iso,
-  store: z.object({ kind: z.string(), up: z.boolean(), error: z.string().nullable() }),
+  /**
+   * The sample store: up when it answers and can take writes; else `fault` says why (disk_full,
+   * read_only, locked, io_error, unavailable) and `error` in words, naming the file or server.
+   */
+  store: z.object({
+    kind: z.string(),
+    up: z.boolean(),
+    fault: z.enum(STORE_FAULTS).nullable(),
+    error: z.string().nullable(),
+  }),
   ingest: z.object({
     vehicles: z.number().int(),
     samples: z.number().int(),
@@ -270,8 +280,8 @@ export type RejectedResponse = z.infer<typeof rejectedResponseSchema>;
 
 // ---- GET /api/rejected/letters?vehicle=&reason=&limit= (viewer): the refused messages themselves
 export const deadLettersQuerySchema = z.strictObject({
-  /** '' for messages whose vehicle could not be read. */
-  vehicle: z.string().max(64).optional(),
+  /** '' for messages whose vehicle could not be read; else an id (checked here, before any store is asked). */
+  vehicle: z.union([z.literal(''), idSchema]).optional(),
   reason: z.enum(REJECT_REASONS).optional(),
   limit: queryInt(1, 500, 50),
 });

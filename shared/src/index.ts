@@ -7,6 +7,7 @@ export * from './ids.ts';
 export * from './policy.ts';
 export * from './results.ts';
 export * from './safety.ts';
+export * from './store-faults.ts';
 export * from './telemetry.ts';
 export * from './validation.ts';
 export * from './topics.ts';

@@ -1,3 +1,5 @@
+import type { StoreFaultKind } from './store-faults.ts';
+
 /**
  * Every event the services log, with its detail: one map, so a call with a misspelt event or a missing
  * field fails to compile, and an operator finds every line a deployment can write in one place. Each is
@@ -12,15 +14,19 @@ export interface LogEvents {
   decode_worker_error: { error: string };
   decode_worker_exit: { code: number; replaced: boolean };
   pipeline_error: { error: string };
-  store_down: { error: string };
+  /** Said once per change of fault (disk full → read-only …), with the system's words. */
+  store_down: { kind: StoreFaultKind; reason: string };
   store_up: { spool_segments: number };
+  /** The spool's own disk refuses writes too: nothing more is acknowledged until it takes them again. */
+  spool_unwritable: { kind: StoreFaultKind; reason: string };
+  spool_writable: Record<string, never>;
   metrics: { port: number | undefined };
   shutdown: { signal: string };
   // analyzer
   analyzer_error: { error: string };
   // API
   api_error: { path: string; error: string };
-  api_store_unavailable: { path: string; error: string };
+  api_store_unavailable: { path: string; kind?: StoreFaultKind; error: string };
   auth_backoff: { address: string; failures: number; wait_s: number };
   events_poll_failed: { error: string };
   reanalyze_failed: { vehicle: string; error: string };

@@ -7,6 +7,7 @@ import {
   type RouteQuery,
   type RouteSpec,
 } from '@thermargin/shared/api-routes';
+import { isStorageError, storeFault } from '@thermargin/store';
 import type { Actor } from '@thermargin/store/sqlite-workflow';
 import { getConnInfo } from '@hono/node-server/conninfo';
 import { type Context, Hono, type MiddlewareHandler } from 'hono';
@@ -117,6 +118,15 @@ export function createApi(deps: ApiDeps): Hono {
       if (e.status === 413) c.header('connection', 'close');
       if (e.status === 503) deps.log?.('api_store_unavailable', { path: c.req.path, error: e.message });
       return c.json(errorBody(e), e.status);
+    }
+    // The results store (SQLite) failing a write: disk full, read-only, locked — said as it is.
+    if (isStorageError(e)) {
+      const f = storeFault(e);
+      deps.log?.('api_store_unavailable', { path: c.req.path, kind: f.kind, error: f.reason });
+      return c.json(
+        errorBody(new HttpError(503, 'store_unavailable', `results store (sqlite): ${f.reason}`)),
+        503,
+      );
     }
     deps.log?.('api_error', { path: c.req.path, error: (e as Error).stack ?? String(e) });
     return c.json(errorBody(new HttpError(500, 'internal', 'internal error')), 500);

@@ -7,8 +7,10 @@ import {
   type TripsQuery,
   type TripsResponse,
   VEHICLE_RECENT_TRIPS,
+  type StoreFaultKind,
   type VehicleResponse,
 } from '@thermargin/shared';
+import { storeFault } from '@thermargin/store';
 import type { Context } from 'hono';
 import { utcDay } from '@thermargin/core/health/due';
 import { tripGoingOn } from '@thermargin/core/trip/split';
@@ -45,11 +47,13 @@ async function status(x: ApiContext): Promise<StatusResponse> {
   const { deps } = x;
   let up = true;
   let error: string | null = null;
+  let fault: StoreFaultKind | null = null;
   try {
     await deps.samples.ping();
   } catch (e) {
     up = false;
-    error = (e as Error).message;
+    const f = storeFault(e);
+    [error, fault] = [f.reason, f.kind];
   }
   const spans = up ? await x.reader.spans() : [];
   const analyses = deps.results.readAnalyses();
@@ -63,7 +67,7 @@ async function status(x: ApiContext): Promise<StatusResponse> {
   const lastRun = analyses.reduce((m, a) => Math.max(m, a.updated_ms), Number.NEGATIVE_INFINITY);
   return {
     time: iso(now),
-    store: { kind: deps.samples.kind, up, error },
+    store: { kind: deps.samples.kind, up, fault, error },
     ingest: {
       vehicles: spans.length,
       samples: spans.reduce((n, sp) => n + sp.count, 0),

@@ -1,19 +1,18 @@
-import type { SampleStore } from '@thermargin/store';
+import { type SampleStore, storeFault } from '@thermargin/store';
 import { HttpError } from './http-error.ts';
 
 /**
- * The sample store as the routes see it: a call that fails (InfluxDB down, SQLite file gone) is
- * answered 503 naming the store and its own words, not 500 "internal error", so the dashboard can
- * say what is wrong and a client knows to retry.
+ * The sample store as the routes see it: a call that fails (InfluxDB down, SQLite file gone, disk
+ * full) is answered 503 naming the store, what is wrong (faults.ts) and its own words, not 500
+ * "internal error", so the dashboard can say what is wrong and a client knows to retry.
  */
 export function outageAs503(store: SampleStore): SampleStore {
   const outage = (e: unknown) =>
     e instanceof HttpError
       ? e
-      : new HttpError(
-          503,
-          'store_unavailable',
-          `sample store (${store.kind}) did not answer: ${(e as Error).message}`,
+      : Object.assign(
+          new HttpError(503, 'store_unavailable', `sample store (${store.kind}): ${storeFault(e).reason}`),
+          { cause: e },
         );
   return new Proxy(store, {
     get(target, name, receiver) {

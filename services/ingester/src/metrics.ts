@@ -1,6 +1,7 @@
 import { type Server, createServer } from 'node:http';
 import type { AddressInfo } from 'node:net';
-import type { RejectReason } from '@thermargin/shared';
+import { type RejectReason, STORE_FAULTS } from '@thermargin/shared';
+import type { StoreFault } from '@thermargin/store';
 
 /** The ingester's counters and gauges, rendered in the Prometheus text format on GET /metrics. */
 export class IngestMetrics {
@@ -18,6 +19,9 @@ export class IngestMetrics {
   spool_bytes = 0;
   spool_segments = 0;
   store_up = 1;
+  /** Why the store, and the spool, last refused a write (null while they take them). */
+  store_fault: StoreFault | null = null;
+  spool_fault: StoreFault | null = null;
   connections_up = 0;
   private readonly rejected = new Map<string, number>();
 
@@ -81,6 +85,17 @@ export class IngestMetrics {
     metric('spool_bytes', 'gauge', 'bytes in the disk spool', this.spool_bytes);
     metric('spool_segments', 'gauge', 'batches in the disk spool', this.spool_segments);
     metric('store_up', 'gauge', '1 when the last store write succeeded', this.store_up);
+    for (const [name, fault, what] of [
+      ['store_fault', this.store_fault, 'the store refuses writes'],
+      ['spool_fault', this.spool_fault, 'the disk spool refuses writes (nothing more is acknowledged)'],
+    ] as const) {
+      out.push(
+        `# HELP thermargin_ingest_${name} 1 for the reason ${what}`,
+        `# TYPE thermargin_ingest_${name} gauge`,
+      );
+      for (const kind of STORE_FAULTS)
+        out.push(`thermargin_ingest_${name}{kind="${kind}"} ${fault?.kind === kind ? 1 : 0}`);
+    }
     metric('connections_up', 'gauge', 'MQTT connections currently up', this.connections_up);
     metric('heap_used_bytes', 'gauge', 'V8 heap in use', process.memoryUsage().heapUsed);
     out.push(
@@ -104,7 +119,12 @@ export async function startMetricsServer(
     if (req.method === 'GET' && req.url === '/metrics') {
       res.writeHead(200, { 'content-type': 'text/plain; version=0.0.4' }).end(metrics.render());
     } else if (req.method === 'GET' && req.url === '/healthz') {
-      res.writeHead(200, { 'content-type': 'text/plain' }).end('ok\n');
+      const { store_fault: store, spool_fault: spool } = metrics;
+      // 503 only when nothing can be acknowledged: store down and the spool refusing too.
+      const text = !store
+        ? 'ok\n'
+        : `store down: ${store.reason}; ${spool ? `spool refuses writes too: ${spool.reason}` : 'spooling to disk'}\n`;
+      res.writeHead(store && spool ? 503 : 200, { 'content-type': 'text/plain' }).end(text);
     } else {
       res.writeHead(404, { 'content-type': 'text/plain' }).end('not found: GET /metrics or /healthz\n');
     }

@@ -1,7 +1,7 @@
 import { setTimeout as sleep } from 'node:timers/promises';
 import type { Sample } from '@thermargin/shared';
 import type { Logger } from '@thermargin/shared/log';
-import type { DeadLetter, SampleStore } from '@thermargin/store';
+import { type DeadLetter, type SampleStore, storeFault } from '@thermargin/store';
 import type { IngestMetrics } from './metrics.ts';
 import type { Spool, SpoolBatch } from './spool.ts';
 
@@ -137,10 +137,14 @@ export class Pipeline {
 
   /** True once durable (stored or spooled). */
   private async commit(samples: Sample[], letters: DeadLetter[]): Promise<boolean> {
-    if (this.storeDown || this.spool.segments > 0) return this.toSpool({ samples, letters });
+    // Behind the spool's batches while it holds some; straight to the spool while the store is down,
+    // unless the spool refuses writes too (its own disk full): then the store is tried again.
+    const spoolFirst = this.spool.segments > 0 || (this.storeDown && !this.metrics.spool_fault);
+    if (spoolFirst) return this.toSpool({ samples, letters });
     try {
       await this.store.writeSamples(samples);
       this.metrics.samples_stored += samples.length;
+      this.recovered();
     } catch (e) {
       this.failed(e);
       return this.toSpool({ samples, letters });
@@ -154,15 +158,39 @@ export class Pipeline {
     return true;
   }
 
+  private recovered(): void {
+    if (this.storeDown) this.log('store_up', { spool_segments: this.spool.segments });
+    this.storeDown = false;
+    this.metrics.store_up = 1;
+    this.metrics.store_fault = null;
+  }
+
   private failed(e: unknown): void {
     this.metrics.store_write_failures++;
-    if (!this.storeDown) this.log('store_down', { error: String(e) });
+    const f = storeFault(e);
+    // Said once per change (disk full → read-only …), with the reason: the console shows it.
+    if (!this.storeDown || this.metrics.store_fault?.reason !== f.reason)
+      this.log('store_down', { kind: f.kind, reason: f.reason });
+    this.metrics.store_fault = f;
     this.storeDown = true;
     this.metrics.store_up = 0;
   }
 
   private toSpool(batch: SpoolBatch): boolean {
-    if (!this.spool.append(batch)) return false;
+    let spooled: boolean;
+    try {
+      spooled = this.spool.append(batch);
+    } catch (e) {
+      // Its disk full or read-only too: nothing more is acknowledged until it takes writes again.
+      const f = storeFault(e);
+      if (this.metrics.spool_fault?.reason !== f.reason)
+        this.log('spool_unwritable', { kind: f.kind, reason: f.reason });
+      this.metrics.spool_fault = f;
+      return false;
+    }
+    if (!spooled) return false;
+    if (this.metrics.spool_fault) this.log('spool_writable', {});
+    this.metrics.spool_fault = null;
     this.metrics.spooled_batches++;
     this.gauges();
     this.drain();
@@ -187,9 +215,7 @@ export class Pipeline {
       this.spool.shift();
       this.metrics.samples_stored += batch.samples.length;
       this.metrics.drained_batches++;
-      if (this.storeDown) this.log('store_up', { spool_segments: this.spool.segments });
-      this.storeDown = false;
-      this.metrics.store_up = 1;
+      this.recovered();
       delay = this.options.retry_min_ms;
       this.gauges();
     }

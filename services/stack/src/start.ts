@@ -1,4 +1,4 @@
-import { mkdirSync, writeFileSync, existsSync } from 'node:fs';
+import { existsSync, mkdirSync, rmSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { startEmbeddedBroker, type EmbeddedBroker } from '@thermargin/broker';
 import { createIngester, readIngesterConfig } from '@thermargin/ingester';
@@ -6,7 +6,7 @@ import { readApiConfig } from '@thermargin/api/config';
 import { serveApi } from '@thermargin/api/start';
 import { wireApi } from '@thermargin/api/wiring';
 import { createScenario, publishScenario } from '@thermargin/simulator';
-import { type Sample, SAFETY_CAUTION } from '@thermargin/shared';
+import { FAULT_WORDS, faultKind, type Sample, SAFETY_CAUTION } from '@thermargin/shared';
 import type { Logger } from '@thermargin/shared/log';
 import { brokerUsers, INGESTER_USER, loadDemoState } from './demo-state.ts';
 import { historyFeed, liveFeed } from './feed.ts';
@@ -15,10 +15,35 @@ import { ensureWebBuilt } from './web-build.ts';
 
 const ROOT = resolve(import.meta.dirname, '../../..');
 const log = (line: string) => process.stderr.write(`${line}\n`);
-/** Service logs are JSON lines; only warnings and errors reach the console. */
+/**
+ * Service logs are JSON lines; warnings, errors and the store's state changes (store_down with its
+ * reason — disk full, read-only, locked —, store_up, a refused spool, a sign-in back-off) reach the console.
+ */
 const serviceLog: Logger = (event, detail) => {
-  if (/error|fail|reject|spool|retry/i.test(event)) log(`  ${event} ${JSON.stringify(detail)}`);
+  if (/error|fail|reject|spool|retry|store_down|store_up|unavailable|backoff/i.test(event))
+    log(`  ${event} ${JSON.stringify(detail)}`);
 };
+
+/**
+ * The data folder holds the stores, the spool and the demo's state: one that cannot be written stops
+ * the start naming the folder, the reason and what to do (SQLite would only say "unable to open
+ * database file").
+ */
+function requireWritable(dir: string): void {
+  const probe = join(dir, `.write-check-${process.pid}`);
+  try {
+    mkdirSync(dir, { recursive: true });
+    writeFileSync(probe, '');
+    rmSync(probe);
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code ?? '';
+    throw new Error(
+      `the data folder ${dir} cannot be written: ${FAULT_WORDS[faultKind(code)]} (${code}). It holds the stores, the spool ` +
+        `and the demo's state: make it writable for this user (remount it read-write, or chown/chmod it), ` +
+        `or set THERMARGIN_DATA_DIR to a writable folder.`,
+    );
+  }
+}
 
 /**
  * `npm start`: the whole stack in one process tree — embedded MQTT broker (unless INGEST_MQTT_URL points
@@ -29,7 +54,7 @@ const serviceLog: Logger = (event, detail) => {
 async function main(): Promise<void> {
   const cfg = readStackConfig();
   const data = resolve(cfg.data_dir);
-  mkdirSync(data, { recursive: true });
+  requireWritable(data);
   const state = loadDemoState(data, {
     seed: cfg.seed,
     vehicles: cfg.vehicles,

@@ -1,8 +1,7 @@
-import { mkdirSync } from 'node:fs';
-import { dirname } from 'node:path';
 import type { TripResult, VehicleResult } from '@thermargin/shared';
-import Database from 'better-sqlite3';
+import type Database from 'better-sqlite3';
 import { SQLITE_DEFAULTS } from './sqlite.ts';
+import { openSqliteFile } from './sqlite-open.ts';
 import { createResultTables } from './sqlite-result-tables.ts';
 import type { ResultsStore } from './store.ts';
 
@@ -10,12 +9,7 @@ import type { ResultsStore } from './store.ts';
 export function openResultsDb(path: string): Database.Database {
   if (path === ':memory:')
     throw new Error('openResultsDb: needs a file (each role opens its own connection)');
-  mkdirSync(dirname(path), { recursive: true });
-  const db = new Database(path);
-  db.pragma('journal_mode = WAL');
-  db.pragma(`synchronous = ${SQLITE_DEFAULTS.synchronous === 'full' ? 'FULL' : 'NORMAL'}`);
-  db.pragma(`busy_timeout = ${SQLITE_DEFAULTS.busy_timeout_ms}`);
-  return db;
+  return openSqliteFile(path, SQLITE_DEFAULTS);
 }
 
 /** Per vehicle: how far the analyzer got, and what the health module gave beyond the VehicleResult. */

@@ -1,9 +1,7 @@
-import { mkdirSync } from 'node:fs';
-import { dirname } from 'node:path';
-import Database from 'better-sqlite3';
 import { BLOCK_DEFAULTS } from './sqlite-blocks.ts';
 import { createDeadLetterTable } from './sqlite-dead-letters.ts';
 import { createSqliteLateMarks } from './sqlite-late.ts';
+import { openSqliteFile, probeWrites } from './sqlite-open.ts';
 import { createResultTables } from './sqlite-result-tables.ts';
 import { createSampleTables } from './sqlite-samples.ts';
 import type { ResultsStore, SampleStore } from './store.ts';
@@ -33,11 +31,7 @@ export type SqliteStore = SampleStore & ResultsStore;
  */
 export function createSqliteStore(options: SqliteStoreOptions): SqliteStore {
   const o = { ...SQLITE_DEFAULTS, ...options };
-  if (o.path !== ':memory:') mkdirSync(dirname(o.path), { recursive: true });
-  const db = new Database(o.path);
-  db.pragma('journal_mode = WAL');
-  db.pragma(`synchronous = ${o.synchronous === 'full' ? 'FULL' : 'NORMAL'}`);
-  db.pragma(`busy_timeout = ${Math.round(o.busy_timeout_ms)}`);
+  const db = openSqliteFile(o.path, o);
   const late = createSqliteLateMarks(db);
   const samples = createSampleTables(db, { ...BLOCK_DEFAULTS, ...options.blocks }, late.note);
   const letters = createDeadLetterTable(db);
@@ -81,7 +75,7 @@ export function createSqliteStore(options: SqliteStoreOptions): SqliteStore {
       deleteBefore(before_ms);
     },
     async ping() {
-      db.prepare('SELECT 1').get();
+      probeWrites(db, o.path, o.busy_timeout_ms);
     },
     ...results,
     async close() {

@@ -31,7 +31,10 @@ export interface SampleStore {
   clearLateMarks(marks: readonly LateMark[]): Promise<void>;
   /** Deletes samples and dead letters older than `before_ms`. */
   deleteBefore(before_ms: number): Promise<void>;
-  /** Resolves when the store answers (used to probe for recovery after an outage). */
+  /**
+   * Resolves when the store answers and can take writes; rejects with why not (for SQLite a
+   * StoreFaultError: disk full, read-only, locked — faults.ts).
+   */
   ping(): Promise<void>;
   close(): Promise<void>;
 }

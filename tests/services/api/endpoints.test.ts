@@ -236,6 +236,14 @@ describe('API against the running stack (Mosquitto → ingester → InfluxDB →
     const bad = await stack.get('/api/rejected/letters?reason=late');
     expect(bad.status).toBe(400);
     expect(JSON.stringify(await bad.json())).toMatch(/reason/);
+    // A malformed filter is the caller's mistake (400), not an InfluxDB outage (was 503).
+    for (const vehicle of ["a'b", 'x/y', '..', 'v'.repeat(65)]) {
+      const r = await stack.get(`/api/rejected/letters?vehicle=${encodeURIComponent(vehicle)}`);
+      expect(r.status, vehicle).toBe(400);
+      expect(
+        ((await r.json()) as { error: { problems: { where: string }[] } }).error.problems[0]!.where,
+      ).toBe('query: vehicle');
+    }
   });
 
   it('maintenance through the API re-baselines exactly as the fleet file entry would', async () => {

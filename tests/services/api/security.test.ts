@@ -219,7 +219,7 @@ describe('API security', () => {
         expect(r.status, path).toBe(503);
         const body = (await r.json()) as { error: { code: string; message: string } };
         expect(body.error.code, path).toBe('store_unavailable');
-        expect(body.error.message, path).toMatch(/^sample store \(sqlite\) did not answer: /);
+        expect(body.error.message, path).toMatch(/^sample store \(sqlite\): not answering \(/);
       }
       const status = (await (await other.get('/api/status')).json()) as {
         store: { up: boolean; error: string };

@@ -25,6 +25,8 @@ export interface CrashRun {
   samples_stored: number;
   duplicates: number;
   checksum_ok: boolean;
+  /** The console's lines about the store before the kill (store_down with its reason, a refused spool). */
+  console_faults: string[];
 }
 
 const SAMPLES_PER_MESSAGE = 50;
@@ -98,6 +100,11 @@ export async function crashRun(o: {
         await sleep(2000);
       }
     }
+    const consoleFaults = stack
+      .log()
+      .split('\n')
+      .filter((l) => /store_down|spool_unwritable/.test(l))
+      .map((l) => l.trim());
     const child = stack.child;
     const exited = new Promise((r) => child.once('exit', r));
     child.kill('SIGKILL');
@@ -139,6 +146,7 @@ export async function crashRun(o: {
       samples_stored: a.stored,
       duplicates: a.duplicates,
       checksum_ok: a.checksum_ok,
+      console_faults: consoleFaults,
     };
   } finally {
     for (const c of clients) c.end(true);

@@ -27,7 +27,12 @@ describe('npm start killed with SIGKILL: the vehicles resend what was not acknow
     async () => {
       if (typeof disk === 'string') return;
       try {
-        expectWhole(await crashRun({ fault: 'disk_full', messages_per_vehicle: 120, cut: 0.3, disk }));
+        const r = await crashRun({ fault: 'disk_full', messages_per_vehicle: 120, cut: 0.3, disk });
+        expectWhole(r);
+        // The console said why nothing was acknowledged any more (its filter hid store_down before).
+        expect(r.console_faults.join('\n')).toMatch(
+          /store_down \{"kind":"disk_full","reason":"disk full \(SQLITE_FULL/,
+        );
       } finally {
         disk.close();
       }
