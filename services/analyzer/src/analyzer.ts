@@ -1,6 +1,6 @@
 import type { MaintenanceEntry, Status, TripResult } from '@thermargin/shared';
 import type { Logger } from '@thermargin/shared/log';
-import type { LateMark, SampleStore } from '@thermargin/store';
+import { isStorageError, type LateMark, type SampleStore, storeFault } from '@thermargin/store';
 import type { AnalysisStore } from '@thermargin/store/sqlite-analysis-store';
 import { tripGoingOn } from '@thermargin/core/trip/split';
 import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
@@ -157,8 +157,9 @@ export function createAnalyzer(deps: AnalyzerDeps, options: Partial<AnalyzerOpti
         await work();
         stats.last_error = null;
       } catch (e) {
-        stats.last_error = (e as Error).message;
-        log('analyzer_error', { error: (e as Error).message });
+        // A store that refuses (disk full, read-only, locked) is said so, as every part says it.
+        stats.last_error = isStorageError(e) ? `store: ${storeFault(e).reason}` : (e as Error).message;
+        log('analyzer_error', { error: stats.last_error });
         throw e;
       } finally {
         stats.running = false;
