@@ -8,16 +8,12 @@ import { createIngester } from '@thermargin/ingester/ingester';
 import {
   connectAs,
   ingesterEnv,
-  expectedTotals,
-  fleetStream,
   fleetUsers,
   oneSample,
-  publishStream,
   sleep,
   startFleetIngester,
-  takeoverAttempts,
+  streamUnderTakeover,
   tempDir,
-  waitForCount,
 } from './support.ts';
 
 const IDS = ['bus-01', 'bus-02'];
@@ -112,37 +108,22 @@ describe('Mosquitto per-vehicle ACL (shipped rules, real broker)', () => {
   });
 
   it("binds client ids to user names (shipped config): a vehicle cannot take the ingester's session", async () => {
-    const store = createSqliteStore({ path: join(dir, 'takeover.db') });
-    const ingester = await startFleetIngester({
-      mqtt_url: broker.ingester_url,
-      dir,
-      ids: IDS,
-      client_id: 'bound',
-      share_group: 'bound',
-      store,
-    });
-    const stream = fleetStream(['bus-01'], 400);
-    const publishing = publishStream(broker.url, stream, 20);
-    const kicks = await takeoverAttempts({
+    const r = await streamUnderTakeover({
       vehicle_url: broker.url,
-      thief: 'bus-02',
-      client_id: 'bound',
-      attempts: 20,
+      ingester_url: broker.ingester_url,
+      dir,
       protocol: 5,
-      ingester,
+      share_group: 'takeover',
     });
-    await publishing;
-    expect(kicks).toBe(0);
-    expect(await waitForCount(store, ['bus-01'], 400)).toEqual(expectedTotals(stream));
+    expect(r.kicks).toBe(0);
+    expect(r.stored).toEqual(r.sent);
     // Nor on the ingesters' listener: vehicles have no login there.
     await expect(
       connectAs(broker.ingester_url, 'bus-02', {
-        clientId: 'bound-0',
+        clientId: 'takeover-0',
         protocolVersion: 5,
         reconnectPeriod: 0,
       }),
     ).rejects.toThrow();
-    await ingester.stop();
-    await store.close();
   });
 });

@@ -6,7 +6,7 @@ import type { BrokerUser } from '@thermargin/broker/acl';
 import { ENV, readIngesterConfig } from '@thermargin/ingester/config';
 import { type Ingester, createIngester } from '@thermargin/ingester/ingester';
 import { type WireSample, encodeSamplePayload, sampleTopic } from '@thermargin/shared';
-import type { SampleStore } from '@thermargin/store';
+import { createSqliteStore, type SampleStore } from '@thermargin/store';
 import mqtt, { type IClientOptions, type MqttClient } from 'mqtt';
 
 /** Documented test credentials (never used outside tests). */
@@ -295,22 +295,38 @@ export async function audit(store: SampleStore, stream: WireSample[][]): Promise
 export const sleep = (ms: number) => new Promise<void>((r) => setTimeout(r, ms));
 
 /**
- * A vehicle trying to take over the ingester's session: `attempts` logins with `thief`'s credentials
- * and the ingester's client id (`${client_id}-0`) on `vehicle_url`, while the ingester runs. Resolves
- * with how often the ingester had to reconnect.
+ * bus-01 publishes 400 counted samples on `vehicle_url` while bus-02 logs in there 20 times with the
+ * ingester's client id (`takeover-0`), the ingester (of bus-01 and bus-02, on `ingester_url`) running:
+ * how often it had to reconnect, and what the store holds against what was sent.
  */
-export async function takeoverAttempts(o: {
+export async function streamUnderTakeover(o: {
   vehicle_url: string;
-  thief: string;
-  client_id: string;
-  attempts: number;
+  ingester_url: string;
+  dir: string;
   protocol: 4 | 5;
-  ingester: Ingester;
-}): Promise<number> {
-  const before = o.ingester.metrics.broker_reconnects;
-  for (let i = 0; i < o.attempts; i++) {
-    const c = await connectAs(o.vehicle_url, o.thief, {
-      clientId: `${o.client_id}-0`,
+  share_group: string;
+  env?: Record<string, string>;
+}): Promise<{
+  kicks: number;
+  stored: { count: number; power_sum: number };
+  sent: { count: number; power_sum: number };
+}> {
+  const store = createSqliteStore({ path: join(o.dir, 'takeover.db') });
+  const ingester = await startFleetIngester({
+    mqtt_url: o.ingester_url,
+    dir: o.dir,
+    ids: ['bus-01', 'bus-02'],
+    client_id: 'takeover',
+    share_group: o.share_group,
+    store,
+    ...(o.env ? { env: o.env } : {}),
+  });
+  const stream = fleetStream(['bus-01'], 400);
+  const publishing = publishStream(o.vehicle_url, stream, 20, undefined, o.protocol);
+  const before = ingester.metrics.broker_reconnects;
+  for (let i = 0; i < 20; i++) {
+    const c = await connectAs(o.vehicle_url, 'bus-02', {
+      clientId: 'takeover-0',
       protocolVersion: o.protocol,
       reconnectPeriod: 0,
     }).catch(() => undefined);
@@ -318,5 +334,11 @@ export async function takeoverAttempts(o: {
     await c?.endAsync(true);
   }
   await sleep(300);
-  return o.ingester.metrics.broker_reconnects - before;
+  await publishing;
+  const kicks = ingester.metrics.broker_reconnects - before;
+  const sent = expectedTotals(stream);
+  const stored = await waitForCount(store, ['bus-01'], sent.count);
+  await ingester.stop();
+  await store.close();
+  return { kicks, stored, sent };
 }
