@@ -12,3 +12,5 @@ export * from './telemetry.ts';
 export * from './validation.ts';
 export * from './topics.ts';
 export * from './api.ts';
+export * from './mapping.ts';
+export * from './frame-batch.ts';

@@ -1,0 +1,55 @@
+import { LINE_BAD, LINE_FRAME, LINE_NO_DATA, newParsedFrame, parseCandumpLine } from '../candump.ts';
+import type { FrameVisitor } from '@thermargin/shared';
+import { forEachLine } from './lines.ts';
+
+/** What a candump log held besides frames, counted. */
+export interface CandumpFileCounts {
+  lines: number;
+  frames: number;
+  /** Lines that are no `candump -l` frame (syntax, not hex, too many bytes). */
+  bad_lines: number;
+  /** Remote, CAN FD and error frames: valid, but without parameters to read. */
+  no_data: number;
+  /** Frames earlier than the one before them (a clock stepped back): skipped, the decoder needs order. */
+  clock_back: number;
+}
+
+/**
+ * Reads a `candump -l` log, handing each frame in time order to `visit`; each line that cannot be used
+ * goes to `bad` with its file:line and the rule (`candump_syntax`, `clock_back`), then is counted.
+ */
+export function readCandumpFile(
+  file: string,
+  visit: FrameVisitor,
+  bad: (where: string, reason: string, detail: string) => void,
+  onBytes?: (n: number) => void,
+): CandumpFileCounts {
+  const f = newParsedFrame();
+  const c: CandumpFileCounts = { lines: 0, frames: 0, bad_lines: 0, no_data: 0, clock_back: 0 };
+  let latest = Number.NEGATIVE_INFINITY;
+  c.lines = forEachLine(
+    file,
+    (s, start, end, line) => {
+      const kind = parseCandumpLine(s, start, end, f);
+      if (kind === LINE_FRAME) {
+        if (f.time_us < latest) {
+          c.clock_back++;
+          bad(
+            `${file}:${line}`,
+            'clock_back',
+            `time ${(f.time_us / 1e6).toFixed(6)} is before the frame before it`,
+          );
+          return;
+        }
+        latest = f.time_us;
+        c.frames++;
+        visit(f.time_us, f.id, f.length, f.data, 0);
+      } else if (kind === LINE_BAD) {
+        c.bad_lines++;
+        bad(`${file}:${line}`, 'candump_syntax', f.why);
+      } else if (kind === LINE_NO_DATA) c.no_data++;
+    },
+    onBytes,
+  );
+  return c;
+}
