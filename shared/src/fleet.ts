@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { idSchema } from './ids.ts';
+import { dataMapSchema } from './mapping.ts';
 import { policySchema } from './policy.ts';
 
 export const POWERTRAINS = ['fcev', 'bev', 'ice'] as const;
@@ -68,6 +69,10 @@ export const vehicleConfigSchema = z
     route_max_ambient_c: z.number().min(-60).max(65).optional(),
     maintenance: z.array(maintenanceEntrySchema).optional(),
     policy: policySchema.optional(),
+    /** How this vehicle's logger data reads: a mapping file (path relative to the fleet file) or one inline. */
+    data_map: z.union([z.string().min(1), dataMapSchema]).optional(),
+    /** N·m: engine reference torque (SAE J1939 SPN 544) when the bus does not send it. */
+    engine_reference_torque_nm: positive('engine_reference_torque_nm').optional(),
   })
   .refine((v) => v.thermostat_open_c < v.coolant_limit_c, {
     message: 'thermostat_open_c must be below coolant_limit_c',

@@ -111,6 +111,8 @@ export const vehicleResultSchema = z.object({
   trend: z.enum(TRENDS).nullable().optional(),
   trend_pct_per_30d: nullableNumber.optional(),
   alerts: z.array(alertSchema).optional(),
+  /** Why the vehicle has no status: no usable data (its refusals in words), never a silent `ok`. */
+  unassessed: z.string().optional(),
 });
 export type VehicleResult = z.infer<typeof vehicleResultSchema>;
 

@@ -40,7 +40,7 @@ describe('readCsvFile across reads', () => {
         bad: (where, reason) => bad.push(`${where} ${reason}`),
       },
       undefined,
-      16 << 20, // the line limit raised over the read size
+      { max_line_bytes: 16 << 20 }, // the line limit raised over the read size
     );
     expect(bad).toEqual([]);
     expect(rows).toBe(150_000);

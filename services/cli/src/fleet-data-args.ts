@@ -7,7 +7,12 @@ export const FLEET_DATA_OPTIONS = {
   data: { type: 'string' },
   out: { type: 'string' },
   'max-line-bytes': { type: 'string' },
+  map: { type: 'string' },
 } as const;
+
+/** The usage lines of the options above that every such command shares. */
+export const MAP_USAGE = `  --map     mapping file (JSON): a logger's own column names, units, time form and J1939 parameters
+            (see the README, "Logger data"); a vehicle's data_map in the fleet file wins for its files`;
 
 export const MAX_LINE_USAGE = `  --max-line-bytes N  the longest CSV line read (default ${CSV_LIMITS.max_line_bytes}); a longer one stops with exit 2`;
 

@@ -14,8 +14,9 @@ const REFERENCE_TORQUE = STANDARD_CHANNELS.indexOf('reference_torque_nm');
  * speed every 10–50 ms, temperatures every second): the sample at grid time g (a whole multiple of the
  * interval since the epoch) holds, per signal, the last value received at or before g, unless that value
  * is older than the signal's staleness limit (then it is missing). A value received as "not available"
- * or "error" makes the signal missing from then on. Grid points run from the first frame's time rounded
- * up to the last frame's rounded up; where no signal is fresh (the vehicle was off) none are made.
+ * or "error" makes the signal missing from then on. Grid points are made only while the bus is live — a
+ * frame within one interval before them — from the first frame's time rounded up to the last frame's
+ * rounded up: when the logger falls silent (the vehicle is off) the samples stop, and gaps stay gaps.
  */
 export class Resampler {
   private readonly value: Float64Array;
@@ -23,9 +24,9 @@ export class Resampler {
   private readonly stale: Float64Array;
   private readonly out = new Float64Array(NUMERIC_COLUMNS.length);
   private readonly column: Int8Array;
-  private readonly maxStale: number;
   private next = Number.NaN;
-  private last = Number.NaN;
+  /** µs: the latest frame seen. */
+  private latest = Number.NaN;
   samples = 0;
 
   constructor(
@@ -37,35 +38,38 @@ export class Resampler {
     this.time = new Float64Array(n).fill(Number.NEGATIVE_INFINITY);
     this.stale = Float64Array.from(config.channels, (c) => c.stale_us);
     this.column = Int8Array.from(config.signals, (s) => NUMERIC_COLUMNS.indexOf(s.signal));
-    this.maxStale = Math.max(...config.channels.map((c) => (Number.isFinite(c.stale_us) ? c.stale_us : 0)));
   }
 
-  /** Emits the grid points before `t_us`; call before applying a frame received at t_us. */
+  /** Emits the grid points before `t_us`; call with each frame's time before applying the frame. */
   advance(t_us: number): void {
     const d = this.config.interval_us;
     if (Number.isNaN(this.next)) this.next = Math.ceil(t_us / d) * d;
     while (this.next < t_us) {
-      if (this.next - this.last > this.maxStale) {
-        // Nothing received since is fresh here, nor at any later point before t_us: skip the gap.
+      if (this.next - this.latest > d) {
+        // The bus fell silent before this point: no samples until the frame at t_us.
         this.next = Math.ceil(t_us / d) * d;
         break;
       }
       this.emit(this.next);
       this.next += d;
     }
+    this.latest = t_us;
   }
 
   set(channel: number, t_us: number, v: number): void {
     this.value[channel] = v;
     this.time[channel] = t_us;
-    this.last = t_us;
   }
 
-  /** Emits the grid points up to the last time seen, rounded up to the grid. */
+  /** Emits the grid points up to the last frame's time rounded up to the grid. */
   finish(): void {
-    if (Number.isNaN(this.last)) return;
-    const end = Math.ceil(this.last / this.config.interval_us) * this.config.interval_us;
-    this.advance(end + 1);
+    if (Number.isNaN(this.latest)) return;
+    const d = this.config.interval_us;
+    const end = Math.ceil(this.latest / d) * d;
+    while (this.next <= end) {
+      this.emit(this.next);
+      this.next += d;
+    }
   }
 
   private fresh(c: number, g: number): number {

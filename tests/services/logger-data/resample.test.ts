@@ -22,7 +22,7 @@ describe('samples at a fixed interval by last value held, with a staleness limit
     expect(rows.every((r) => r.fan_pct === 50)).toBe(true);
   });
 
-  it('a signal older than its staleness limit is missing; a gap with nothing fresh makes no samples', () => {
+  it('a signal older than its staleness limit is missing; while the bus is silent no samples are made', () => {
     const frames: TestFrame[] = [
       { t_s: T0 + 0.5, pgn: 65213, data: '7DFFFFFFFFFFFFFF' },
       ...Array.from({ length: 8 }, (_, k) => ({ t_s: T0 + 0.6 + k, pgn: 65265, data: speedHex(50) })),
@@ -42,8 +42,8 @@ describe('samples at a fixed interval by last value held, with a staleness limit
       [7, Number.NaN],
       [8, Number.NaN],
     ]);
-    // speed last at +7.6 → fresh to +12.6; then nothing until +3600.5.
-    expect(rows.map((r) => r.time_ms / 1000 - T0)).toEqual([1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12, 3601]);
+    // the last frame at +7.6: the bus is live up to +8, then silent until +3600.5.
+    expect(rows.map((r) => r.time_ms / 1000 - T0)).toEqual([1, 2, 3, 4, 5, 6, 7, 8, 3601]);
   });
 
   it('the interval and staleness come from the mapping', () => {

@@ -4,12 +4,20 @@ import { InputError } from '@thermargin/shared';
 import { tripsCsv } from '../output/trips-csv.ts';
 import { textSummary } from '../output/text-summary.ts';
 import { analyzeData } from '../import/analyze-data.ts';
-import { FLEET_DATA_OPTIONS, fleetDataProblems, MAX_LINE_USAGE, maxLineBytes } from '../fleet-data-args.ts';
+import {
+  FLEET_DATA_OPTIONS,
+  fleetDataProblems,
+  MAP_USAGE,
+  MAX_LINE_USAGE,
+  maxLineBytes,
+} from '../fleet-data-args.ts';
 import { buildReport } from '../output/report.ts';
 
-export const ANALYZE_USAGE = `thermargin analyze --fleet FLEET.json --data PATH [--out FILE] [--format json|csv|text]
+export const ANALYZE_USAGE = `thermargin analyze --fleet FLEET.json --data PATH [--map MAP.json] [--out FILE] [--format json|csv|text]
   --fleet   fleet file (JSON): the vehicles, their cooling packages and design points
-  --data    a CSV file, or a folder of CSV files, in the import format
+  --data    a data file, or a folder of them: CSV tables (the import format, or a logger's own with
+            --map) and candump -l logs of SAE J1939 frames (found by their content)
+${MAP_USAGE}
   --out     write the result here instead of to standard output
   --format  json (default: the full result), csv (one row per trip) or text (one line per vehicle)
 ${MAX_LINE_USAGE}`;
@@ -28,7 +36,10 @@ export async function analyzeCommand(argv: string[], log: (line: string) => void
   if (!FORMATS.includes(format))
     problems.push({ where: '--format', rule: `must be one of ${FORMATS.join(', ')}` });
   if (problems.length) throw new InputError(problems, `usage:\n${ANALYZE_USAGE}\n`);
-  const data = await analyzeData(values.fleet!, values.data!, log, undefined, maxLine);
+  const data = await analyzeData(values.fleet!, values.data!, log, undefined, {
+    map: values.map,
+    max_line_bytes: maxLine,
+  });
   const report = buildReport(data);
   const text =
     format === 'csv'

@@ -11,12 +11,13 @@ import {
 } from '@thermargin/core/sizing/options';
 import { VehicleSamples } from '@thermargin/core/sizing/vehicle-samples';
 import { sizingHtml } from '../output/sizing-html.ts';
-import { analyzeData } from '../import/analyze-data.ts';
+import { analyzeData, type DataOptions } from '../import/analyze-data.ts';
 import { FLEET_DATA_OPTIONS, fleetDataProblems, MAX_LINE_USAGE, maxLineBytes } from '../fleet-data-args.ts';
 
 export const SIZING_USAGE = `thermargin sizing --fleet FLEET.json (--data PATH | --from-store) [--out RESULT.json] [--html REPORT.html] [options]
   --fleet      fleet file (JSON): the vehicles, their cooling packages and design points
-  --data       a CSV file, or a folder of CSV files, in the import format
+  --data       a data file or a folder of them, as for analyze (CSV tables, candump -l logs)
+  --map        mapping file (JSON) for a logger's own names, units and J1939 parameters, as for analyze
   --from-store instead of --data: the analysed trips and their samples from the stores (reads STORE_*,
                RESULTS_SQLITE_PATH, and FLEET_FILE when --fleet is not given; as the API's /api/sizing)
   --out        write the sizing result (JSON) here instead of to standard output
@@ -74,9 +75,9 @@ export async function sizingCommand(argv: string[], log: (line: string) => void)
   const fromStore = values['from-store'] === true;
   const problems: Problem[] = !fromStore
     ? fleetDataProblems(values)
-    : values.data
-      ? [{ where: '--data', rule: 'not with --from-store' }]
-      : [];
+    : (['data', 'map'] as const)
+        .filter((k) => values[k] !== undefined)
+        .map((k) => ({ where: `--${k}`, rule: 'not with --from-store' }));
   const what_if = (values['what-if'] ?? [])
     .map((t) => parseWhatIf(t, problems))
     .filter((s): s is WhatIfScenario => s !== null);
@@ -99,7 +100,10 @@ export async function sizingCommand(argv: string[], log: (line: string) => void)
   }
   const read = fromStore
     ? await readStore(values.fleet, options, duty)
-    : await readData(values.fleet!, values.data!, options, duty, log, maxLine);
+    : await readData(values.fleet!, values.data!, options, duty, log, {
+        map: values.map,
+        max_line_bytes: maxLine,
+      });
   const result = sizeFleet(read.input, options);
   const json = `${JSON.stringify(result, null, 1)}\n`;
   if (values.out) writeFileSync(values.out, json);
@@ -129,7 +133,7 @@ async function readData(
   options: SizingOptions,
   duty: Partial<Duty> | undefined,
   log: (line: string) => void,
-  max_line_bytes: number,
+  dataOptions: DataOptions,
 ): Promise<SizingRead> {
   const samples = new Map<string, VehicleSamples>();
   const data = await analyzeData(
@@ -146,7 +150,7 @@ async function readData(
       samples.set(v.id, acc);
       return (cleaned, spans, trips) => acc.add(cleaned, spans, trips);
     },
-    max_line_bytes,
+    dataOptions,
   );
   const trips = new Map(data.vehicles.map((v) => [v.id, data.streams.get(v.id)!.trips]));
   return {

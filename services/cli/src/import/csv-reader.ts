@@ -1,74 +1,42 @@
 import { closeSync, openSync, readSync } from 'node:fs';
-import { InputError, isValidId, NUMERIC_COLUMNS, type Problem, SIGNALS } from '@thermargin/shared';
+import { type DataMap, InputError, isValidId, NUMERIC_COLUMNS } from '@thermargin/shared';
+import { detectDialect } from '@thermargin/logger-data/table/dialect';
+import { type TableLayout, tableLayout } from '@thermargin/logger-data/table/layout';
+import { mapValue } from '@thermargin/logger-data/units';
 import { readDecimal } from './decimal.ts';
 import { fastTime_ms } from './iso-time.ts';
 
 /** Receives what a CSV file holds: good rows as values in NUMERIC_COLUMNS order, bad rows with a reason. */
 export interface CsvSink {
-  sample(vehicle: string, values: Float64Array, trip: string | undefined): void;
+  sample(vehicle: string, values: Float64Array, trip: string | undefined, line: number): void;
   bad(where: string, reason: string): void;
 }
 
-const REQUIRED_COLUMNS = [
-  'time',
-  'vehicle',
-  ...Object.entries(SIGNALS)
-    .filter(([, s]) => s.required)
-    .map(([k]) => k),
-];
-
-/** Every column the reader takes a value from: each may appear once in a header. */
-const USED_COLUMNS = ['vehicle', 'trip', ...NUMERIC_COLUMNS.map((c) => (c === 'time_ms' ? 'time' : c))];
-
-interface Layout {
-  vehicle: number;
-  trip: number;
-  /** Column index per NUMERIC_COLUMNS entry (time first), −1 when absent. */
-  numeric: number[];
-  width: number;
+/** How to read a file that is not in the import format: its mapping, and the vehicle its path names. */
+export interface CsvOptions {
+  map?: DataMap | undefined;
+  vehicle_id?: string | null;
+  /** bytes: the longest line read (default CSV_LIMITS.max_line_bytes). */
+  max_line_bytes?: number | undefined;
 }
 
-/** A column the reader takes a value from, named twice: which, and both positions (1-based). */
-function repeatedColumns(file: string, names: readonly string[]): Problem[] {
-  const out: Problem[] = [];
-  for (const c of USED_COLUMNS) {
-    const first = names.indexOf(c);
-    const second = first < 0 ? -1 : names.indexOf(c, first + 1);
-    if (second >= 0)
-      out.push({
-        where: `${file}:1`,
-        rule: `column ${c} appears twice (columns ${first + 1} and ${second + 1}): keep one`,
-      });
-  }
-  return out;
+/** bytes of a file's head read to detect its delimiter and decimal mark. */
+const HEAD_BYTES = 64 * 1024;
+
+function layoutOf(file: string, header: string, head: string, o: CsvOptions): TableLayout {
+  const dialect = detectDialect(header, head.split('\n').slice(1, 50), {
+    ...(o.map?.delimiter ? { delimiter: o.map.delimiter === 'tab' ? '\t' : o.map.delimiter } : {}),
+    ...(o.map?.decimal ? { decimal: o.map.decimal } : {}),
+  });
+  const names = splitCsvLine(header, dialect.delimiter).map((h) =>
+    h.trim().replace(/^(\uFEFF|\u00EF\u00BB\u00BF)/, ''),
+  );
+  return tableLayout(names, dialect, o.map, file, o.vehicle_id ?? null);
 }
 
-function layoutOf(file: string, header: string): Layout {
-  const names = splitCsvLine(header).map((h) => h.trim().replace(/^(\uFEFF|\u00EF\u00BB\u00BF)/, ''));
-  const twice = repeatedColumns(file, names);
-  if (twice.length) throw new InputError(twice, `${file} has a header that names a column twice`);
-  const missing = REQUIRED_COLUMNS.filter((c) => !names.includes(c));
-  if (missing.length)
-    throw new InputError(
-      [
-        {
-          where: `${file}:1`,
-          rule: `missing column(s) ${missing.join(', ')}; header has: ${names.join(', ') || '(nothing)'}`,
-        },
-      ],
-      `${file} has no usable header row`,
-    );
-  return {
-    vehicle: names.indexOf('vehicle'),
-    trip: names.indexOf('trip'),
-    numeric: NUMERIC_COLUMNS.map((c) => names.indexOf(c === 'time_ms' ? 'time' : c)),
-    width: names.length,
-  };
-}
-
-/** Splits one CSV line with double-quoted fields (RFC 4180 quoting). */
-export function splitCsvLine(line: string): string[] {
-  if (!line.includes('"')) return line.split(',');
+/** Splits one delimited line with double-quoted fields (RFC 4180 quoting). */
+export function splitCsvLine(line: string, delimiter = ','): string[] {
+  if (!line.includes('"')) return line.split(delimiter);
   const out: string[] = [];
   let cur = '';
   let quoted = false;
@@ -81,7 +49,7 @@ export function splitCsvLine(line: string): string[] {
       } else if (ch === '"') quoted = false;
       else cur += ch;
     } else if (ch === '"') quoted = true;
-    else if (ch === ',') {
+    else if (ch === delimiter) {
       out.push(cur);
       cur = '';
     } else cur += ch;
@@ -94,12 +62,19 @@ export function splitCsvLine(line: string): string[] {
 const isBlank = (c: number) => c === 32 || (c >= 9 && c <= 13) || c === 160;
 
 /** Field boundaries of the line s[start, end) into `from`/`to` (at most their length); returns the count. */
-function fieldBounds(s: Uint8Array, start: number, end: number, from: Int32Array, to: Int32Array): number {
+function fieldBounds(
+  s: Uint8Array,
+  start: number,
+  end: number,
+  from: Int32Array,
+  to: Int32Array,
+  delimiter: number,
+): number {
   let f = 0;
   let pos = start;
   while (f < from.length) {
     let comma = pos;
-    while (comma < end && s[comma] !== 44) comma++;
+    while (comma < end && s[comma] !== delimiter) comma++;
     from[f] = pos;
     to[f++] = comma;
     if (comma === end) break;
@@ -122,7 +97,7 @@ function fieldText(s: Buffer, a: number, b: number, previous: string): string {
 
 /** Parses the rows of one file from its bytes; positions of fields are kept in reusable arrays. */
 class RowParser {
-  private layout: Layout | null = null;
+  private layout: TableLayout | null = null;
   private from = new Int32Array(0);
   private to = new Int32Array(0);
   private values = new Float64Array(NUMERIC_COLUMNS.length);
@@ -137,30 +112,34 @@ class RowParser {
   constructor(
     private readonly file: string,
     private readonly sink: CsvSink,
+    private readonly options: CsvOptions,
+    private readonly head: string,
   ) {}
 
   /** One line: s[start, end); `quoted` when it holds a double quote. */
   take(s: Buffer, start: number, end: number, quoted: boolean): void {
     this.line++;
     if (this.line === 1) {
-      this.layout = layoutOf(this.file, s.toString('latin1', start, end));
+      this.layout = layoutOf(this.file, s.toString('latin1', start, end), this.head, this.options);
       this.from = new Int32Array(this.layout.width);
       this.to = new Int32Array(this.layout.width);
+      if (this.layout.vehicle_id) this.vehicle = this.layout.vehicle_id;
       return;
     }
     if (end === start || (s[start]! <= 32 && isBlankLine(s, start, end))) return;
     if (quoted) {
       // Rare: rebuild the line unquoted, then read it like any other.
-      const fields = splitCsvLine(s.toString('latin1', start, end));
-      if (fields.some((f) => f.includes(','))) {
+      const d = String.fromCharCode(this.layout!.delimiter);
+      const fields = splitCsvLine(s.toString('latin1', start, end), d);
+      if (fields.some((f) => f.includes(d))) {
         this.sink.bad(`${this.file}:${this.line}`, 'csv_comma_in_field');
         return;
       }
-      const flat = Buffer.from(fields.join(','), 'latin1');
-      this.row(flat, fieldBounds(flat, 0, flat.length, this.from, this.to));
+      const flat = Buffer.from(fields.join(d), 'latin1');
+      this.row(flat, fieldBounds(flat, 0, flat.length, this.from, this.to, this.layout!.delimiter));
       return;
     }
-    this.row(s, fieldBounds(s, start, end, this.from, this.to));
+    this.row(s, fieldBounds(s, start, end, this.from, this.to, this.layout!.delimiter));
   }
 
   private row(s: Buffer, fields: number): void {
@@ -170,18 +149,20 @@ class RowParser {
       this.bad('csv_short_row');
       return;
     }
-    const vehicle = fieldText(s, from[l.vehicle]!, to[l.vehicle]!, this.vehicle);
-    if (vehicle !== this.vehicle && !isValidId(vehicle)) {
-      this.bad('csv_bad_vehicle');
-      return;
+    if (l.vehicle >= 0) {
+      const vehicle = fieldText(s, from[l.vehicle]!, to[l.vehicle]!, this.vehicle);
+      if (vehicle !== this.vehicle && !isValidId(vehicle)) {
+        this.bad('csv_bad_vehicle');
+        return;
+      }
+      this.vehicle = vehicle;
     }
-    this.vehicle = vehicle;
     const tc = l.numeric[0]!;
     let a = from[tc]!;
     let b = to[tc]!;
     while (a < b && isBlank(s[a]!)) a++;
     while (b > a && isBlank(s[b - 1]!)) b--;
-    const time = fastTime_ms(s, a, b);
+    const time = l.readTime ? l.readTime(s, a, b) : fastTime_ms(s, a, b);
     if (!Number.isFinite(time)) {
       this.bad('csv_bad_time');
       return;
@@ -189,12 +170,15 @@ class RowParser {
     values[0] = time;
     for (let k = 1; k < l.numeric.length; k++) {
       const col = l.numeric[k]!;
-      const x = col < 0 ? undefined : readDecimal(s, from[col]!, to[col]!);
+      const x = col < 0 ? undefined : readDecimal(s, from[col]!, to[col]!, l.decimal);
       if (x === undefined) values[k] = Number.NaN;
       else if (Number.isNaN(x)) {
         this.bad(`csv_not_a_number:${NUMERIC_COLUMNS[k]}`);
         return;
-      } else values[k] = x;
+      } else {
+        const m = l.maps[k - 1];
+        values[k] = m ? mapValue(m, x) : x;
+      }
     }
     let trip: string | undefined;
     if (l.trip >= 0) {
@@ -210,7 +194,7 @@ class RowParser {
       trip = this.trip || undefined;
     }
     this.rows++;
-    this.sink.sample(this.vehicle, values, trip);
+    this.sink.sample(this.vehicle, values, trip, this.line);
   }
 
   private bad(reason: string): void {
@@ -250,7 +234,8 @@ function tooLong(file: string, line: number, max: number): InputError {
 
 /**
  * Reads one CSV file of the import format (header naming the contract's columns in any order,
- * unknown columns ignored, empty cell = missing) into `sink`, chunk by chunk, parsing the bytes in
+ * unknown columns ignored, empty cell = missing), or a logger's own table read through a mapping
+ * (its columns, units and time form; delimiter and decimal mark detected), into `sink`, chunk by chunk, parsing the bytes in
  * place (no string per line or field; only a changed id becomes a string). Read as Latin-1: every
  * valid field is ASCII, and a stray byte makes an invalid id or number that is rejected, never a crash.
  * Throws InputError when the file itself is unusable (empty, no header, required columns missing, a
@@ -260,9 +245,9 @@ export function readCsvFile(
   file: string,
   sink: CsvSink,
   onBytes?: (n: number) => void,
-  max_line_bytes = CSV_LIMITS.max_line_bytes,
+  options: CsvOptions = {},
 ): number {
-  const p = new RowParser(file, sink);
+  const max_line_bytes = options.max_line_bytes ?? CSV_LIMITS.max_line_bytes;
   let buf = Buffer.allocUnsafe(READ_BYTES);
   let fd: number;
   try {
@@ -270,6 +255,8 @@ export function readCsvFile(
   } catch {
     throw new InputError([{ where: file, rule: 'cannot open the file' }]);
   }
+  const head = buf.toString('latin1', 0, readSync(fd, buf, 0, HEAD_BYTES, 0));
+  const p = new RowParser(file, sink, options, head);
   /** Bytes of an unfinished last line, carried at the front of `buf`. */
   let kept = 0;
   try {

@@ -24,6 +24,8 @@ export class VehicleStream {
   private previousEnd_ms: number | null = null;
   private nextFlushAt = FLUSH_SAMPLES;
   readonly trips: TripResult[] = [];
+  /** Samples pushed, refused or not. */
+  received = 0;
   readonly rejected: Record<string, number> = {};
   readonly dropped: Record<string, number> = {};
 
@@ -39,6 +41,7 @@ export class VehicleStream {
   ) {}
 
   push(values: Float64Array, trip: string | undefined): void {
+    this.received++;
     const t = values[0]!;
     if (t <= this.closedUpTo_ms) {
       this.rejected.late_after_trip_closed = (this.rejected.late_after_trip_closed ?? 0) + 1;

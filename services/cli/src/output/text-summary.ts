@@ -30,6 +30,10 @@ export function textSummary(report: AnalysisReport): string {
   const lines: string[] = [];
   let recommends = false;
   for (const v of report.vehicles) {
+    if (v.unassessed !== undefined) {
+      lines.push(`${v.id.padEnd(14)} ${'unassessed'.padEnd(8)} ${v.unassessed}`);
+      continue;
+    }
     const status = v.status ?? '—';
     if (status === 'inspect' || status === 'watch') recommends = true;
     lines.push(

@@ -1,5 +1,4 @@
 import { LINE_BAD, LINE_FRAME, LINE_NO_DATA, newParsedFrame, parseCandumpLine } from '../candump.ts';
-import type { FrameVisitor } from '@thermargin/shared';
 import { forEachLine } from './lines.ts';
 
 /** What a candump log held besides frames, counted. */
@@ -14,13 +13,23 @@ export interface CandumpFileCounts {
   clock_back: number;
 }
 
+/** Receives each frame of a log: time (epoch µs), identifier, data in bytes[at, at + length), its line. */
+export type CandumpVisitor = (
+  time_us: number,
+  id: number,
+  length: number,
+  bytes: Uint8Array,
+  at: number,
+  line: number,
+) => void;
+
 /**
  * Reads a `candump -l` log, handing each frame in time order to `visit`; each line that cannot be used
  * goes to `bad` with its file:line and the rule (`candump_syntax`, `clock_back`), then is counted.
  */
 export function readCandumpFile(
   file: string,
-  visit: FrameVisitor,
+  visit: CandumpVisitor,
   bad: (where: string, reason: string, detail: string) => void,
   onBytes?: (n: number) => void,
 ): CandumpFileCounts {
@@ -43,7 +52,7 @@ export function readCandumpFile(
         }
         latest = f.time_us;
         c.frames++;
-        visit(f.time_us, f.id, f.length, f.data, 0);
+        visit(f.time_us, f.id, f.length, f.data, 0, line);
       } else if (kind === LINE_BAD) {
         c.bad_lines++;
         bad(`${file}:${line}`, 'candump_syntax', f.why);

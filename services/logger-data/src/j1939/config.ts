@@ -26,10 +26,22 @@ export interface CompiledParameter {
   length: number;
   order: ByteOrder;
   signed: boolean;
-  scale: number;
+  /** The scale as a fraction: raw × num ÷ den is then correctly rounded (0.4 as 2/5 gives 80 for 200, not
+   *  80.00000000000001), so a value reads the same as the decimal a logger would have printed. */
+  num: number;
+  den: number;
   offset: number;
   to: Conversion;
   j1939: boolean;
+}
+
+/** A decimal scale as num/den with den a power of ten up to 10⁹ (0.4 → 4/10); others as scale/1. */
+export function decimalFraction(scale: number): { num: number; den: number } {
+  for (let den = 1; den <= 1e9; den *= 10) {
+    const num = Math.round(scale * den);
+    if (Math.abs(num - scale * den) <= 1e-9 * Math.abs(num)) return { num, den };
+  }
+  return { num: scale, den: 1 };
 }
 
 /** The parameters of one PGN and the data length its frames must have. */
@@ -122,7 +134,7 @@ export function compileFrames(
       length: s.length,
       order,
       signed: s.signed ?? false,
-      scale: s.scale,
+      ...decimalFraction(s.scale),
       offset: s.offset ?? 0,
       to: UNIT_CONVERSIONS[s.unit as keyof typeof UNIT_CONVERSIONS],
       j1939: (s.not_available ?? 'j1939') === 'j1939',
@@ -144,7 +156,7 @@ export function compileFrames(
         length: p.bytes * 8,
         order: 'intel',
         signed: false,
-        scale: p.resolution,
+        ...decimalFraction(p.resolution),
         offset: p.offset,
         to: IDENTITY,
         j1939: true,
