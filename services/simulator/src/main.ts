@@ -1,14 +1,15 @@
 /**
- * Writes the demo fleet's history as import CSV + fleet.json:
- *   node --import tsx services/simulator/src/main.ts --out DIR [--seed N] [--vehicles N] [--days N] [--end ISO|now] [--faults demo|none]
+ * Writes the demo fleet's history as import CSV (or its loggers' candump -l logs of J1939 frames) + fleet.json:
+ *   node --import tsx services/simulator/src/main.ts --out DIR [--seed N] [--vehicles N] [--days N] [--end ISO|now] [--faults demo|none] [--format csv|candump]
  * Prints what it wrote and the generation speed.
  */
 import { parseArgs } from 'node:util';
+import { writeCandump } from './candump.ts';
 import { writeCsv } from './csv.ts';
 import { createScenario, SCENARIO_DEFAULTS, type ScenarioOptions } from './scenario.ts';
 
 const USAGE =
-  'usage: main.ts --out DIR [--seed N] [--vehicles N] [--days N] [--end YYYY-MM-DD[THH:MM:SSZ]|now] [--faults demo|none]';
+  'usage: main.ts --out DIR [--seed N] [--vehicles N] [--days N] [--end YYYY-MM-DD[THH:MM:SSZ]|now] [--faults demo|none] [--format csv|candump]';
 
 function integer(name: string, text: string | undefined, fallback: number): number {
   if (text === undefined) return fallback;
@@ -39,11 +40,14 @@ export function main(argv: string[]): void {
       days: { type: 'string' },
       end: { type: 'string' },
       faults: { type: 'string' },
+      format: { type: 'string' },
     },
   });
   if (!values.out) throw new Error(`--out is required\n${USAGE}`);
   if (values.faults !== undefined && values.faults !== 'demo' && values.faults !== 'none')
     throw new Error(`--faults must be demo or none, got ${JSON.stringify(values.faults)}`);
+  if (values.format !== undefined && values.format !== 'csv' && values.format !== 'candump')
+    throw new Error(`--format must be csv or candump, got ${JSON.stringify(values.format)}`);
   const options: Partial<ScenarioOptions> = {
     seed: integer('seed', values.seed, SCENARIO_DEFAULTS.seed),
     vehicles: integer('vehicles', values.vehicles, SCENARIO_DEFAULTS.vehicles),
@@ -53,7 +57,7 @@ export function main(argv: string[]): void {
   };
   const t0 = performance.now();
   const scenario = createScenario(options);
-  const r = writeCsv(values.out, scenario);
+  const r = (values.format === 'candump' ? writeCandump : writeCsv)(values.out, scenario);
   const s = (performance.now() - t0) / 1000;
   console.log(
     `wrote ${r.samples} samples for ${scenario.fleet.vehicles.length} vehicles to ${values.out} in ${s.toFixed(1)} s (${Math.round(r.samples / s)} samples/s)`,

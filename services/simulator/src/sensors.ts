@@ -25,6 +25,13 @@ export const SENSOR_NOISE = Object.freeze({
 const round = (x: number, f: number) => Math.round(x * f) / f + 0;
 
 /**
+ * Steps per unit of the demo's sensors: the SAE J1939-71 resolutions its loggers send (temperatures
+ * 0.03125 °C as SPN 1637 and 171, speed 1/256 km/h as SPN 84, fan 0.4 % as SPN 975) and 0.1 for power and
+ * flow, so its CSV and its J1939 frames carry the very same values.
+ */
+export const SENSOR_STEPS = Object.freeze({ temperature: 32, speed: 256, fan: 2.5, power: 10, flow: 10 });
+
+/**
  * Turns the truth into telemetry for one vehicle: noise, then sensor faults (bias, stuck at the last
  * good value, spikes). Holds the stuck values across trips, so keep one per vehicle stream.
  */
@@ -56,7 +63,8 @@ export class SensorSuite {
   }
 
   private temp(signal: SensorSignal, truth: number, t_ms: number, rng: Rng): number {
-    return round(this.apply(signal, truth + SENSOR_NOISE.temperature_k * rng.normal(), t_ms, rng), 100);
+    const v = this.apply(signal, truth + SENSOR_NOISE.temperature_k * rng.normal(), t_ms, rng);
+    return round(v, SENSOR_STEPS.temperature);
   }
 
   /** The telemetry sample for truth index i. */
@@ -67,17 +75,23 @@ export class SensorSuite {
       time_ms: t,
       vehicle: this.vehicle,
       trip,
-      speed_kmh: speed > 0.05 ? round(Math.max(0, speed + SENSOR_NOISE.speed_kmh * rng.normal()), 100) : 0,
-      power_kw: round(tr.power_kw[i]! * (1 + SENSOR_NOISE.power_rel * rng.normal()), 10),
+      speed_kmh:
+        speed > 0.05
+          ? round(Math.max(0, speed + SENSOR_NOISE.speed_kmh * rng.normal()), SENSOR_STEPS.speed)
+          : 0,
+      power_kw: round(tr.power_kw[i]! * (1 + SENSOR_NOISE.power_rel * rng.normal()), SENSOR_STEPS.power),
       coolant_in_c: this.temp('coolant_in_c', tr.coolant_c[i]!, t, rng),
       ambient_c: this.temp('ambient_c', tr.ambient_c[i]!, t, rng),
-      fan_pct: round(tr.fan_pct[i]!, 10),
+      fan_pct: round(tr.fan_pct[i]!, SENSOR_STEPS.fan),
       derate: tr.derate[i]!,
     };
     if (this.fit.outlet) s.coolant_out_c = this.temp('coolant_out_c', tr.out_c[i]!, t, rng);
     if (this.fit.flow) {
       const flow = tr.flow_lpm[i]! * (1 + SENSOR_NOISE.flow_rel * rng.normal());
-      s.coolant_flow_lpm = round(Math.max(0, this.apply('coolant_flow_lpm', flow, t, rng)), 10);
+      s.coolant_flow_lpm = round(
+        Math.max(0, this.apply('coolant_flow_lpm', flow, t, rng)),
+        SENSOR_STEPS.flow,
+      );
     }
     return s;
   }
