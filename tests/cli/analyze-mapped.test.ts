@@ -129,6 +129,26 @@ describe('thermargin analyze with a mapping: a logger export as it comes', () =>
     expectSameResult(reference, r.report!, 1e-9);
   });
 
+  it('draft-map proposes a mapping that, once its zone is set, reads the export to the same result', () => {
+    const d = runCli(['draft-map', '--data', join(dir, 'export.csv')]);
+    expect(d.code).toBe(0);
+    expect(d.stderr).toContain('check: Zeitstempel: local times without a zone');
+    const draft = JSON.parse(d.stdout);
+    // What the notes ask to check, settled from the logger's documentation.
+    expect(d.stderr).toMatch(/check: EngCoolTemp: its name gives no unit; values [\d.]+–[\d.]+ read as °C/);
+    expect(d.stderr).toMatch(
+      /check: Durchfluss: its name gives no unit; values [\d.]+–[\d.]+ read as L\/min/,
+    );
+    draft.time.zone = 'Europe/Vienna';
+    draft.fields.EngCoolTemp.unit = '°F';
+    draft.fields.KuehlerAus.unit = '°F';
+    draft.fields.Durchfluss.unit = 'US gal/min';
+    writeFileSync(join(dir, 'draft.json'), JSON.stringify(draft));
+    const r = analyze(dir, 'export.csv', '--map', join(dir, 'draft.json'));
+    expect(r.code).toBe(0);
+    expectSameResult(reference, r.report!, 1e-9);
+  });
+
   it('without the mapping says which columns are missing and points at --map', () => {
     const r = analyze(dir, 'export.csv');
     expect(r.code).toBe(2);

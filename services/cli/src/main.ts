@@ -15,6 +15,10 @@ const COMMANDS: Record<string, () => Promise<Command>> = {
     const m = await import('./commands/sizing.ts');
     return { usage: m.SIZING_USAGE, run: m.sizingCommand };
   },
+  'draft-map': async () => {
+    const m = await import('./commands/draft-map.ts');
+    return { usage: m.DRAFT_MAP_USAGE, run: m.draftMapCommand };
+  },
   reanalyze: async () => {
     const m = await import('./commands/reanalyze.ts');
     return { usage: m.REANALYZE_USAGE, run: m.reanalyzeCommand };

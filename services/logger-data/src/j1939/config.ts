@@ -84,6 +84,15 @@ const STANDARD_FEEDS: Partial<Record<SignalName, readonly StandardChannel[]>> = 
   power_kw: ['engine_rpm', 'torque_pct', 'reference_torque_nm'],
 };
 
+/** The standard PGNs and the signal each feeds (for a mapping's draft). */
+export function standardPgns(): Map<number, { signal: SignalName; name: string }> {
+  const out = new Map<number, { signal: SignalName; name: string }>();
+  for (const [signal, feeds] of Object.entries(STANDARD_FEEDS) as [SignalName, StandardChannel[]][])
+    for (const p of STANDARD_PARAMETERS)
+      if (feeds.includes(p.channel)) out.set(p.pgn, { signal, name: p.name });
+  return out;
+}
+
 /**
  * The decoder's tables for a mapping's `frames` section (or none: the standard parameters only), with
  * the fleet file's reference torque. Problems name the mapping field (`frames.signals[2].start_bit`).
