@@ -8,29 +8,37 @@ const REQUIRED = NUMERIC_COLUMNS.map((c, k) => ({ name: c as SignalName, k })).f
   (c) => c.k > 0 && SIGNALS[c.name]?.required,
 );
 
-/** Out-of-range values of one signal: how many, and their span. */
-interface Span {
+/** Refused values of one kind: how many, and their span. */
+export interface Span {
   n: number;
   min: number;
   max: number;
 }
+/** Per vehicle, per reason. */
+export type VehicleSpans = Map<string, Map<string, Span>>;
+
+/** What one file gave to say, in order: its first bad rows, how many there were, and notes after it. */
+export interface FileNotes {
+  lines: string[];
+  bad: number;
+  notes: string[];
+}
 
 /**
  * Says which rows will be refused and why, where the reader still knows their file and line: the first
- * BAD_ROWS_SHOWN as `file:line: rule`, and per file and per vehicle what the refused values look like.
- * It only reports: cleaning refuses the rows (the same SIGNALS ranges) and counts them by the same reasons.
+ * BAD_ROWS_SHOWN of each file as `file:line: rule`, and per file and per vehicle what refused values look
+ * like. It only reports: cleaning refuses the rows (the same SIGNALS ranges) and counts them by the same
+ * reasons. One record per file, so files read on several threads are told in file order (NoteMerger).
  */
 export class RowAudit {
-  private shown = 0;
+  readonly vehicleSpans: VehicleSpans = new Map();
+  private file: FileNotes = { lines: [], bad: 0, notes: [] };
   private readonly fileSpans = new Map<string, Span>();
-  private readonly vehicleSpans = new Map<string, Map<string, Span>>();
   private fileRows = 0;
-
-  constructor(private readonly log: (line: string) => void) {}
 
   /** A row the reader itself refused (syntax, bad number, bad time). */
   bad(where: string, reason: string): void {
-    if (this.shown++ < BAD_ROWS_SHOWN) this.log(`${where}: row skipped: ${reason}`);
+    if (this.file.bad++ < BAD_ROWS_SHOWN) this.file.lines.push(`${where}: row skipped: ${reason}`);
   }
 
   /**
@@ -44,10 +52,12 @@ export class RowAudit {
       const spec = SIGNALS[name];
       if (v >= spec.min && v <= spec.max) continue;
       const reason = Number.isNaN(v) ? `${name}_missing` : `${name}_out_of_range`;
-      if (this.shown++ < BAD_ROWS_SHOWN)
-        this.log(
-          `${from_frames ? `${file}: sample at ${new Date(at).toISOString()}` : `${file}:${at}`}: row refused: ${reason}${Number.isNaN(v) ? '' : ` (${v} outside ${spec.min}…${spec.max})`}`,
+      if (this.file.bad++ < BAD_ROWS_SHOWN) {
+        const where = from_frames ? `${file}: sample at ${new Date(at).toISOString()}` : `${file}:${at}`;
+        this.file.lines.push(
+          `${where}: row refused: ${reason}${Number.isNaN(v) ? '' : ` (${v} outside ${spec.min}…${spec.max})`}`,
         );
+      }
       note(this.fileSpans, reason, v);
       let spans = this.vehicleSpans.get(vehicle);
       if (!spans) this.vehicleSpans.set(vehicle, (spans = new Map()));
@@ -56,27 +66,38 @@ export class RowAudit {
     }
   }
 
-  /** At the end of a file: when most of its rows fail one rule, what their values look like. */
-  endFile(file: string): void {
-    for (const [reason, s] of this.fileSpans)
-      if (s.n > this.fileRows / 2)
-        this.log(`${file}: ${s.n} of ${this.fileRows} rows refused: ${hint(reason, s)}`);
-    this.fileSpans.clear();
-    this.fileRows = 0;
+  /** A line to tell after the file's bad rows (e.g. what its frames held). */
+  note(line: string): void {
+    this.file.notes.push(line);
   }
 
-  /** After the last file: how many rows were shown and how many more were only counted. */
+  /** At the end of a file: when most of its rows fail one rule, what their values look like; its record. */
+  endFile(file: string): FileNotes {
+    for (const [reason, s] of this.fileSpans)
+      if (s.n > this.fileRows / 2)
+        this.file.notes.push(`${file}: ${s.n} of ${this.fileRows} rows refused: ${hint(reason, s)}`);
+    const done = this.file;
+    this.file = { lines: [], bad: 0, notes: [] };
+    this.fileSpans.clear();
+    this.fileRows = 0;
+    return done;
+  }
+}
+
+/** Tells the files' records in file order, the first BAD_ROWS_SHOWN bad rows of all of them and the count of the rest. */
+export class NoteMerger {
+  private shown = 0;
+  constructor(private readonly log: (line: string) => void) {}
+
+  add(r: FileNotes): void {
+    for (const line of r.lines) if (this.shown++ < BAD_ROWS_SHOWN) this.log(line);
+    this.shown += r.bad - r.lines.length;
+    for (const line of r.notes) this.log(line);
+  }
+
   end(): void {
     if (this.shown > BAD_ROWS_SHOWN)
       this.log(`… ${this.shown - BAD_ROWS_SHOWN} more bad rows skipped (counted in rejected.by_reason)`);
-  }
-
-  /** Why a vehicle's rows were refused, worst first, for a vehicle left without trips. */
-  vehicleReasons(vehicle: string): string[] {
-    const spans = [...(this.vehicleSpans.get(vehicle) ?? [])].sort((a, b) => b[1].n - a[1].n);
-    return spans.map(
-      ([reason, s]) => `${s.n} ${reason}${reason.endsWith('_out_of_range') ? ` (${hint(reason, s)})` : ''}`,
-    );
   }
 }
 
@@ -88,6 +109,32 @@ function note(spans: Map<string, Span>, reason: string, v: number): void {
     if (v < s.min) s.min = v;
     if (v > s.max) s.max = v;
   }
+}
+
+/** Adds `from` into `into` (spans of files read on another thread). */
+export function mergeSpans(into: VehicleSpans, from: VehicleSpans): void {
+  for (const [vehicle, spans] of from) {
+    let mine = into.get(vehicle);
+    if (!mine) into.set(vehicle, (mine = new Map()));
+    for (const [reason, s] of spans) {
+      const m = mine.get(reason);
+      if (!m) mine.set(reason, { ...s });
+      else {
+        m.n += s.n;
+        m.min = Math.min(m.min, s.min);
+        m.max = Math.max(m.max, s.max);
+      }
+    }
+  }
+}
+
+/** Why a vehicle's rows were refused, worst first, for a vehicle left without trips. */
+export function vehicleReasons(spans: VehicleSpans, vehicle: string): string[] {
+  return [...(spans.get(vehicle) ?? [])]
+    .sort((a, b) => b[1].n - a[1].n)
+    .map(
+      ([reason, s]) => `${s.n} ${reason}${reason.endsWith('_out_of_range') ? ` (${hint(reason, s)})` : ''}`,
+    );
 }
 
 function hint(reason: string, s: Span): string {
