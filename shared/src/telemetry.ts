@@ -107,5 +107,8 @@ export const REJECT_REASONS = [
   'vehicle_mismatch', // the sample's vehicle differs from the topic's
   'topic', // not a sample topic
   'oversize', // payload over the byte limit, or too many samples in one message
+  'frame_layout', // a frames payload that cannot be read (from where it breaks on: truncated, garbled)
+  'dlc_mismatch', // CAN frames whose data length does not fit their PGN
+  'clock_back', // CAN frames earlier than the frame before them
 ] as const;
 export type RejectReason = (typeof REJECT_REASONS)[number];

@@ -2,20 +2,27 @@ import { isValidId } from './ids.ts';
 import type { WireSample } from './telemetry.ts';
 
 /**
- * The MQTT topic scheme. One topic per vehicle, the vehicle id as its own level, a version level so a
+ * The MQTT topic scheme. Two topics per vehicle, the vehicle id as its own level, a version level so a
  * later payload format can live beside this one:
  *
  *   thermargin/v1/vehicles/{vehicle}/samples
+ *   thermargin/v1/vehicles/{vehicle}/frames
  *
- * Payload: UTF-8 JSON, either one wire sample (an object, see `wireSampleSchema`) or a batch (an array
- * of them, at most `MAX_SAMPLES_PER_MESSAGE`). Every sample's `vehicle` must equal the topic's.
- * Published at QoS 1. Vehicle ids are topic-safe by construction (see ids.ts).
+ * Samples payload: UTF-8 JSON, either one wire sample (an object, see `wireSampleSchema`) or a batch (an
+ * array of them, at most `MAX_SAMPLES_PER_MESSAGE`). Every sample's `vehicle` must equal the topic's.
+ * Frames payload: timestamped CAN frames in the binary layout of frame-batch.ts, decoded by the
+ * ingester with the vehicle's mapping. Published at QoS 1. Vehicle ids are topic-safe (see ids.ts).
  */
 export const TOPIC_PREFIX = 'thermargin/v1/vehicles';
 const TOPIC_SUFFIX = 'samples';
+const FRAMES_SUFFIX = 'frames';
 
 /** Filter matching every vehicle's sample topic. */
 export const SAMPLE_TOPIC_FILTER = `${TOPIC_PREFIX}/+/${TOPIC_SUFFIX}`;
+/** Filter matching every vehicle's frames topic. */
+export const FRAME_TOPIC_FILTER = `${TOPIC_PREFIX}/+/${FRAMES_SUFFIX}`;
+/** What the ingester subscribes to. */
+export const INGEST_TOPIC_FILTERS = [SAMPLE_TOPIC_FILTER, FRAME_TOPIC_FILTER] as const;
 
 /** Default MQTT 5 shared-subscription group the ingester replicas join. */
 export const DEFAULT_SHARE_GROUP = 'ingesters';
@@ -32,21 +39,40 @@ export function sampleTopic(vehicle: string): string {
   return `${TOPIC_PREFIX}/${vehicle}/${TOPIC_SUFFIX}`;
 }
 
-/** The vehicle id of a sample topic, or undefined when the topic is not one (or its id is not valid). */
-export function parseSampleTopic(topic: string): string | undefined {
-  const head = `${TOPIC_PREFIX}/`;
-  const tail = `/${TOPIC_SUFFIX}`;
-  if (!topic.startsWith(head) || !topic.endsWith(tail)) return undefined;
-  const vehicle = topic.slice(head.length, topic.length - tail.length);
-  return isValidId(vehicle) ? vehicle : undefined;
+export function frameTopic(vehicle: string): string {
+  if (!isValidId(vehicle))
+    throw new Error(`frameTopic: ${JSON.stringify(vehicle)} is not a valid vehicle id`);
+  return `${TOPIC_PREFIX}/${vehicle}/${FRAMES_SUFFIX}`;
 }
 
-/** `$share/{group}/thermargin/v1/vehicles/+/samples`: replicas in one group split the stream (MQTT 5). */
-export function sharedSampleFilter(group: string = DEFAULT_SHARE_GROUP): string {
+/** The vehicle and kind of a vehicle's topic, or undefined when the topic is neither (or its id is not valid). */
+export function parseVehicleTopic(
+  topic: string,
+): { vehicle: string; kind: 'samples' | 'frames' } | undefined {
+  const head = `${TOPIC_PREFIX}/`;
+  if (!topic.startsWith(head)) return undefined;
+  const slash = topic.lastIndexOf('/');
+  const kind = topic.slice(slash + 1);
+  if (kind !== TOPIC_SUFFIX && kind !== FRAMES_SUFFIX) return undefined;
+  const vehicle = topic.slice(head.length, slash);
+  return isValidId(vehicle) ? { vehicle, kind } : undefined;
+}
+
+/** The vehicle id of a sample topic, or undefined when the topic is not one (or its id is not valid). */
+export function parseSampleTopic(topic: string): string | undefined {
+  const t = parseVehicleTopic(topic);
+  return t?.kind === 'samples' ? t.vehicle : undefined;
+}
+
+/** `$share/{group}/{filter}`: replicas in one group split the stream (MQTT 5); the sample topics by default. */
+export function sharedSampleFilter(
+  group: string = DEFAULT_SHARE_GROUP,
+  filter: string = SAMPLE_TOPIC_FILTER,
+): string {
   if (!isValidId(group) || group.includes(':')) {
     throw new Error(`sharedSampleFilter: ${JSON.stringify(group)} is not a valid share group name`);
   }
-  return `$share/${group}/${SAMPLE_TOPIC_FILTER}`;
+  return `$share/${group}/${filter}`;
 }
 
 /** The payload for one sample or a batch: what publishers send on `sampleTopic(vehicle)`. */

@@ -39,8 +39,11 @@ const REFUSAL_WORD: Record<RejectReason, string> = {
   time_future: 'time ahead',
   unknown_vehicle: 'unknown vehicle',
   vehicle_mismatch: 'vehicle ≠ topic',
-  topic: 'not a sample topic',
+  topic: 'not a vehicle topic',
   oversize: 'too large',
+  frame_layout: 'frames unreadable',
+  dlc_mismatch: 'frame length wrong',
+  clock_back: 'clock went back',
 };
 export const refusalWord = (code: string): string =>
   REFUSAL_WORD[code as RejectReason] ?? code.replaceAll('_', ' ');

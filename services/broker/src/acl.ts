@@ -1,9 +1,10 @@
-import { SAMPLE_TOPIC_FILTER, isValidId, sampleTopic } from '@thermargin/shared';
+import { INGEST_TOPIC_FILTERS, frameTopic, isValidId, sampleTopic } from '@thermargin/shared';
 
 /**
  * Who may do what on the broker, one rule set for both brokers (Mosquitto's ACL file is rendered from
- * it, the embedded broker calls it): a vehicle (username = its id) may only publish its own sample
- * topic and subscribe to nothing; an ingester may only subscribe (plain or shared) and publish nothing.
+ * it, the embedded broker calls it): a vehicle (username = its id) may only publish its own sample and
+ * frames topics and subscribe to nothing; an ingester may only subscribe to them (plain or shared) and
+ * publish nothing.
  */
 export type BrokerRole = 'vehicle' | 'ingester';
 
@@ -14,7 +15,8 @@ export interface BrokerUser {
 }
 
 export function canPublish(user: Pick<BrokerUser, 'username' | 'role'>, topic: string): boolean {
-  return user.role === 'vehicle' && isValidId(user.username) && topic === sampleTopic(user.username);
+  if (user.role !== 'vehicle' || !isValidId(user.username)) return false;
+  return topic === sampleTopic(user.username) || topic === frameTopic(user.username);
 }
 
 /**
@@ -36,7 +38,7 @@ export function boundClientId(
 export function canSubscribe(user: Pick<BrokerUser, 'role'>, filter: string): boolean {
   if (user.role !== 'ingester') return false;
   const shared = /^\$share\/[^/+#]+\/(.+)$/.exec(filter);
-  return (shared ? shared[1] : filter) === SAMPLE_TOPIC_FILTER;
+  return (INGEST_TOPIC_FILTERS as readonly string[]).includes(shared ? shared[1]! : filter);
 }
 
 /** The Mosquitto `acl_file` for these users (passwords go to `mosquitto_passwd`, never here). */
@@ -44,9 +46,11 @@ export function renderMosquittoAcl(users: readonly Pick<BrokerUser, 'username' |
   const blocks = users.map((u) => {
     if (!isValidId(u.username))
       throw new Error(`renderMosquittoAcl: ${JSON.stringify(u.username)} is not a valid id`);
-    return u.role === 'ingester'
-      ? `user ${u.username}\ntopic read ${SAMPLE_TOPIC_FILTER}\n`
-      : `user ${u.username}\ntopic write ${sampleTopic(u.username)}\n`;
+    const lines =
+      u.role === 'ingester'
+        ? INGEST_TOPIC_FILTERS.map((f) => `topic read ${f}`)
+        : [sampleTopic(u.username), frameTopic(u.username)].map((t) => `topic write ${t}`);
+    return `user ${u.username}\n${lines.join('\n')}\n`;
   });
   return `# Generated from services/broker/src/acl.ts; anything not granted is denied.\n\n${blocks.join('\n')}`;
 }

@@ -2,10 +2,13 @@ import { Worker } from 'node:worker_threads';
 import type { Logger } from '@thermargin/shared/log';
 import { type DecodeContext, type Decoded, safeDecode } from './decode.ts';
 import { type PackedSamples, unpackSamples } from './sample-pack.ts';
+import type { VehicleMapSpec } from './vehicle-readings.ts';
 
 export interface DecodeWorkerData {
   known_vehicles: string[];
   max_payload_bytes: number;
+  /** The fleet file's mappings and reference torques; each worker builds its readings from them. */
+  vehicle_maps: [string, VehicleMapSpec][];
 }
 export interface DecodeJob {
   id: number;
@@ -48,8 +51,13 @@ export class DecodePool {
     size: number,
     private readonly ctx: Omit<DecodeContext, 'now_ms'>,
     private readonly log: Logger,
+    vehicle_maps: ReadonlyMap<string, VehicleMapSpec> = new Map(),
   ) {
-    this.data = { known_vehicles: [...ctx.known_vehicles], max_payload_bytes: ctx.max_payload_bytes };
+    this.data = {
+      known_vehicles: [...ctx.known_vehicles],
+      max_payload_bytes: ctx.max_payload_bytes,
+      vehicle_maps: [...vehicle_maps],
+    };
     for (let i = 0; i < size; i++) this.slots.push(this.spawn());
   }
 
@@ -89,7 +97,12 @@ export class DecodePool {
       }
       const job = slot.jobs.get(r.id);
       slot.jobs.delete(r.id);
-      job?.resolve({ samples: unpackSamples(r.samples), rejects: r.rejects, refused: r.refused });
+      job?.resolve({
+        samples: unpackSamples(r.samples),
+        rejects: r.rejects,
+        refused: r.refused,
+        tallies: r.tallies,
+      });
     });
     worker.on('error', (e) => this.log('decode_worker_error', { error: e.message }));
     worker.on('exit', (code) => {

@@ -7,13 +7,15 @@ import {
   TIME_MIN_MS,
   type WireSample,
   formatPath,
-  parseSampleTopic,
+  parseVehicleTopic,
   toSample,
   wireSampleSchema,
 } from '@thermargin/shared';
-import { type DeadLetter, excerpt } from '@thermargin/store';
+import { type DeadLetter, excerpt, type FrameTally } from '@thermargin/store';
 import type { z } from 'zod';
+import { decodeFrames } from './decode-frames.ts';
 import { quickSample } from './quick-sample.ts';
+import { STANDARD_READING, type VehicleReading } from './vehicle-readings.ts';
 
 export interface DecodeContext {
   /** Vehicle ids of the fleet file. */
@@ -21,17 +23,21 @@ export interface DecodeContext {
   /** ms: receive time (also the reference for the future/past clock checks). */
   now_ms: number;
   max_payload_bytes: number;
+  /** Per vehicle with a mapping or a reference torque in the fleet file: how its messages read. */
+  readings?: ReadonlyMap<string, VehicleReading>;
 }
 
 export interface Decoded {
   samples: Sample[];
   /**
-   * At most one dead letter per message: the whole message refused, or, for refused samples of it,
-   * how many and why, with the first few named.
+   * At most one dead letter per message: the whole message refused, or, for refused samples (or
+   * frames) of it, how many and why, with the first few named.
    */
   rejects: DeadLetter[];
-  /** What was refused, by reason: each refused sample, or 1 for a message refused whole (metrics). */
+  /** What was refused, by reason: each refused sample or frame, or 1 for a message refused whole (metrics). */
   refused: Partial<Record<RejectReason, number>>;
+  /** What each frames message held (none for sample messages). */
+  tallies: FrameTally[];
 }
 
 /** Refused samples of one message named in its dead letter (the rest are counted). */
@@ -40,10 +46,11 @@ export const NAMED_REFUSALS = 3;
 /**
  * One MQTT message → the samples to store and the dead letters, never a throw: a payload is refused
  * whole when its topic, vehicle, size or JSON is wrong, and sample by sample otherwise (the good ones
- * of a batch are kept).
+ * of a batch are kept). A frames message is decoded by decodeFrames.
  */
 export function decodeMessage(topic: string, payload: Buffer, ctx: DecodeContext): Decoded {
-  const vehicle = parseSampleTopic(topic);
+  const parsed = parseVehicleTopic(topic);
+  const vehicle = parsed?.vehicle;
   const letter = (
     reason: RejectReason,
     detail: string,
@@ -62,10 +69,11 @@ export function decodeMessage(topic: string, payload: Buffer, ctx: DecodeContext
     samples: [],
     rejects: [letter(reason, detail, () => payload.subarray(0, 4096).toString('utf8'), v)],
     refused: { [reason]: 1 },
+    tallies: [],
   });
 
   if (vehicle === undefined)
-    return whole('topic', 'not a sample topic (thermargin/v1/vehicles/{vehicle}/samples)', '');
+    return whole('topic', 'not a vehicle topic (thermargin/v1/vehicles/{vehicle}/samples or …/frames)', '');
   if (!ctx.known_vehicles.has(vehicle))
     return whole('unknown_vehicle', `vehicle ${vehicle} is not in the fleet file`);
   if (payload.length > ctx.max_payload_bytes) {
@@ -74,6 +82,11 @@ export function decodeMessage(topic: string, payload: Buffer, ctx: DecodeContext
       `payload of ${payload.length} bytes is over the limit of ${ctx.max_payload_bytes}`,
     );
   }
+  const reading = ctx.readings?.get(vehicle) ?? STANDARD_READING;
+  if (parsed!.kind === 'frames')
+    return decodeFrames(vehicle, payload, reading, ctx.now_ms, (reason, detail, text) =>
+      letter(reason, detail, () => text),
+    );
   let body: unknown;
   try {
     body = JSON.parse(payload.toString('utf8'));
@@ -93,10 +106,11 @@ export function decodeMessage(topic: string, payload: Buffer, ctx: DecodeContext
     );
   }
 
-  const out: Decoded = { samples: [], rejects: [], refused: {} };
+  const out: Decoded = { samples: [], rejects: [], refused: {}, tallies: [] };
   const named: { where: string; detail: string; item: unknown }[] = [];
   let first: RejectReason | undefined;
-  items.forEach((item, i) => {
+  items.forEach((raw, i) => {
+    const item = reading.record ? reading.record(raw, vehicle) : raw;
     const verdict = judgeSample(item, vehicle, ctx.now_ms);
     if (!('reason' in verdict)) {
       out.samples.push(verdict);
@@ -105,7 +119,7 @@ export function decodeMessage(topic: string, payload: Buffer, ctx: DecodeContext
     first ??= verdict.reason;
     out.refused[verdict.reason] = (out.refused[verdict.reason] ?? 0) + 1;
     if (named.length < NAMED_REFUSALS)
-      named.push({ where: isBatch ? `samples[${i}]` : 'sample', detail: verdict.detail, item });
+      named.push({ where: isBatch ? `samples[${i}]` : 'sample', detail: verdict.detail, item: raw });
   });
   if (first === undefined) return out;
   // One letter for the message (10 000 bad items made 10 000 rows): its most frequent reason.
@@ -132,14 +146,14 @@ export function safeDecode(topic: string, payload: Buffer, ctx: DecodeContext): 
   } catch (e) {
     const letter = {
       received_ms: ctx.now_ms,
-      vehicle: parseSampleTopic(topic) ?? '',
+      vehicle: parseVehicleTopic(topic)?.vehicle ?? '',
       reason: 'schema' as const,
       detail: `could not be decoded: ${(e as Error).message}`,
       topic: excerpt(topic, 256),
       excerpt: excerpt(payload.subarray(0, 4096).toString('utf8')),
       payload_bytes: payload.length,
     };
-    return { samples: [], rejects: [letter], refused: { schema: 1 } };
+    return { samples: [], rejects: [letter], refused: { schema: 1 }, tallies: [] };
   }
 }
 

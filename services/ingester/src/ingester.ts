@@ -1,8 +1,8 @@
 import type { Server } from 'node:http';
 import {
-  parseSampleTopic,
+  INGEST_TOPIC_FILTERS,
+  parseVehicleTopic,
   type RejectReason,
-  SAMPLE_TOPIC_FILTER,
   sharedSampleFilter,
 } from '@thermargin/shared';
 import type { Logger } from '@thermargin/shared/log';
@@ -14,11 +14,14 @@ import { type Decoded, safeDecode } from './decode.ts';
 import { IngestMetrics, serverPort, startMetricsServer } from './metrics.ts';
 import { PIPELINE_DEFAULTS, Pipeline } from './pipeline.ts';
 import { Spool } from './spool.ts';
+import { type VehicleMapSpec, vehicleReadings } from './vehicle-readings.ts';
 
 export interface IngesterDeps {
   store: SampleStore;
   /** Vehicle ids of the fleet file: samples of any other vehicle are dead-lettered. */
   known_vehicles: ReadonlySet<string>;
+  /** The fleet file's data_map and engine reference torque per vehicle (how its frames and JSON read). */
+  vehicle_maps?: ReadonlyMap<string, VehicleMapSpec>;
   /** ms since epoch; injected so tests control the clock checks. */
   clock?: () => number;
   log?: Logger;
@@ -67,7 +70,9 @@ export function createIngester(config: IngesterConfig, deps: IngesterDeps): Inge
     () => Math.max(1, metrics.connections_up),
     log,
   );
-  const filter = config.mqtt.share_group ? sharedSampleFilter(config.mqtt.share_group) : SAMPLE_TOPIC_FILTER;
+  const filters = INGEST_TOPIC_FILTERS.map((f) =>
+    config.mqtt.share_group ? sharedSampleFilter(config.mqtt.share_group, f) : f,
+  );
   // A plain subscription hands every message to every connection: only a shared one can spread the load.
   if (!config.mqtt.share_group && config.mqtt.connections > 1)
     throw new Error(
@@ -82,9 +87,15 @@ export function createIngester(config: IngesterConfig, deps: IngesterDeps): Inge
     throw new Error(
       `ingester: client id ${taken.join(', ')} is a vehicle id of the fleet file; choose another INGEST_MQTT_CLIENT_ID`,
     );
-  const decodeContext = { known_vehicles: deps.known_vehicles, max_payload_bytes: config.max_payload_bytes };
+  const decodeContext = {
+    known_vehicles: deps.known_vehicles,
+    max_payload_bytes: config.max_payload_bytes,
+    readings: vehicleReadings(deps.vehicle_maps ?? []),
+  };
   const pool =
-    config.decode_workers > 0 ? new DecodePool(config.decode_workers, decodeContext, log) : undefined;
+    config.decode_workers > 0
+      ? new DecodePool(config.decode_workers, decodeContext, log, deps.vehicle_maps)
+      : undefined;
   /** decodes in flight on the pool: stop() lets them reach the pipeline before its last flush */
   const decodes = new Set<Promise<void>>();
   const clients: MqttClient[] = [];
@@ -132,10 +143,16 @@ export function createIngester(config: IngesterConfig, deps: IngesterDeps): Inge
       const deliver = (decoded: Decoded) => {
         metrics.messages_received++;
         metrics.samples_received += decoded.samples.length;
-        const vehicle = parseSampleTopic(packet.topic) ?? '';
+        const vehicle = parseVehicleTopic(packet.topic)?.vehicle ?? '';
         for (const [reason, n] of Object.entries(decoded.refused))
           metrics.reject(vehicle, reason as RejectReason, n);
-        pipeline.submit({ samples: decoded.samples, letters: decoded.rejects, ack: () => done() });
+        for (const t of decoded.tallies) metrics.frameTally(t);
+        pipeline.submit({
+          samples: decoded.samples,
+          letters: decoded.rejects,
+          tallies: decoded.tallies,
+          ack: () => done(),
+        });
       };
       if (!pool) return deliver(safeDecode(packet.topic, payload, { ...decodeContext, now_ms: clock() }));
       const decoding = pool.decode(packet.topic, payload, clock()).then(deliver);
@@ -147,13 +164,16 @@ export function createIngester(config: IngesterConfig, deps: IngesterDeps): Inge
         backoff = RECONNECT_BACKOFF.min_ms;
         client.options.reconnectPeriod = backoff;
         metrics.connections_up = clients.filter((c) => c.connected).length;
-        client.subscribe(filter, { qos: 1 }, (err, granted) => {
-          const code = granted?.[0]?.qos;
-          if (err || code === undefined || code > 2) {
+        client.subscribe(filters, { qos: 1 }, (err, granted) => {
+          const refused = filters.filter((_, i) => {
+            const code = granted?.[i]?.qos;
+            return code === undefined || code > 2;
+          });
+          if (err || refused.length) {
             log('subscribe_refused', {
               client: options.clientId,
-              filter,
-              error: err?.message ?? `reason code ${code}`,
+              filter: refused.join(' '),
+              error: err?.message ?? `reason codes ${granted?.map((g) => g.qos).join(', ')}`,
             });
           } else resolve();
         });
@@ -170,7 +190,11 @@ export function createIngester(config: IngesterConfig, deps: IngesterDeps): Inge
       if (config.metrics_port >= 0)
         server = await startMetricsServer(metrics, config.metrics_port, config.metrics_host);
       await Promise.all(Array.from({ length: config.mqtt.connections }, (_, i) => connectOne(i)));
-      log('ingester_started', { filter, connections: config.mqtt.connections, store: deps.store.kind });
+      log('ingester_started', {
+        filter: filters.join(' '),
+        connections: config.mqtt.connections,
+        store: deps.store.kind,
+      });
     },
     async stop() {
       stopping = true;

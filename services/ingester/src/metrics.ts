@@ -1,7 +1,7 @@
 import { type Server, createServer } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { type RejectReason, STORE_FAULTS } from '@thermargin/shared';
-import type { StoreFault } from '@thermargin/store';
+import { FRAME_TALLY_COUNTS, type FrameTally, type StoreFault } from '@thermargin/store';
 
 /** The ingester's counters and gauges, rendered in the Prometheus text format on GET /metrics. */
 export class IngestMetrics {
@@ -24,6 +24,14 @@ export class IngestMetrics {
   spool_fault: StoreFault | null = null;
   connections_up = 0;
   private readonly rejected = new Map<string, number>();
+  /** Per vehicle, the frame tallies of the frames messages received (a redelivery counts again here). */
+  private readonly frames = new Map<string, Record<string, number>>();
+
+  frameTally(t: FrameTally): void {
+    let f = this.frames.get(t.vehicle);
+    if (!f) this.frames.set(t.vehicle, (f = Object.fromEntries(FRAME_TALLY_COUNTS.map((c) => [c, 0]))));
+    for (const c of FRAME_TALLY_COUNTS) f[c]! += t[c];
+  }
 
   reject(vehicle: string, reason: RejectReason, n = 1): void {
     const key = `${vehicle}\u0000${reason}`;
@@ -105,6 +113,13 @@ export class IngestMetrics {
     for (const r of this.rejections()) {
       out.push(`thermargin_ingest_rejected_total{vehicle="${r.vehicle}",reason="${r.reason}"} ${r.count}`);
     }
+    out.push(
+      '# HELP thermargin_ingest_frames_total CAN frames received, decoded and of unknown PGNs, values not available or error, samples built and incomplete, by vehicle',
+    );
+    out.push('# TYPE thermargin_ingest_frames_total counter');
+    for (const [vehicle, f] of this.frames)
+      for (const c of FRAME_TALLY_COUNTS)
+        out.push(`thermargin_ingest_frames_total{vehicle="${vehicle}",count="${c}"} ${f[c]}`);
     return `${out.join('\n')}\n`;
   }
 }

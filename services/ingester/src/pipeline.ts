@@ -1,7 +1,7 @@
 import { setTimeout as sleep } from 'node:timers/promises';
 import type { Sample } from '@thermargin/shared';
 import type { Logger } from '@thermargin/shared/log';
-import { type DeadLetter, type SampleStore, storeFault } from '@thermargin/store';
+import { type DeadLetter, type FrameTally, type SampleStore, storeFault } from '@thermargin/store';
 import type { IngestMetrics } from './metrics.ts';
 import type { Spool, SpoolBatch } from './spool.ts';
 
@@ -9,6 +9,8 @@ import type { Spool, SpoolBatch } from './spool.ts';
 export interface Delivery {
   samples: Sample[];
   letters: DeadLetter[];
+  /** Frame tallies of a frames message (stored with its samples, before the acknowledgement). */
+  tallies?: FrameTally[];
   ack: () => void;
 }
 
@@ -114,9 +116,10 @@ export class Pipeline {
     this.pendingSamples = 0;
     const samples = batch.length === 1 ? batch[0]!.samples : batch.flatMap((d) => d.samples);
     const letters = batch.flatMap((d) => d.letters);
+    const tallies = batch.flatMap((d) => d.tallies ?? []);
     let durable = false;
     try {
-      durable = await this.commit(samples, letters);
+      durable = await this.commit({ samples, letters, tallies });
     } catch (e) {
       this.log('pipeline_error', { error: String(e) });
     }
@@ -136,24 +139,26 @@ export class Pipeline {
   }
 
   /** True once durable (stored or spooled). */
-  private async commit(samples: Sample[], letters: DeadLetter[]): Promise<boolean> {
+  private async commit(batch: SpoolBatch): Promise<boolean> {
     // Behind the spool's batches while it holds some; straight to the spool while the store is down,
     // unless the spool refuses writes too (its own disk full): then the store is tried again.
     const spoolFirst = this.spool.segments > 0 || (this.storeDown && !this.metrics.spool_fault);
-    if (spoolFirst) return this.toSpool({ samples, letters });
+    if (spoolFirst) return this.toSpool(batch);
+    // Samples and tallies are idempotent, letters are not: letters last, so a retry never repeats one.
     try {
-      await this.store.writeSamples(samples);
-      this.metrics.samples_stored += samples.length;
+      await this.store.writeSamples(batch.samples);
+      await this.store.writeFrameTallies(batch.tallies ?? []);
+      this.metrics.samples_stored += batch.samples.length;
       this.recovered();
     } catch (e) {
       this.failed(e);
-      return this.toSpool({ samples, letters });
+      return this.toSpool(batch);
     }
     try {
-      await this.store.writeDeadLetters(letters);
+      await this.store.writeDeadLetters(batch.letters);
     } catch (e) {
       this.failed(e);
-      return this.toSpool({ samples: [], letters });
+      return this.toSpool({ samples: [], letters: batch.letters });
     }
     return true;
   }
@@ -205,6 +210,7 @@ export class Pipeline {
       const batch = this.spool.peek()!;
       try {
         await this.store.writeSamples(batch.samples);
+        await this.store.writeFrameTallies(batch.tallies ?? []);
         await this.store.writeDeadLetters(batch.letters);
       } catch (e) {
         this.failed(e);

@@ -12,12 +12,14 @@ import {
 } from 'node:fs';
 import { join } from 'node:path';
 import type { Sample } from '@thermargin/shared';
-import type { DeadLetter } from '@thermargin/store';
+import type { DeadLetter, FrameTally } from '@thermargin/store';
 
 /** What the spool keeps: one store write that could not happen yet. */
 export interface SpoolBatch {
   samples: Sample[];
   letters: DeadLetter[];
+  /** Absent in segments spooled before frames were taken. */
+  tallies?: FrameTally[];
 }
 
 /**

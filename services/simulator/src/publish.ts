@@ -1,11 +1,14 @@
 import {
+  encodeFrameBatch,
   encodeSamplePayload,
+  frameTopic,
   MAX_SAMPLES_PER_MESSAGE,
   type Sample,
   sampleTopic,
   toWire,
 } from '@thermargin/shared';
 import mqtt, { type MqttClient } from 'mqtt';
+import { sendsEngineFrames, vehicleFrames } from './frames.ts';
 import type { Scenario, TimeRange } from './scenario.ts';
 
 export interface PublishOptions {
@@ -22,6 +25,9 @@ export interface PublishOptions {
    *  then gets its own connection to `url`, and `client` serves only vehicles this returns undefined for. */
   credentials?: (vehicle: string) => { username: string; password: string } | undefined;
   url?: string;
+  /** Vehicles whose loggers send SAE J1939 frames (frames topic, frame-batch layout) instead of samples;
+   *  each message carries the frames of its samples, so the ingester rebuilds exactly them. */
+  frames?: ReadonlySet<string>;
   /** Wall clock for flush_ms (injected). */
   now: () => number;
 }
@@ -75,11 +81,19 @@ export async function publishScenario(
   const inFlight = new Set<Promise<void>>();
   let failure: unknown = null;
   const result: PublishResult = { samples: 0, messages: 0 };
+  const engine = new Map(scenario.fleet.vehicles.map((v) => [v.id, sendsEngineFrames(v)]));
+  const message = (vehicle: string, batch: Sample[]): [string, string | Buffer] =>
+    o.frames?.has(vehicle)
+      ? [
+          frameTopic(vehicle),
+          Buffer.from(encodeFrameBatch([...vehicleFrames(batch, engine.get(vehicle) ?? false)])),
+        ]
+      : [sampleTopic(vehicle), encodeSamplePayload(batch.map(toWire))];
   const send = async (vehicle: string, batch: Sample[]): Promise<void> => {
     if (failure) throw failure;
     const c = await clientFor(vehicle);
     const p = c
-      .publishAsync(sampleTopic(vehicle), encodeSamplePayload(batch.map(toWire)), { qos: 1 })
+      .publishAsync(...message(vehicle, batch), { qos: 1 })
       .then(() => {
         result.messages++;
         result.samples += batch.length;

@@ -1,5 +1,5 @@
 import { SIGNAL_NAMES, type Sample } from '@thermargin/shared';
-import { type DeadLetter, storedTime } from './store.ts';
+import { type DeadLetter, FRAME_TALLY_COUNTS, type FrameTally, storedTime } from './store.ts';
 
 /**
  * Line protocol for our two measurements, formatted by hand: ids are tag-safe by construction (ids.ts)
@@ -8,9 +8,11 @@ import { type DeadLetter, storedTime } from './store.ts';
  *
  *   samples,vehicle={id} speed_kmh=…,…,trip="{id}" {time ms}
  *   dead_letters,reason={reason}[,vehicle={id}] detail="…",topic="…",excerpt="…",payload_bytes={n}i {time ns}
+ *   frame_tallies,vehicle={id} frames={n}i,decoded={n}i,… {batch start ms}
  */
 export const SAMPLES_MEASUREMENT = 'samples';
 export const DEAD_LETTERS_MEASUREMENT = 'dead_letters';
+export const FRAME_TALLIES_MEASUREMENT = 'frame_tallies';
 
 export function sampleLine(s: Sample): string {
   let fields = '';
@@ -34,4 +36,10 @@ export function deadLetterLine(l: DeadLetter, time_ns: bigint): string {
     `detail=${fieldString(l.detail)},topic=${fieldString(l.topic)},excerpt=${fieldString(l.excerpt)},` +
     `payload_bytes=${Math.round(l.payload_bytes)}i`;
   return `${DEAD_LETTERS_MEASUREMENT},reason=${l.reason}${vehicleTag} ${fields} ${time_ns}`;
+}
+
+/** One batch's tally: the point of vehicle + start time, so writing it again replaces it. */
+export function frameTallyLine(t: FrameTally): string {
+  const fields = FRAME_TALLY_COUNTS.map((c) => `${c}=${Math.round(t[c])}i`).join(',');
+  return `${FRAME_TALLIES_MEASUREMENT},vehicle=${t.vehicle} ${fields} ${storedTime(t.start_ms)}`;
 }

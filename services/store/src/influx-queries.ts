@@ -5,9 +5,17 @@ import {
   type SampleColumns,
   emptyColumns,
 } from '@thermargin/shared';
-import { DEAD_LETTERS_MEASUREMENT, SAMPLES_MEASUREMENT } from './influx-line.ts';
+import { DEAD_LETTERS_MEASUREMENT, FRAME_TALLIES_MEASUREMENT, SAMPLES_MEASUREMENT } from './influx-line.ts';
 import { type InfluxSeries, idLiteral, timeLiteral } from './influxql.ts';
-import type { DeadLetter, DeadLetterCount, DeadLetterQuery, SampleStore, VehicleSpan } from './store.ts';
+import {
+  type DeadLetter,
+  type DeadLetterCount,
+  type DeadLetterQuery,
+  FRAME_TALLY_COUNTS,
+  type FrameTotals,
+  type SampleStore,
+  type VehicleSpan,
+} from './store.ts';
 
 /** Runs InfluxQL statements and returns each one's series. */
 type Query = (q: string) => Promise<InfluxSeries[][]>;
@@ -95,6 +103,27 @@ export function deadLetterQueries(query: Query): Pick<SampleStore, 'readDeadLett
         count: s.values[0]?.[1] as number,
       }));
       return counts.sort((a, b) => (a.vehicle + a.reason < b.vehicle + b.reason ? -1 : 1));
+    },
+  };
+}
+
+/** The frame tallies' sums per vehicle as InfluxQL. */
+export function frameTallyQueries(query: Query): Pick<SampleStore, 'frameTotals'> {
+  return {
+    async frameTotals() {
+      const [series = []] = await query(
+        `SELECT count(frames) AS batches, ${FRAME_TALLY_COUNTS.map((c) => `sum(${c}) AS ${c}`).join(', ')} FROM ${FRAME_TALLIES_MEASUREMENT} GROUP BY vehicle`,
+      );
+      return series
+        .map((s) => {
+          const row = s.values[0] ?? [];
+          const out: Record<string, unknown> = { vehicle: s.tags?.vehicle ?? '' };
+          s.columns.forEach((c, i) => {
+            if (c !== 'time') out[c] = row[i] ?? 0;
+          });
+          return out as FrameTotals;
+        })
+        .sort((a, b) => (a.vehicle < b.vehicle ? -1 : 1));
     },
   };
 }

@@ -1,7 +1,14 @@
 import { InfluxDB, type Transport } from '@influxdata/influxdb-client';
-import { DEAD_LETTERS_MEASUREMENT, SAMPLES_MEASUREMENT, deadLetterLine, sampleLine } from './influx-line.ts';
+import {
+  DEAD_LETTERS_MEASUREMENT,
+  FRAME_TALLIES_MEASUREMENT,
+  SAMPLES_MEASUREMENT,
+  deadLetterLine,
+  frameTallyLine,
+  sampleLine,
+} from './influx-line.ts';
 import { influxLateMarks, lateDeleteBody } from './influx-late.ts';
-import { deadLetterQueries, sampleQueries } from './influx-queries.ts';
+import { deadLetterQueries, frameTallyQueries, sampleQueries } from './influx-queries.ts';
 import { v1Transport } from './influx-transport.ts';
 import { lineWriter } from './influx-write.ts';
 import { influxql, timeLiteral } from './influxql.ts';
@@ -106,11 +113,14 @@ export function createInfluxStore(options: InfluxStoreOptions): SampleStore {
       const path = `/api/v2/delete?${new URLSearchParams({ org: t.org, bucket: t.bucket })}`;
       for (const m of marks) await transport.request(path, lateDeleteBody(m), { method: 'POST' });
     },
+    writeFrameTallies: (tallies) => writeLines(tallies.map(frameTallyLine), 'ms'),
+    ...frameTallyQueries(query),
     async deleteBefore(before_ms) {
       if (o.api === 'v1') {
         await query(
-          `DELETE FROM ${SAMPLES_MEASUREMENT} WHERE time < ${timeLiteral(before_ms)}; ` +
-            `DELETE FROM ${DEAD_LETTERS_MEASUREMENT} WHERE time < ${timeLiteral(before_ms)}`,
+          [SAMPLES_MEASUREMENT, DEAD_LETTERS_MEASUREMENT, FRAME_TALLIES_MEASUREMENT]
+            .map((m) => `DELETE FROM ${m} WHERE time < ${timeLiteral(before_ms)}`)
+            .join('; '),
         );
         return;
       }

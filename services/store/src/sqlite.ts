@@ -1,5 +1,6 @@
 import { BLOCK_DEFAULTS } from './sqlite-blocks.ts';
 import { createDeadLetterTable } from './sqlite-dead-letters.ts';
+import { createFrameTallyTable } from './sqlite-frame-tallies.ts';
 import { createSqliteLateMarks } from './sqlite-late.ts';
 import { openSqliteFile, probeWrites } from './sqlite-open.ts';
 import { createResultTables } from './sqlite-result-tables.ts';
@@ -27,7 +28,8 @@ export type SqliteStore = SampleStore & ResultsStore;
 
 /**
  * The SQLite store: one file in WAL mode holding the sample tables (sqlite-samples.ts), the dead
- * letters (sqlite-dead-letters.ts) and the result tables (sqlite-result-tables.ts).
+ * letters (sqlite-dead-letters.ts), the frame tallies (sqlite-frame-tallies.ts) and the result tables
+ * (sqlite-result-tables.ts).
  */
 export function createSqliteStore(options: SqliteStoreOptions): SqliteStore {
   const o = { ...SQLITE_DEFAULTS, ...options };
@@ -35,10 +37,12 @@ export function createSqliteStore(options: SqliteStoreOptions): SqliteStore {
   const late = createSqliteLateMarks(db);
   const samples = createSampleTables(db, { ...BLOCK_DEFAULTS, ...options.blocks }, late.note);
   const letters = createDeadLetterTable(db);
+  const tallies = createFrameTallyTable(db);
   const results = createResultTables(db);
   const deleteBefore = db.transaction((before_ms: number) => {
     samples.deleteBefore(before_ms);
     letters.deleteBefore(before_ms);
+    tallies.deleteBefore(before_ms);
   });
   let open = true;
 
@@ -70,6 +74,12 @@ export function createSqliteStore(options: SqliteStoreOptions): SqliteStore {
     },
     async clearLateMarks(marks) {
       late.clear(marks);
+    },
+    async writeFrameTallies(list) {
+      if (list.length > 0) tallies.write(list);
+    },
+    async frameTotals() {
+      return tallies.totals();
     },
     async deleteBefore(before_ms) {
       deleteBefore(before_ms);

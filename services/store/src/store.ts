@@ -29,7 +29,11 @@ export interface SampleStore {
   lateMarks(): Promise<LateMark[]>;
   /** Forgets exactly these marks (one that changed since it was read stays, to be read again). */
   clearLateMarks(marks: readonly LateMark[]): Promise<void>;
-  /** Deletes samples and dead letters older than `before_ms`. */
+  /** Replaces the tallies given (key: vehicle + start_ms, so a redelivered batch counts once). */
+  writeFrameTallies(tallies: readonly FrameTally[]): Promise<void>;
+  /** Per vehicle, the sums of its frame tallies, sorted by vehicle. */
+  frameTotals(): Promise<FrameTotals[]>;
+  /** Deletes samples, dead letters and frame tallies older than `before_ms`. */
   deleteBefore(before_ms: number): Promise<void>;
   /**
    * Resolves when the store answers and can take writes; rejects with why not (for SQLite a
@@ -73,6 +77,27 @@ export interface DeadLetter {
 }
 
 export const DEAD_LETTER_EXCERPT_BYTES = 2048;
+
+/** The counts of a frame tally, in the order the stores keep them. */
+export const FRAME_TALLY_COUNTS = [
+  'frames',
+  'decoded',
+  'unknown_pgn',
+  'not_available',
+  'error_values',
+  'samples',
+  'incomplete',
+] as const;
+export type FrameTallyCount = (typeof FRAME_TALLY_COUNTS)[number];
+
+/**
+ * What one batch of CAN frames held for a vehicle, counted by the ingester: frames, those decoded, those
+ * of PGNs nothing reads, parameter values sent as not available or error, samples built and those left
+ * incomplete (a required signal missing). Keyed by vehicle and the batch's start.
+ */
+export type FrameTally = { vehicle: string; start_ms: number } & Record<FrameTallyCount, number>;
+/** A vehicle's frame tallies summed, with how many batches they came from. */
+export type FrameTotals = { vehicle: string; batches: number } & Record<FrameTallyCount, number>;
 
 export interface DeadLetterQuery {
   vehicle?: string;

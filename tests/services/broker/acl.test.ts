@@ -7,15 +7,20 @@ const vehicle = { username: 'bus-01', role: 'vehicle' as const };
 const ingester = { username: 'ingester', role: 'ingester' as const };
 
 describe('broker ACL rules', () => {
-  it('a vehicle publishes only to its own sample topic, and subscribes to nothing', () => {
+  it('a vehicle publishes only to its own sample and frames topics, and subscribes to nothing', () => {
     expect(canPublish(vehicle, 'thermargin/v1/vehicles/bus-01/samples')).toBe(true);
+    expect(canPublish(vehicle, 'thermargin/v1/vehicles/bus-01/frames')).toBe(true);
     expect(canPublish(vehicle, 'thermargin/v1/vehicles/bus-02/samples')).toBe(false);
+    expect(canPublish(vehicle, 'thermargin/v1/vehicles/bus-02/frames')).toBe(false);
+    expect(canPublish(vehicle, 'thermargin/v1/vehicles/bus-01/other')).toBe(false);
     expect(canPublish(vehicle, 'thermargin/v1/vehicles/+/samples')).toBe(false);
     expect(canSubscribe(vehicle, 'thermargin/v1/vehicles/bus-01/samples')).toBe(false);
   });
   it('the ingester subscribes (plainly or shared) and publishes nothing', () => {
     expect(canSubscribe(ingester, 'thermargin/v1/vehicles/+/samples')).toBe(true);
     expect(canSubscribe(ingester, '$share/ingesters/thermargin/v1/vehicles/+/samples')).toBe(true);
+    expect(canSubscribe(ingester, '$share/ingesters/thermargin/v1/vehicles/+/frames')).toBe(true);
+    expect(canSubscribe(ingester, 'thermargin/v1/vehicles/+/+')).toBe(false);
     expect(canSubscribe(ingester, '#')).toBe(false);
     expect(canSubscribe(ingester, '$share/g/#')).toBe(false);
     expect(canPublish(ingester, 'thermargin/v1/vehicles/ingester/samples')).toBe(false);

@@ -160,6 +160,49 @@ export function storeContract(name: string, open: () => Promise<SampleStore>): v
       expect(await store.lateMarks()).toEqual([]);
     });
 
+    const tally = (vehicle: string, start: number, n: number) => ({
+      vehicle,
+      start_ms: t0 + start * 1000,
+      frames: 8 * n,
+      decoded: 7 * n,
+      unknown_pgn: n,
+      not_available: 2,
+      error_values: 1,
+      samples: n,
+      incomplete: 0,
+    });
+
+    it('keeps frame tallies per batch, a rewritten batch once, and sums them per vehicle', async () => {
+      await store.writeFrameTallies([tally('v-1', 0, 60), tally('v-1', 60, 60), tally('v-2', 0, 10)]);
+      await store.writeFrameTallies([tally('v-1', 60, 60)]); // redelivered
+      expect(await store.frameTotals()).toEqual([
+        {
+          vehicle: 'v-1',
+          batches: 2,
+          frames: 960,
+          decoded: 840,
+          unknown_pgn: 120,
+          not_available: 4,
+          error_values: 2,
+          samples: 120,
+          incomplete: 0,
+        },
+        {
+          vehicle: 'v-2',
+          batches: 1,
+          frames: 80,
+          decoded: 70,
+          unknown_pgn: 10,
+          not_available: 2,
+          error_values: 1,
+          samples: 10,
+          incomplete: 0,
+        },
+      ]);
+      await store.deleteBefore(t0 + 30_000);
+      expect((await store.frameTotals()).map((t) => [t.vehicle, t.batches])).toEqual([['v-1', 1]]);
+    });
+
     it('answers ping', async () => {
       await expect(store.ping()).resolves.toBeUndefined();
     });

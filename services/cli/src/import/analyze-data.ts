@@ -9,8 +9,6 @@ import { progressReporter } from '../import/progress.ts';
 import { NoteMerger, vehicleReasons } from '../import/row-audit.ts';
 import type { VehicleStream } from '../import/vehicle-stream.ts';
 
-export { loadDataMap } from '../import/data-reader.ts';
-
 export interface AnalyzedData {
   vehicles: VehicleModel[];
   streams: Map<string, StreamOutcome>;

@@ -1,27 +1,14 @@
-import { readFileSync } from 'node:fs';
-import { dirname, resolve } from 'node:path';
-import { type DataMap, type FleetInput, InputError, parseDataMapText } from '@thermargin/shared';
+import { type DataMap, type FleetInput, InputError } from '@thermargin/shared';
 import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
 import { loadFleetFile } from '@thermargin/usecases/fleet-file';
 import { candumpSamples } from '@thermargin/logger-data/io/candump-samples';
+import { readDataMap, vehicleDataMaps } from '@thermargin/logger-data/io/data-maps';
 import { compileFrames, type DecoderConfig } from '@thermargin/logger-data/j1939/config';
 import { emptyFrameCounts, type FrameCounts } from '@thermargin/logger-data/j1939/decoder';
 import { readCsvFile } from './csv-reader.ts';
 import { type DataFile, vehicleOfPath } from './data-files.ts';
 import { type FileNotes, RowAudit } from './row-audit.ts';
 import { VehicleStream } from './vehicle-stream.ts';
-
-function readText(path: string, what: string): string {
-  try {
-    return readFileSync(path, 'utf8');
-  } catch {
-    throw new InputError([{ where: path, rule: `cannot read the ${what}` }], `${what} not found`);
-  }
-}
-
-export function loadDataMap(path: string): DataMap {
-  return parseDataMapText(readText(path, 'mapping file'), path);
-}
 
 /** Everything a reader needs to know before the first file: the fleet, the mappings, where the data is. */
 export interface ReadContext {
@@ -46,18 +33,12 @@ export function loadContext(
   max_line_bytes?: number,
 ): ReadContext {
   const { input: fleet, models: byId } = loadFleetFile(fleetPath);
-  const ownMaps = new Map<string, DataMap>();
-  for (const v of fleet.vehicles)
-    if (v.data_map !== undefined)
-      ownMaps.set(
-        v.id,
-        typeof v.data_map === 'string' ? loadDataMap(resolve(dirname(fleetPath), v.data_map)) : v.data_map,
-      );
+  const ownMaps = vehicleDataMaps(fleet, fleetPath);
   return {
     fleet,
     models: [...byId.values()],
     byId,
-    globalMap: mapPath ? loadDataMap(mapPath) : undefined,
+    globalMap: mapPath ? readDataMap(mapPath) : undefined,
     ownMaps,
     dataPath,
     mapPath,

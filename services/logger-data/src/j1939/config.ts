@@ -26,22 +26,38 @@ export interface CompiledParameter {
   length: number;
   order: ByteOrder;
   signed: boolean;
-  /** The scale as a fraction: raw × num ÷ den is then correctly rounded (0.4 as 2/5 gives 80 for 200, not
-   *  80.00000000000001), so a value reads the same as the decimal a logger would have printed. */
+  /**
+   * Scale and offset as fractions over one denominator: (raw × num + off) ÷ den + rest is then one
+   * correctly rounded division (0.4 as 4/10 gives 80 for 200, not 80.00000000000001; 0.1 kW with −3000 gives
+   * 21.9, not 21.90000000000009), so a value reads the same as the decimal a logger would have printed.
+   * `rest` is what of the offset is not a whole multiple of 1/den (0 for decimal offsets).
+   */
   num: number;
   den: number;
-  offset: number;
+  off: number;
+  rest: number;
   to: Conversion;
   j1939: boolean;
 }
 
-/** A decimal scale as num/den with den a power of ten up to 10⁹ (0.4 → 4/10); others as scale/1. */
-export function decimalFraction(scale: number): { num: number; den: number } {
+/** Whole multiple of x: n with |x·d − n| tiny, or NaN. */
+const whole = (x: number, d: number) => {
+  const n = Math.round(x * d);
+  return Math.abs(n - x * d) <= 1e-9 * Math.max(1, Math.abs(n)) ? n : Number.NaN;
+};
+
+/** Scale and offset over a power of ten up to 10⁹ (0.4 and −3000 → 4/10 and −30000/10); see CompiledParameter. */
+export function decimalFraction(
+  scale: number,
+  offset: number,
+): { num: number; den: number; off: number; rest: number } {
   for (let den = 1; den <= 1e9; den *= 10) {
-    const num = Math.round(scale * den);
-    if (Math.abs(num - scale * den) <= 1e-9 * Math.abs(num)) return { num, den };
+    const num = whole(scale, den);
+    if (Number.isNaN(num)) continue;
+    const off = whole(offset, den);
+    return Number.isNaN(off) ? { num, den, off: 0, rest: offset } : { num, den, off, rest: 0 };
   }
-  return { num: scale, den: 1 };
+  return { num: scale, den: 1, off: 0, rest: offset };
 }
 
 /** The parameters of one PGN and the data length its frames must have. */
@@ -143,8 +159,7 @@ export function compileFrames(
       length: s.length,
       order,
       signed: s.signed ?? false,
-      ...decimalFraction(s.scale),
-      offset: s.offset ?? 0,
+      ...decimalFraction(s.scale, s.offset ?? 0),
       to: UNIT_CONVERSIONS[s.unit as keyof typeof UNIT_CONVERSIONS],
       j1939: (s.not_available ?? 'j1939') === 'j1939',
     });
@@ -165,8 +180,7 @@ export function compileFrames(
         length: p.bytes * 8,
         order: 'intel',
         signed: false,
-        ...decimalFraction(p.resolution),
-        offset: p.offset,
+        ...decimalFraction(p.resolution, p.offset),
         to: IDENTITY,
         j1939: true,
       });

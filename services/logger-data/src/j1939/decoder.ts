@@ -143,7 +143,7 @@ export class FrameDecoder {
         this.resampler.set(p.channel, time_us, Number.NaN);
         continue;
       }
-      const x = ((p.signed ? signedOf(raw, p.length) : raw) * p.num) / p.den + p.offset;
+      const x = ((p.signed ? signedOf(raw, p.length) : raw) * p.num + p.off) / p.den + p.rest;
       const to = p.to;
       this.resampler.set(p.channel, time_us, ((x + to.pre) * to.mul) / to.div + to.post);
     }
