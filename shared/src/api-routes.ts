@@ -26,6 +26,7 @@ import {
   tripsResponseSchema,
   vehicleResponseSchema,
 } from './api.ts';
+import { framesResponseSchema } from './intake-api.ts';
 import { calculatorBodySchema, calculatorResponseSchema, sizingResponseSchema } from './sizing-api.ts';
 
 /** One route: what the server registers and documents (OpenAPI) and what the dashboard's client calls. */
@@ -100,6 +101,14 @@ export const API_ROUTES = {
     summary: 'The refused messages, newest first: rule broken, topic and payload excerpt',
     query: deadLettersQuerySchema,
     response: deadLettersResponseSchema,
+  },
+  intakeFrames: {
+    method: 'get',
+    path: '/api/intake/frames',
+    role: 'viewer',
+    summary:
+      'Per vehicle sending CAN frames: frames decoded, of unknown PGNs, values not available, samples built',
+    response: framesResponseSchema,
   },
   trace: {
     method: 'get',

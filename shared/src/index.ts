@@ -14,3 +14,4 @@ export * from './topics.ts';
 export * from './api.ts';
 export * from './mapping.ts';
 export * from './frame-batch.ts';
+export * from './intake-api.ts';

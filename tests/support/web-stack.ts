@@ -5,7 +5,7 @@ import { type RunningApi, startApi } from '@thermargin/api/start';
 import type { Sample } from '@thermargin/shared';
 import { createScenario, type Scenario } from '@thermargin/simulator';
 import { ensureWebBuilt } from '@thermargin/stack/web-build';
-import { createSqliteStore, type DeadLetter, type SqliteStore } from '@thermargin/store';
+import { createSqliteStore, type DeadLetter, type FrameTally, type SqliteStore } from '@thermargin/store';
 import { TOKENS } from '../services/api/stack.ts';
 
 export { TOKENS };
@@ -19,6 +19,8 @@ export interface WebStackOptions {
   hold_back?: string[];
   /** Refused messages to put in the store's dead letters (the data-quality screen's input). */
   dead_letters?: Omit<DeadLetter, 'received_ms' | 'topic' | 'excerpt' | 'payload_bytes'>[];
+  /** Frame tallies to put in the store (the intake screen's frames table). */
+  frame_tallies?: FrameTally[];
 }
 
 export interface WebStack {
@@ -78,6 +80,7 @@ export async function startWebStack(o: WebStackOptions = {}): Promise<WebStack> 
         payload_bytes: 2,
       })),
     );
+  if (o.frame_tallies?.length) await samples.writeFrameTallies(o.frame_tallies);
   const api = await startApi({
     port: 0,
     clock: () => now_ms,

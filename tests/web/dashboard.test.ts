@@ -38,6 +38,30 @@ beforeAll(async () => {
       { vehicle: 'bus-03', reason: 'range', detail: 'coolant_in_c must be within -40…150' },
       { vehicle: '', reason: 'json', detail: 'not parseable JSON' },
     ],
+    frame_tallies: [
+      {
+        vehicle: 'truck-01',
+        start_ms: 0,
+        frames: 7000,
+        decoded: 6500,
+        unknown_pgn: 500,
+        not_available: 12,
+        error_values: 0,
+        samples: 1000,
+        incomplete: 2,
+      },
+      {
+        vehicle: 'truck-01',
+        start_ms: 1000,
+        frames: 7000,
+        decoded: 6500,
+        unknown_pgn: 500,
+        not_available: 0,
+        error_values: 1,
+        samples: 1000,
+        incomplete: 0,
+      },
+    ],
   });
   browser = await launchBrowser();
 }, 120_000);
@@ -212,7 +236,7 @@ describe('dashboard in a real browser against the running API', () => {
     await page.close();
   });
 
-  it('intake check shows refused data per vehicle and reason', async () => {
+  it('intake check shows refused data per vehicle and reason, and what CAN frames held', async () => {
     const r = await api<RejectedResponse>('/api/rejected');
     const page = await signedIn(browser.context, stack.url, TOKENS.viewer, '#/intake');
     await page.locator('[data-table="rejected"]').waitFor();
@@ -234,6 +258,12 @@ describe('dashboard in a real browser against the running API', () => {
       'coolant_in_c must be within -40…150',
       'coolant_in_c must be within -40…150',
     ]);
+    // What the frames of the vehicle on CAN frames held.
+    const frames = 'table[data-table="frames"] tr[data-vehicle="truck-01"]';
+    await page.locator(frames).waitFor();
+    expect(await text(page, `${frames} [data-col="decoded"]`)).toBe('13,000 (92.9 %)');
+    expect(await text(page, `${frames} [data-col="unknown_pgn"]`)).toBe('1,000');
+    expect(await text(page, `${frames} [data-col="not_available"]`)).toBe('12');
     await page.locator('[data-fig="samples"]').waitFor();
     await screenshot(page, '6-intake-check');
     await page.close();

@@ -25,6 +25,7 @@ import { readJson } from './json-body.ts';
 import { openApiDocument } from './openapi.ts';
 import { RATE_LIMIT_DEFAULTS, RateLimiter } from './rate-limit.ts';
 import { meRoutes } from './routes-me.ts';
+import { intakeRoutes } from './routes-intake.ts';
 import { readRoutes } from './routes-read.ts';
 import { sizingRoutes } from './routes-sizing.ts';
 import { traceRoutes } from './routes-trace.ts';
@@ -97,6 +98,7 @@ export function createApi(deps: ApiDeps): Hono {
     ...eventRoutes(hub, deps.tokens),
     ...sizingRoutes(x),
     ...meRoutes(),
+    ...intakeRoutes(x),
   };
   const rates = { ...RATE_LIMIT_DEFAULTS, ...deps.rate_limit };
   const limiter = new RateLimiter(rates, x.clock);

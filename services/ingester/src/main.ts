@@ -1,10 +1,10 @@
 import { readFileSync } from 'node:fs';
 import type { Logger } from '@thermargin/shared/log';
 import { fleetSchema, parseOrThrow } from '@thermargin/shared';
-import { vehicleDataMaps } from '@thermargin/logger-data/io/data-maps';
 import { openSampleStore } from '@thermargin/store';
 import { readIngesterConfig } from './config.ts';
 import { createIngester } from './ingester.ts';
+import { vehicleMapSpecs } from './vehicle-readings.ts';
 
 /** `node --import tsx services/ingester/src/main.ts`: configured by env vars (see README.md). */
 const log: Logger = (event, detail) =>
@@ -17,16 +17,10 @@ const fleet = parseOrThrow(
   config.fleet_file,
 );
 const store = openSampleStore(config.store);
-const maps = vehicleDataMaps(fleet, config.fleet_file);
 const ingester = createIngester(config, {
   store,
   known_vehicles: new Set(fleet.vehicles.map((v) => v.id)),
-  vehicle_maps: new Map(
-    fleet.vehicles.map((v) => [
-      v.id,
-      { map: maps.get(v.id), reference_torque_nm: v.engine_reference_torque_nm ?? null },
-    ]),
-  ),
+  vehicle_maps: vehicleMapSpecs(fleet, config.fleet_file),
   log,
 });
 

@@ -27,6 +27,13 @@ export class IngestMetrics {
   /** Per vehicle, the frame tallies of the frames messages received (a redelivery counts again here). */
   private readonly frames = new Map<string, Record<string, number>>();
 
+  /** Samples built from frames but left out for a required signal missing (counted, not refused). */
+  get samples_incomplete(): number {
+    let n = 0;
+    for (const f of this.frames.values()) n += f.incomplete!;
+    return n;
+  }
+
   frameTally(t: FrameTally): void {
     let f = this.frames.get(t.vehicle);
     if (!f) this.frames.set(t.vehicle, (f = Object.fromEntries(FRAME_TALLY_COUNTS.map((c) => [c, 0]))));

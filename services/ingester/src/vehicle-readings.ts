@@ -1,4 +1,5 @@
-import type { DataMap } from '@thermargin/shared';
+import type { DataMap, FleetInput } from '@thermargin/shared';
+import { vehicleDataMaps } from '@thermargin/logger-data/io/data-maps';
 import { compileFrames, type DecoderConfig } from '@thermargin/logger-data/j1939/config';
 import { recordMapper } from '@thermargin/logger-data/record';
 
@@ -6,6 +7,17 @@ import { recordMapper } from '@thermargin/logger-data/record';
 export interface VehicleMapSpec {
   map?: DataMap | undefined;
   reference_torque_nm: number | null;
+}
+
+/** Each vehicle's spec from the fleet file read from `fleetPath` (mapping files are named relative to it). */
+export function vehicleMapSpecs(fleet: FleetInput, fleetPath: string): Map<string, VehicleMapSpec> {
+  const maps = vehicleDataMaps(fleet, fleetPath);
+  return new Map(
+    fleet.vehicles.map((v) => [
+      v.id,
+      { map: maps.get(v.id), reference_torque_nm: v.engine_reference_torque_nm ?? null },
+    ]),
+  );
 }
 
 /** How the ingester reads a vehicle's messages: its frames' decoder tables, its JSON field mapping. */

@@ -168,14 +168,19 @@ export function* vehicleFrames(samples: Iterable<Sample>, engine: boolean): Gene
 /** Whether the vehicle's frames carry engine messages (EEC1, EC1) rather than the traction power PGN. */
 export const sendsEngineFrames = (v: Pick<VehicleConfigInput, 'powertrain'>) => v.powertrain === 'ice';
 
-/** The fleet file for frames: each vehicle with its logger's mapping, the trucks with their reference torque. */
-export function framesFleet(fleet: FleetInput): FleetInput {
+/**
+ * The fleet file for frames: each vehicle (or those in `only`) with its logger's mapping, the trucks with
+ * their reference torque.
+ */
+export function framesFleet(fleet: FleetInput, only?: ReadonlySet<string>): FleetInput {
   return {
     ...fleet,
     vehicles: fleet.vehicles.map((v) =>
-      sendsEngineFrames(v)
-        ? { ...v, data_map: DEMO_FRAME_MAPS.engine, engine_reference_torque_nm: DEMO_REFERENCE_TORQUE_NM }
-        : { ...v, data_map: DEMO_FRAME_MAPS.electric },
+      only && !only.has(v.id)
+        ? v
+        : sendsEngineFrames(v)
+          ? { ...v, data_map: DEMO_FRAME_MAPS.engine, engine_reference_torque_nm: DEMO_REFERENCE_TORQUE_NM }
+          : { ...v, data_map: DEMO_FRAME_MAPS.electric },
     ),
   };
 }

@@ -15,6 +15,7 @@ export const STACK_ENV = {
   DEMO_VEHICLES: 'THERMARGIN_DEMO_VEHICLES',
   DEMO_DAYS: 'THERMARGIN_DEMO_DAYS',
   DEMO_SEED: 'THERMARGIN_DEMO_SEED',
+  DEMO_FRAMES: 'THERMARGIN_DEMO_FRAMES',
   SPEEDUP: 'THERMARGIN_SPEEDUP',
   RUN_FOR_S: 'THERMARGIN_RUN_FOR_S',
   VEHICLE_MQTT_URL: 'THERMARGIN_VEHICLE_MQTT_URL',
@@ -30,6 +31,8 @@ export interface StackConfig {
   vehicles: number;
   days: number;
   seed: number;
+  /** Demo vehicles whose loggers send SAE J1939 frames instead of samples (every third; 0: none). */
+  frames: number;
   /** 1: live simulated time per wall-clock time. */
   speedup: number;
   /** s, 0 = until Ctrl-C: stop by itself after this long (smoke tests). */
@@ -70,11 +73,14 @@ export function readStackConfig(processEnv: Env = process.env): StackConfig {
     vehicles: num(STACK_ENV.DEMO_VEHICLES, 10, (x) => int(x) && x >= 1, 'must be an integer ≥ 1'),
     days: num(STACK_ENV.DEMO_DAYS, 21, (x) => int(x) && x >= 1, 'must be an integer ≥ 1'),
     seed: num(STACK_ENV.DEMO_SEED, 1, int, 'must be an integer ≥ 0'),
+    frames: num(STACK_ENV.DEMO_FRAMES, -1, int, 'must be an integer ≥ 0'),
     speedup: num(STACK_ENV.SPEEDUP, 1, (x) => x > 0 && x <= 3600, 'must be a number in (0, 3600]'),
     run_for_s: num(STACK_ENV.RUN_FOR_S, 0, (x) => x >= 0, 'must be a number ≥ 0'),
     vehicle_mqtt_url: env[STACK_ENV.VEHICLE_MQTT_URL] || env.INGEST_MQTT_URL || undefined,
     env,
   };
   if (problems.length) throw new Error(`start configuration:\n  ${problems.join('\n  ')}`);
+  // By default a third of the fleet logs frames (with 10 vehicles: 3, the truck among them).
+  if (config.frames < 0) config.frames = Math.floor(config.vehicles / 3);
   return config;
 }

@@ -1,12 +1,14 @@
-import { existsSync, mkdirSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { startEmbeddedBroker, type EmbeddedBroker } from '@thermargin/broker';
 import { createIngester, readIngesterConfig } from '@thermargin/ingester';
+import { vehicleMapSpecs } from '@thermargin/ingester/vehicle-readings';
 import { readApiConfig } from '@thermargin/api/config';
 import { serveApi } from '@thermargin/api/start';
 import { wireApi } from '@thermargin/api/wiring';
 import { createScenario, publishScenario } from '@thermargin/simulator';
-import { FAULT_WORDS, faultKind, type Sample, SAFETY_CAUTION } from '@thermargin/shared';
+import { framesFleet } from '@thermargin/simulator/frames';
+import { FAULT_WORDS, faultKind, parseFleetText, type Sample, SAFETY_CAUTION } from '@thermargin/shared';
 import type { Logger } from '@thermargin/shared/log';
 import { brokerUsers, INGESTER_USER, loadDemoState } from './demo-state.ts';
 import { historyFeed, liveFeed } from './feed.ts';
@@ -68,8 +70,18 @@ async function main(): Promise<void> {
     end_ms: state.history_end_ms,
   });
   const fleetFile = cfg.env.FLEET_FILE || join(data, 'fleet.json');
-  if (!cfg.env.FLEET_FILE && !existsSync(fleetFile))
-    writeFileSync(fleetFile, `${JSON.stringify(scenario.fleet, null, 1)}\n`);
+  if (!cfg.env.FLEET_FILE && !existsSync(fleetFile)) {
+    const onFrames = frameVehicles(
+      scenario.fleet.vehicles.map((v) => v.id),
+      cfg.frames,
+    );
+    writeFileSync(fleetFile, `${JSON.stringify(framesFleet(scenario.fleet, onFrames), null, 1)}\n`);
+  }
+  // The fleet file says which loggers send frames (a vehicle whose mapping has a frames section), so a
+  // second start keeps the first one's choice.
+  const fleet = parseFleetText(readFileSync(fleetFile, 'utf8'), fleetFile);
+  const mapSpecs = vehicleMapSpecs(fleet, fleetFile);
+  const framesFrom = new Set([...mapSpecs].filter(([, s]) => s.map?.frames).map(([id]) => id));
   const users = brokerUsers(
     data,
     state,
@@ -110,7 +122,12 @@ async function main(): Promise<void> {
   const pieces = wireApi(apiCfg, { clock: Date.now, log: serviceLog });
   const store = pieces.samples;
   const known = new Set(scenario.fleet.vehicles.map((v) => v.id));
-  const ingester = createIngester(ingestCfg, { store, known_vehicles: known, log: serviceLog });
+  const ingester = createIngester(ingestCfg, {
+    store,
+    known_vehicles: known,
+    vehicle_maps: mapSpecs,
+    log: serviceLog,
+  });
   await ingester.start();
   const api = await serveApi(pieces, apiCfg, { clock: Date.now, log: serviceLog });
 
@@ -135,7 +152,10 @@ async function main(): Promise<void> {
   /** Announces once the ingester has taken every history sample (stored or rejected), so the figure is honest. */
   const announce = async (history_samples: number) => {
     const m = ingester.metrics;
-    while (m.samples_received + m.rejected_total < history_samples && !stop.signal.aborted)
+    while (
+      m.samples_received + m.rejected_total + m.samples_incomplete < history_samples &&
+      !stop.signal.aborted
+    )
       await new Promise((r) => setTimeout(r, 500));
     const samples = (await store.listVehicles()).reduce((n, v) => n + v.count, 0);
     log(
@@ -151,6 +171,7 @@ async function main(): Promise<void> {
     publishScenario(null, scenario, {
       samples,
       url: broker?.url ?? cfg.vehicle_mqtt_url,
+      frames: framesFrom,
       credentials: (vehicle) => ({ username: vehicle, password: state.vehicle_passwords[vehicle]! }),
     });
   const simulate = async () => {
@@ -166,6 +187,12 @@ async function main(): Promise<void> {
     if (!stop.signal.aborted) throw e;
   });
   await (stopping ?? new Promise(() => {}));
+}
+
+/** `n` of the demo's vehicles to log frames: every third first (with 10 vehicles: the truck among them). */
+function frameVehicles(ids: readonly string[], n: number): Set<string> {
+  const order = [...ids.filter((_, i) => i % 3 === 2), ...ids.filter((_, i) => i % 3 !== 2)];
+  return new Set(order.slice(0, n));
 }
 
 main().catch((e) => {

@@ -3,7 +3,7 @@ import { join } from 'node:path';
 import { decodeMessage } from '@thermargin/ingester/decode';
 import { createIngester } from '@thermargin/ingester/ingester';
 import { readIngesterConfig } from '@thermargin/ingester/config';
-import { type VehicleMapSpec, vehicleReadings } from '@thermargin/ingester/vehicle-readings';
+import { vehicleMapSpecs, vehicleReadings } from '@thermargin/ingester/vehicle-readings';
 import { j1939Id } from '@thermargin/logger-data/j1939/identifier';
 import {
   CAN_EXTENDED,
@@ -24,16 +24,7 @@ import { connectAs, fleetUsers, ingesterEnv, sleep, tempDir } from './support.ts
 
 const sc = createScenario({ seed: 2, vehicles: 6, days: 1 });
 const fleet = framesFleet(sc.fleet);
-const specs = (f: FleetInput): Map<string, VehicleMapSpec> =>
-  new Map(
-    f.vehicles.map((v) => [
-      v.id,
-      {
-        map: typeof v.data_map === 'object' ? v.data_map : undefined,
-        reference_torque_nm: v.engine_reference_torque_nm ?? null,
-      },
-    ]),
-  );
+const specs = (f: FleetInput) => vehicleMapSpecs(f, '');
 const readings = vehicleReadings(specs(fleet));
 const known = new Set(fleet.vehicles.map((v) => v.id));
 const NOW = sc.history.to_ms + 3_600_000;

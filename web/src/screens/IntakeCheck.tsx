@@ -4,6 +4,7 @@ import type {
   RejectedResponse,
   StatusResponse,
 } from '@thermargin/shared/api';
+import type { FramesResponse } from '@thermargin/shared/intake-api';
 import type { RejectReason } from '@thermargin/shared/telemetry';
 import { useState } from 'preact/hooks';
 import { Empty, Loaded } from '../components/States.tsx';
@@ -161,6 +162,72 @@ function Letters({ d, filter, all }: { d: DeadLettersResponse; filter: LetterFil
   );
 }
 
+/** Per vehicle sending CAN frames: what its frames held (counts over every frames message stored). */
+function Frames({ f }: { f: FramesResponse }) {
+  if (!f.vehicles.length) return <Empty>No vehicle sends CAN frames: all intake is samples.</Empty>;
+  const pct = (n: number, of: number) => (of ? ` (${((100 * n) / of).toFixed(1)} %)` : '');
+  return (
+    <div class="table-wrap">
+      <table class="grid" data-table="frames">
+        <thead>
+          <tr>
+            <th scope="col">Vehicle</th>
+            <th scope="col" class="num">
+              Frames
+            </th>
+            <th scope="col" class="num">
+              Decoded
+            </th>
+            <th scope="col" class="num">
+              Of unknown PGNs
+            </th>
+            <th scope="col" class="num">
+              Values not available
+            </th>
+            <th scope="col" class="num">
+              Error values
+            </th>
+            <th scope="col" class="num">
+              Samples built
+            </th>
+            <th scope="col" class="num">
+              Incomplete
+            </th>
+          </tr>
+        </thead>
+        <tbody>
+          {f.vehicles.map((v) => (
+            <tr key={v.vehicle} data-vehicle={v.vehicle}>
+              <th scope="row">
+                <a href={href.vehicle(v.vehicle)}>{v.vehicle}</a>
+              </th>
+              <td class="num">{v.frames.toLocaleString('en')}</td>
+              <td class="num" data-col="decoded">
+                {v.decoded.toLocaleString('en')}
+                <span class="small muted">{pct(v.decoded, v.frames)}</span>
+              </td>
+              <td class="num" data-col="unknown_pgn">
+                {v.unknown_pgn.toLocaleString('en')}
+              </td>
+              <td class={`num${v.not_available ? ' bad' : ''}`} data-col="not_available">
+                {v.not_available.toLocaleString('en')}
+              </td>
+              <td class={`num${v.error_values ? ' bad' : ''}`}>{v.error_values.toLocaleString('en')}</td>
+              <td class="num">{v.samples.toLocaleString('en')}</td>
+              <td class={`num${v.incomplete ? ' bad' : ''}`}>{v.incomplete.toLocaleString('en')}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <p class="small muted">
+        SAE J1939 frames are decoded at intake; frames of PGNs nothing reads are counted, not refused. Values
+        sent as "not available" or "error" count as missing. A sample missing a required signal is left out as
+        incomplete: a vehicle with many needs its mapping checked.
+      </p>
+    </div>
+  );
+}
+
 function Health({ s }: { s: StatusResponse }) {
   const now = Date.parse(s.time);
   const stale = s.analyzer.watermarks.filter((w) => w.analysed_to === null);
@@ -212,6 +279,7 @@ export function IntakeCheck({ session }: { session: Session }) {
     [session, live.version, filter.vehicle, filter.reason],
   );
   const status = useResource(() => session.api.call('status'), [session, live.version]);
+  const frames = useResource(() => session.api.call('intakeFrames'), [session, live.version]);
   return (
     <div class="screen" data-screen="intake">
       <h1>Intake check</h1>
@@ -225,6 +293,12 @@ export function IntakeCheck({ session }: { session: Session }) {
         <h2 id="letters">Refused messages</h2>
         <Loaded res={letters} what="the refused messages">
           {({ d, filter }) => <Letters d={d} filter={filter} all={() => setFilter({})} />}
+        </Loaded>
+      </section>
+      <section aria-labelledby="frames">
+        <h2 id="frames">CAN frames per vehicle</h2>
+        <Loaded res={frames} what="the frames taken">
+          {(f) => <Frames f={f} />}
         </Loaded>
       </section>
       <section aria-labelledby="pipeline">
