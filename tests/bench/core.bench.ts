@@ -3,8 +3,17 @@
  * a baseline measured in the same run on the same machine. Prints figures; asserts nothing.
  */
 import { spawnSync } from 'node:child_process';
-import { createReadStream, createWriteStream, mkdtempSync, rmSync, statSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import {
+  createReadStream,
+  createWriteStream,
+  mkdirSync,
+  mkdtempSync,
+  readFileSync,
+  rmSync,
+  statSync,
+  writeFileSync,
+} from 'node:fs';
+import { availableParallelism, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { NUMERIC_COLUMNS } from '@thermargin/shared';
 import { analyzeVehicle } from '@thermargin/core/analyze';
@@ -14,6 +23,8 @@ import { syntheticColumns } from './synthetic-trips.ts';
 
 const ESTIMATOR_SAMPLES = Number(process.env.BENCH_SAMPLES ?? 10_000_000);
 const CSV_ROWS = Number(process.env.BENCH_ROWS ?? 2_000_000);
+const FOLDER_ROWS = Number(process.env.BENCH_FOLDER_ROWS ?? 7_000_000);
+const FOLDER_VEHICLES = 20;
 const fmt = (x: number) => Math.round(x).toLocaleString('en-US');
 
 function time<T>(f: () => T): { s: number; value: T } {
@@ -46,7 +57,7 @@ function estimator(): void {
 }
 
 /** One vehicle's rows in time order (trips one after another), as a logger's export writes them. */
-async function writeCsv(file: string, rows: number): Promise<void> {
+async function writeCsv(file: string, rows: number, vehicle = 'bus-01', seed = 1): Promise<void> {
   const out = createWriteStream(file);
   out.write(
     'time,vehicle,trip,speed_kmh,power_kw,coolant_in_c,coolant_out_c,ambient_c,fan_pct,coolant_flow_lpm,derate\n',
@@ -55,11 +66,11 @@ async function writeCsv(file: string, rows: number): Promise<void> {
   const per = 70 * 3600;
   let shift_ms = 0;
   for (let from = 0; from < rows; from += per) {
-    const c = syntheticColumns(Math.min(per, rows - from), from + 1);
+    const c = syntheticColumns(Math.min(per, rows - from), from + seed);
     const lines: string[] = [];
     for (let i = 0; i < c.n; i++) {
       lines.push(
-        `${new Date(c.time_ms[i]! + shift_ms).toISOString()},bus-01,,${c.speed_kmh[i]!.toFixed(2)},${c.power_kw[i]!.toFixed(2)},${c.coolant_in_c[i]!.toFixed(3)},,${c.ambient_c[i]},${c.fan_pct[i]},,0`,
+        `${new Date(c.time_ms[i]! + shift_ms).toISOString()},${vehicle},,${c.speed_kmh[i]!.toFixed(2)},${c.power_kw[i]!.toFixed(2)},${c.coolant_in_c[i]!.toFixed(3)},,${c.ambient_c[i]},${c.fan_pct[i]},,0`,
       );
     }
     shift_ms += c.time_ms[c.n - 1]! - c.time_ms[0]! + 600_000;
@@ -69,9 +80,12 @@ async function writeCsv(file: string, rows: number): Promise<void> {
 }
 
 /** The CLI in a child process: wall seconds, its CPU seconds (user + system) and peak RSS in MB. */
-function runAnalyze(args: string[]): { s: number; cpu_s: number; rss_mb: number; code: number } {
+function runAnalyze(
+  args: string[],
+  out = '/dev/null',
+): { s: number; cpu_s: number; rss_mb: number; code: number } {
   const script = `const { main } = await import(${JSON.stringify(join(import.meta.dirname, '../../services/cli/src/main.ts'))});
-const code = await main(${JSON.stringify(['analyze', ...args, '--out', '/dev/null'])});
+const code = await main(${JSON.stringify(['analyze', ...args, '--out', out])});
 const u = process.resourceUsage();
 process.stderr.write('\\nusage=' + u.maxRSS + ',' + (u.userCPUTime + u.systemCPUTime) + '\\n'); process.exitCode = code;`;
   const t0 = process.hrtime.bigint();
@@ -123,5 +137,44 @@ async function endToEnd(): Promise<void> {
   }
 }
 
+/**
+ * A folder of many vehicles (one file each), analysed on one thread and on the machine's cores (vehicles
+ * spread over worker threads): rows/s, CPU, peak RSS (of the main thread's process, which holds the
+ * workers), and whether the two results are the same byte for byte.
+ */
+async function folder(): Promise<void> {
+  const dir = mkdtempSync(join(tmpdir(), 'thermargin-bench-folder-'));
+  try {
+    const data = join(dir, 'data');
+    mkdirSync(data);
+    const ids = Array.from({ length: FOLDER_VEHICLES }, (_, i) => `bus-${String(i + 1).padStart(2, '0')}`);
+    const fleet = join(dir, 'fleet.json');
+    writeFileSync(fleet, JSON.stringify({ vehicles: ids.map((id) => ({ ...BUS_CONFIG, id })) }));
+    for (const [i, id] of ids.entries())
+      await writeCsv(join(data, `${id}.csv`), Math.floor(FOLDER_ROWS / ids.length), id, 1 + i * 7919);
+    const rows = Math.floor(FOLDER_ROWS / ids.length) * ids.length;
+    const mb = ids.reduce((a, id) => a + statSync(join(data, `${id}.csv`)).size, 0) / 1048576;
+    const threads = availableParallelism();
+    const one = runAnalyze(['--fleet', fleet, '--data', data, '--threads', '1'], join(dir, 'one.json'));
+    const many = runAnalyze(
+      ['--fleet', fleet, '--data', data, '--threads', String(threads)],
+      join(dir, 'many.json'),
+    );
+    const same = readFileSync(join(dir, 'one.json')).equals(readFileSync(join(dir, 'many.json')));
+    console.log(
+      `thermargin analyze on a folder: ${fmt(rows)} rows of ${ids.length} vehicles, ${mb.toFixed(0)} MB CSV`,
+    );
+    console.log(
+      `  ${threads} threads   ${fmt(rows / many.s)} rows/s in ${many.s.toFixed(2)} s, CPU ${many.cpu_s.toFixed(2)} s, peak RSS ${many.rss_mb.toFixed(0)} MB   (target ≥ 1,200,000)  exit ${many.code}`,
+    );
+    console.log(
+      `  baseline 1 thread  ${fmt(rows / one.s)} rows/s in ${one.s.toFixed(2)} s, CPU ${one.cpu_s.toFixed(2)} s, peak RSS ${one.rss_mb.toFixed(0)} MB   ratio ${(one.s / many.s).toFixed(2)}; results identical: ${same}`,
+    );
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
 estimator();
 await endToEnd();
+await folder();

@@ -1,8 +1,10 @@
 /**
  * `npm run bench:ingest`: end-to-end ingestion (published → stored and queryable) per adapter, in the
  * same run as the raw ceilings it sits on: the broker alone (publisher → subscriber, same payloads) and
- * each store alone (bulk writes of the same points). Prints figures and ratios; asserts nothing.
- * The publisher runs as a child process (this file with `publish`), as vehicles would.
+ * each store alone (bulk writes of the same points). Then the same samples sent as SAE J1939 frames on
+ * the frames topic (the demo loggers' messages, decoded by the ingester) beside the samples path.
+ * Prints figures and ratios; asserts nothing. The publisher runs as a child process (this file with
+ * `publish`), as vehicles would.
  */
 import { spawn } from 'node:child_process';
 import { availableParallelism } from 'node:os';
@@ -13,11 +15,14 @@ import { PIPELINE_DEFAULTS } from '@thermargin/ingester/pipeline';
 import { DEFAULT_CONNECTIONS, ENV, readIngesterConfig } from '@thermargin/ingester/config';
 import {
   type Sample,
+  encodeFrameBatch,
   encodeSamplePayload,
+  frameTopic,
   sampleTopic,
   sharedSampleFilter,
   toSample,
 } from '@thermargin/shared';
+import { DEMO_FRAME_MAPS, sampleFrames } from '../../services/simulator/src/frames.ts';
 import { type SampleStore, createInfluxStore, createSqliteStore } from '@thermargin/store';
 import mqtt from 'mqtt';
 import { startInflux } from '../support/servers/influx.ts';
@@ -40,27 +45,41 @@ const STORE_CHUNK = 5000; // samples per store-alone write
 const TOTAL = IDS.length * PER_VEHICLE;
 
 if (process.argv[2] === 'publish') {
-  await publish(process.argv[3]!);
+  await publish(process.argv[3]!, process.argv[4] === 'frames');
   process.exit(0);
+}
+
+/** Bytes a message of the stream costs, samples and frames, for the comparison line. */
+function payloadBytes(frames: boolean): number {
+  const [samples] = fleetStream(IDS, BATCH);
+  return frames
+    ? encodeFrameBatch(samples!.flatMap((w) => sampleFrames(toSample(w), false))).length
+    : encodeSamplePayload(samples!).length;
 }
 
 /**
  * Publisher child: payloads encoded and vehicles connected first, then "ready"; on "go" (stdin) every
  * vehicle publishes its stream at QoS 1 with a window of messages in flight.
  */
-async function publish(url: string): Promise<void> {
+async function publish(url: string, frames: boolean): Promise<void> {
   const vehicles = await Promise.all(
     fleetStream(IDS, PER_VEHICLE).map(async (samples) => {
       const u = vehicleUser(samples[0]!.vehicle);
-      const payloads: string[] = [];
-      for (let i = 0; i < samples.length; i += BATCH)
-        payloads.push(encodeSamplePayload(samples.slice(i, i + BATCH)));
+      const payloads: (string | Buffer)[] = [];
+      for (let i = 0; i < samples.length; i += BATCH) {
+        const part = samples.slice(i, i + BATCH);
+        payloads.push(
+          frames
+            ? Buffer.from(encodeFrameBatch(part.flatMap((w) => sampleFrames(toSample(w), false))))
+            : encodeSamplePayload(part),
+        );
+      }
       const c = await mqtt.connectAsync(url, {
         username: u.username,
         password: u.password,
         protocolVersion: 5,
       });
-      return { c, topic: sampleTopic(u.username), payloads };
+      return { c, topic: (frames ? frameTopic : sampleTopic)(u.username), payloads };
     }),
   );
   process.stdout.write('ready\n');
@@ -85,8 +104,9 @@ async function publish(url: string): Promise<void> {
  * Starts the publisher child; resolves with `go`, which starts publishing and resolves when all is
  * acknowledged, with the CPU seconds the publisher used for it.
  */
-async function preparePublisher(url: string): Promise<() => Promise<number>> {
-  const child = spawn(process.execPath, ['--import', 'tsx', import.meta.filename, 'publish', url], {
+async function preparePublisher(url: string, frames = false): Promise<() => Promise<number>> {
+  const mode = frames ? ['frames'] : [];
+  const child = spawn(process.execPath, ['--import', 'tsx', import.meta.filename, 'publish', url, ...mode], {
     stdio: ['pipe', 'pipe', 'inherit'],
   });
   let report = '';
@@ -220,6 +240,7 @@ async function endToEnd(
   store: SampleStore,
   servers: Servers,
   name: string,
+  frames = false,
 ): Promise<Measured> {
   const config = readIngesterConfig({
     ...ingesterEnv({
@@ -235,11 +256,18 @@ async function endToEnd(
     // An offline session of an earlier run would keep its share of the stream queued on the broker.
     [ENV.SESSION_EXPIRY_S]: '1',
   });
-  const ingester = createIngester({ ...config, metrics_port: -1 }, { store, known_vehicles: new Set(IDS) });
+  // Frames: the demo loggers' electric mapping (traction power and the rest in its proprietary PGN).
+  const vehicle_maps = new Map(
+    IDS.map((id) => [id, { map: DEMO_FRAME_MAPS.electric, reference_torque_nm: null }]),
+  );
+  const ingester = createIngester(
+    { ...config, metrics_port: -1 },
+    { store, known_vehicles: new Set(IDS), ...(frames ? { vehicle_maps } : {}) },
+  );
   await ingester.start();
   let peakRss = 0;
   const sampler = setInterval(() => (peakRss = Math.max(peakRss, process.memoryUsage().rss)), 100);
-  const go = await preparePublisher(broker.url);
+  const go = await preparePublisher(broker.url, frames);
   let stored = 0;
   const m = await measure(servers, async () => {
     const publisher = await go();
@@ -272,7 +300,7 @@ console.log(
     `${CONNECTIONS} ingester connections; best of ${ROUNDS} rounds (fresh stores each round)`,
 );
 
-const PATHS = ['broker', 'sqlite_raw', 'influx_raw', 'sqlite_e2e', 'influx_e2e'] as const;
+const PATHS = ['broker', 'sqlite_raw', 'influx_raw', 'sqlite_e2e', 'influx_e2e', 'sqlite_frames'] as const;
 const rounds: Record<(typeof PATHS)[number], Measured>[] = [];
 for (let r = 0; r < ROUNDS; r++) {
   const broker_ = await brokerCeiling(broker, mosquittoOnly, `bench-raw-${r}`);
@@ -285,11 +313,19 @@ for (let r = 0; r < ROUNDS; r++) {
     `sqlite-${r}`,
   );
   const influx_e2e = await endToEnd(broker, await influxStore(`e2e_${r}`), both, `influx-${r}`);
-  rounds.push({ broker: broker_, sqlite_raw, influx_raw, sqlite_e2e, influx_e2e });
+  const sqlite_frames = await endToEnd(
+    broker,
+    createSqliteStore({ path: join(dir, `frames-${r}.db`) }),
+    mosquittoOnly,
+    `frames-${r}`,
+    true,
+  );
+  rounds.push({ broker: broker_, sqlite_raw, influx_raw, sqlite_e2e, influx_e2e, sqlite_frames });
   const pct = (e2e: number, ceilings: number[]) => `${Math.round((e2e / Math.min(...ceilings)) * 100)} %`;
   console.log(
     `round ${r + 1}: e2e SQLite ${sqlite_e2e.rate} (${pct(sqlite_e2e.rate, [broker_.rate, sqlite_raw.rate])}), ` +
-      `e2e InfluxDB ${influx_e2e.rate} (${pct(influx_e2e.rate, [broker_.rate, influx_raw.rate])})`,
+      `e2e InfluxDB ${influx_e2e.rate} (${pct(influx_e2e.rate, [broker_.rate, influx_raw.rate])}), ` +
+      `frames → SQLite ${sqlite_frames.rate} (${Math.round((sqlite_frames.rate / sqlite_e2e.rate) * 100)} % of samples → SQLite)`,
   );
 }
 const best = Object.fromEntries(
@@ -315,6 +351,13 @@ console.log(row(`SQLite alone (${STORE_CHUNK}-sample transactions, FULL)`, best.
 console.log(row(`InfluxDB 1.6 alone (${STORE_CHUNK}-line writes, ${lanes} in flight)`, best.influx_raw));
 console.log(row('end-to-end → SQLite', best.sqlite_e2e, Math.min(best.broker.rate, best.sqlite_raw.rate)));
 console.log(row('end-to-end → InfluxDB', best.influx_e2e, Math.min(best.broker.rate, best.influx_raw.rate)));
+console.log(
+  row('frames end-to-end → SQLite (of samples → SQLite)', best.sqlite_frames, best.sqlite_e2e.rate),
+);
+console.log(
+  `\na message of ${BATCH} samples: ${payloadBytes(false)} bytes as JSON, ${payloadBytes(true)} as J1939 frames ` +
+    `(${(payloadBytes(true) / BATCH / 6).toFixed(1)} bytes a frame, 6 frames a sample)`,
+);
 
 await broker.close();
 await influx.close();

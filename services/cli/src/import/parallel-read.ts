@@ -139,6 +139,8 @@ export async function readInParallel(
       new Promise<Done>((resolve, reject) => {
         const w = new Worker(new URL('./analyze-worker-entry.mjs', import.meta.url), {
           workerData: { ...input, jobs } satisfies WorkerInput,
+          // A worker refuses --input-type (this process may run from `node -e`); its entry loads tsx itself.
+          execArgv: process.execArgv.filter((a) => !a.startsWith('--input-type')),
         });
         w.on('message', (m: WorkerMessage) => {
           if (m.type === 'notes') told(m.index, m.notes);
