@@ -9,6 +9,7 @@ import {
   sendsEngineFrames,
   vehicleFrames,
 } from '../../services/simulator/src/frames.ts';
+import { EXPORT_COLUMNS, EXPORT_MAP, exportRow } from '../../services/simulator/src/logger-export.ts';
 import { createScenario } from '../../services/simulator/src/scenario.ts';
 import { runCli, tempFiles } from '../support/run-cli.ts';
 
@@ -17,63 +18,9 @@ const sc = createScenario({ seed: 7, vehicles: 1, days: 1 });
 const samples: Sample[] = [...sc.vehicleSamples('bus-01')];
 const FLEET = JSON.stringify(sc.fleet);
 
-const vienna = new Intl.DateTimeFormat('en-GB', {
-  timeZone: 'Europe/Vienna',
-  hourCycle: 'h23',
-  year: 'numeric',
-  month: '2-digit',
-  day: '2-digit',
-  hour: '2-digit',
-  minute: '2-digit',
-  second: '2-digit',
-});
-/** `01.07.2026 10:00:00`: local time in Vienna, day first, as a European logger writes it. */
-function localTime(ms: number): string {
-  const p = Object.fromEntries(vienna.formatToParts(ms).map((x) => [x.type, x.value]));
-  return `${p.day}.${p.month}.${p.year} ${p.hour}:${p.minute}:${p.second}`;
-}
-const comma = (x: number | undefined) => (x === undefined ? '' : String(x).replace('.', ','));
-
-/** A logger's own export: semicolons, decimal commas, °F, mph, W, US gal/min, fan as a fraction, local time. */
-function loggerExport(rows: readonly Sample[]): string {
-  const lines = [
-    'Zeitstempel;Fahrzeug;Geschw_mph;Leistung_W;EngCoolTemp;KuehlerAus;Durchfluss;Aussen_F;Luefter;Drossel;Notiz',
-  ];
-  const f = (c: number | undefined) => (c === undefined ? undefined : (c * 9) / 5 + 32);
-  for (const s of rows)
-    lines.push(
-      [
-        localTime(s.time_ms),
-        s.vehicle,
-        comma(s.speed_kmh / 1.609344),
-        comma(s.power_kw * 1000),
-        comma(f(s.coolant_in_c)),
-        comma(f(s.coolant_out_c)),
-        comma(s.coolant_flow_lpm === undefined ? undefined : s.coolant_flow_lpm / 3.785411784),
-        comma(f(s.ambient_c)),
-        comma(s.fan_pct / 100),
-        comma(s.derate),
-        'ok',
-      ].join(';'),
-    );
-  return `${lines.join('\n')}\n`;
-}
-
-const MAP = {
-  description: 'test logger export',
-  time: { field: 'Zeitstempel', form: 'local', zone: 'Europe/Vienna', date_order: 'dmy' },
-  vehicle: { field: 'Fahrzeug' },
-  fields: {
-    Geschw_mph: { signal: 'speed_kmh', unit: 'mph' },
-    Leistung_W: { signal: 'power_kw', unit: 'W' },
-    EngCoolTemp: { signal: 'coolant_in_c', unit: '°F' },
-    KuehlerAus: { signal: 'coolant_out_c', unit: 'degF' },
-    Durchfluss: { signal: 'coolant_flow_lpm', unit: 'US gal/min' },
-    Drossel: { signal: 'derate', unit: '0/1' },
-    Aussen_F: { signal: 'ambient_c', unit: '°F' },
-    Luefter: { signal: 'fan_pct', unit: 'fraction' },
-  },
-};
+const loggerExport = (rows: readonly Sample[]) =>
+  `${[EXPORT_COLUMNS.join(';'), ...rows.map(exportRow)].join('\n')}\n`;
+const MAP = EXPORT_MAP;
 
 type Report = {
   vehicles: {
@@ -200,7 +147,7 @@ describe('thermargin analyze on candump logs of SAE J1939 frames', () => {
     const r = analyze(dir, 'logs');
     expect(r.code).toBe(0);
     expect(r.stderr).toMatch(
-      /candump-2026-07-31_000000\.log: [\d,]+ frames, [\d,]+ decoded, 0 of PGNs not read/,
+      /candump-2026-07-31_000000\.log: [\d,]+ frames: [\d,]+ decoded, 0 of unknown PGNs/,
     );
     expectSameResult(csv, r.report!, 1e-12);
   });

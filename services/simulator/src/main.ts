@@ -1,15 +1,17 @@
 /**
- * Writes the demo fleet's history as import CSV (or its loggers' candump -l logs of J1939 frames) + fleet.json:
- *   node --import tsx services/simulator/src/main.ts --out DIR [--seed N] [--vehicles N] [--days N] [--end ISO|now] [--faults demo|none] [--format csv|candump]
+ * Writes the demo fleet's history as import CSV (or its loggers' candump -l logs of J1939 frames, or a data
+ * logger's own export with the mapping that reads it) + fleet.json:
+ *   node --import tsx services/simulator/src/main.ts --out DIR [--seed N] [--vehicles N] [--days N] [--end ISO|now] [--faults demo|none] [--format csv|candump|export]
  * Prints what it wrote and the generation speed.
  */
 import { parseArgs } from 'node:util';
 import { writeCandump } from './candump.ts';
 import { writeCsv } from './csv.ts';
+import { writeLoggerExport } from './logger-export.ts';
 import { createScenario, SCENARIO_DEFAULTS, type ScenarioOptions } from './scenario.ts';
 
 const USAGE =
-  'usage: main.ts --out DIR [--seed N] [--vehicles N] [--days N] [--end YYYY-MM-DD[THH:MM:SSZ]|now] [--faults demo|none] [--format csv|candump]';
+  'usage: main.ts --out DIR [--seed N] [--vehicles N] [--days N] [--end YYYY-MM-DD[THH:MM:SSZ]|now] [--faults demo|none] [--format csv|candump|export]';
 
 function integer(name: string, text: string | undefined, fallback: number): number {
   if (text === undefined) return fallback;
@@ -46,8 +48,10 @@ export function main(argv: string[]): void {
   if (!values.out) throw new Error(`--out is required\n${USAGE}`);
   if (values.faults !== undefined && values.faults !== 'demo' && values.faults !== 'none')
     throw new Error(`--faults must be demo or none, got ${JSON.stringify(values.faults)}`);
-  if (values.format !== undefined && values.format !== 'csv' && values.format !== 'candump')
-    throw new Error(`--format must be csv or candump, got ${JSON.stringify(values.format)}`);
+  const writers = { csv: writeCsv, candump: writeCandump, export: writeLoggerExport };
+  const format = (values.format ?? 'csv') as keyof typeof writers;
+  if (!Object.hasOwn(writers, format))
+    throw new Error(`--format must be csv, candump or export, got ${JSON.stringify(values.format)}`);
   const options: Partial<ScenarioOptions> = {
     seed: integer('seed', values.seed, SCENARIO_DEFAULTS.seed),
     vehicles: integer('vehicles', values.vehicles, SCENARIO_DEFAULTS.vehicles),
@@ -57,7 +61,7 @@ export function main(argv: string[]): void {
   };
   const t0 = performance.now();
   const scenario = createScenario(options);
-  const r = (values.format === 'candump' ? writeCandump : writeCsv)(values.out, scenario);
+  const r = writers[format](values.out, scenario);
   const s = (performance.now() - t0) / 1000;
   console.log(
     `wrote ${r.samples} samples for ${scenario.fleet.vehicles.length} vehicles to ${values.out} in ${s.toFixed(1)} s (${Math.round(r.samples / s)} samples/s)`,

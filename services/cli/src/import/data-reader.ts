@@ -169,8 +169,8 @@ export class DataReader {
       const top = r.unknown_pgns.slice(0, 5).map(([pgn, n]) => `${pgn} ×${n}`);
       const n = (x: number) => x.toLocaleString('en-US');
       this.audit.note(
-        `${file.path}: ${n(r.file.frames)} frames, ${n(r.frames.decoded)} decoded, ` +
-          `${n(r.frames.unknown_pgn)} of PGNs not read${top.length ? ` (${top.join(', ')})` : ''}, ` +
+        `${file.path}: ${n(r.file.frames)} frames: ${n(r.frames.decoded)} decoded, ` +
+          `${n(r.frames.unknown_pgn)} of unknown PGNs${top.length ? ` (${top.join(', ')})` : ''}, ` +
           `${n(r.frames.not_available)} values not available, ${n(r.frames.error_values)} error values → ${n(r.frames.samples)} samples`,
       );
     }
