@@ -1,6 +1,6 @@
 import { closeSync, mkdirSync, openSync, writeFileSync, writeSync } from 'node:fs';
 import { join } from 'node:path';
-import { type Sample, SIGNAL_NAMES } from '@thermargin/shared';
+import { type Sample, SIGNAL_NAMES, type VehicleConfigInput } from '@thermargin/shared';
 import type { Scenario, TimeRange } from './scenario.ts';
 
 /** The import format's columns, in the order written: time, vehicle, trip, then the contract's signals. */
@@ -42,22 +42,37 @@ export interface CsvWriteResult {
   samples: number;
 }
 
-/**
- * Writes the scenario in the import format: `<dir>/<vehicle>.csv` (header row, one sample a row,
- * empty cell = missing signal) for the range (default: the history), and `<dir>/fleet.json`.
- */
-export function writeCsv(dir: string, scenario: Scenario, range?: TimeRange): CsvWriteResult {
+/** What a writer says of each vehicle's file: its extension and its lines (header first, if any). */
+export interface PerVehicleFormat {
+  ext: string;
+  lines: (vehicle: VehicleConfigInput, samples: Iterable<Sample>) => Iterable<string>;
+  /** JSON files written beside the data (name → content), the fleet file among them. */
+  json: readonly (readonly [string, unknown])[];
+}
+
+/** One file per vehicle, written in large pieces, then the JSON files: what every writer of the demo shares. */
+export function writePerVehicle(
+  dir: string,
+  scenario: Scenario,
+  range: TimeRange | undefined,
+  format: PerVehicleFormat,
+): CsvWriteResult {
   mkdirSync(dir, { recursive: true });
   const files: string[] = [];
   let samples = 0;
   for (const v of scenario.fleet.vehicles) {
-    const path = join(dir, `${v.id}.csv`);
+    const path = join(dir, `${v.id}.${format.ext}`);
+    const counted = (function* () {
+      for (const s of scenario.vehicleSamples(v.id, range)) {
+        samples++;
+        yield s;
+      }
+    })();
     const fd = openSync(path, 'w');
     try {
-      let buf: string[] = [CSV_COLUMNS.join(',')];
-      for (const s of scenario.vehicleSamples(v.id, range)) {
-        buf.push(csvRow(s));
-        samples++;
+      let buf: string[] = [];
+      for (const line of format.lines(v, counted)) {
+        buf.push(line);
         if (buf.length >= ROWS_PER_WRITE) {
           writeSync(fd, `${buf.join('\n')}\n`);
           buf = [];
@@ -69,8 +84,24 @@ export function writeCsv(dir: string, scenario: Scenario, range?: TimeRange): Cs
     }
     files.push(path);
   }
-  const fleetPath = join(dir, 'fleet.json');
-  writeFileSync(fleetPath, `${JSON.stringify(scenario.fleet, null, 2)}\n`);
-  files.push(fleetPath);
+  for (const [name, data] of format.json) {
+    writeFileSync(join(dir, name), `${JSON.stringify(data, null, 2)}\n`);
+    files.push(join(dir, name));
+  }
   return { files, samples };
+}
+
+/**
+ * Writes the scenario in the import format: `<dir>/<vehicle>.csv` (header row, one sample a row,
+ * empty cell = missing signal) for the range (default: the history), and `<dir>/fleet.json`.
+ */
+export function writeCsv(dir: string, scenario: Scenario, range?: TimeRange): CsvWriteResult {
+  return writePerVehicle(dir, scenario, range, {
+    ext: 'csv',
+    *lines(_v, samples) {
+      yield CSV_COLUMNS.join(',');
+      for (const s of samples) yield csvRow(s);
+    },
+    json: [['fleet.json', scenario.fleet]],
+  });
 }

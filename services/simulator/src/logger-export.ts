@@ -1,7 +1,5 @@
-import { closeSync, mkdirSync, openSync, writeFileSync, writeSync } from 'node:fs';
-import { join } from 'node:path';
 import type { DataMap, Sample } from '@thermargin/shared';
-import type { CsvWriteResult } from './csv.ts';
+import { type CsvWriteResult, writePerVehicle } from './csv.ts';
 import type { Scenario, TimeRange } from './scenario.ts';
 
 /**
@@ -86,34 +84,15 @@ export function exportRow(s: Sample): string {
 
 /** Writes `<dir>/<vehicle>.csv` as the logger exports them, `<dir>/map.json` and `<dir>/fleet.json`. */
 export function writeLoggerExport(dir: string, scenario: Scenario, range?: TimeRange): CsvWriteResult {
-  mkdirSync(dir, { recursive: true });
-  const files: string[] = [];
-  let samples = 0;
-  for (const v of scenario.fleet.vehicles) {
-    const path = join(dir, `${v.id}.csv`);
-    const fd = openSync(path, 'w');
-    try {
-      let buf: string[] = [EXPORT_COLUMNS.join(';')];
-      for (const s of scenario.vehicleSamples(v.id, range)) {
-        buf.push(exportRow(s));
-        samples++;
-        if (buf.length >= 20_000) {
-          writeSync(fd, `${buf.join('\n')}\n`);
-          buf = [];
-        }
-      }
-      if (buf.length) writeSync(fd, `${buf.join('\n')}\n`);
-    } finally {
-      closeSync(fd);
-    }
-    files.push(path);
-  }
-  for (const [name, data] of [
-    ['map.json', EXPORT_MAP],
-    ['fleet.json', scenario.fleet],
-  ] as const) {
-    writeFileSync(join(dir, name), `${JSON.stringify(data, null, 2)}\n`);
-    files.push(join(dir, name));
-  }
-  return { files, samples };
+  return writePerVehicle(dir, scenario, range, {
+    ext: 'csv',
+    *lines(_v, samples) {
+      yield EXPORT_COLUMNS.join(';');
+      for (const s of samples) yield exportRow(s);
+    },
+    json: [
+      ['map.json', EXPORT_MAP],
+      ['fleet.json', scenario.fleet],
+    ],
+  });
 }
