@@ -96,6 +96,20 @@ describe('thermargin analyze with a mapping: a logger export as it comes', () =>
     expectSameResult(reference, r.report!, 1e-9);
   });
 
+  it('sizing reads the export through the mapping to the same figures as the import format', () => {
+    const size = (data: string, ...extra: string[]) =>
+      runCli(['sizing', '--fleet', join(dir, 'fleet.json'), '--data', join(dir, data), ...extra]);
+    const a = size('contract.csv');
+    const b = size('export.csv', '--map', join(dir, 'map.json'));
+    expect([a.code, b.code]).toEqual([0, 0]);
+    const [ra, rb] = [JSON.parse(a.stdout), JSON.parse(b.stdout)];
+    expect(rb.period).toEqual(ra.period);
+    expect(rb.vehicles.length).toBe(ra.vehicles.length);
+    const refused = runCli(['sizing', '--from-store', '--map', join(dir, 'map.json')]);
+    expect(refused.code).toBe(2);
+    expect(refused.stderr).toMatch(/--map: not with --from-store/);
+  });
+
   it('without the mapping says which columns are missing and points at --map', () => {
     const r = analyze(dir, 'export.csv');
     expect(r.code).toBe(2);

@@ -12,6 +12,7 @@ import {
   parseCandumpLine,
 } from '@thermargin/logger-data/candump';
 import { readCandumpFile } from '@thermargin/logger-data/io/candump-file';
+import { MAX_LINE_BYTES } from '@thermargin/logger-data/io/lines';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 
@@ -115,5 +116,20 @@ describe('reading a candump log file', () => {
       'log.txt:4: clock_back: time 1717230000.150000 is before the frame before it',
     ]);
     expect(c).toEqual({ lines: 6, frames: 3, bad_lines: 1, no_data: 1, clock_back: 1 });
+  });
+
+  it('refuses a line too long to be a log line, naming it, instead of buffering the file whole', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'candump-'));
+    const file = join(dir, 'huge.log');
+    writeFileSync(file, `(1.0) can0 123#00\n${'F'.repeat(MAX_LINE_BYTES + 10)}\n(2.0) can0 123#00\n`);
+    const seen: number[] = [];
+    expect(() =>
+      readCandumpFile(
+        file,
+        (t) => seen.push(t),
+        () => {},
+      ),
+    ).toThrow(`${file}:2: line longer than ${MAX_LINE_BYTES} bytes`);
+    expect(seen).toEqual([1_000_000]);
   });
 });

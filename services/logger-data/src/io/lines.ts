@@ -24,8 +24,12 @@ export function forEachLine(file: string, visit: LineVisitor, onBytes?: (n: numb
   const buf = Buffer.allocUnsafe(READ_BYTES);
   let kept = 0;
   let line = 0;
-  const take = (s: Buffer, start: number, nl: number) =>
+  const tooLong = () =>
+    new InputError([{ where: `${file}:${line + 1}`, rule: `line longer than ${MAX_LINE_BYTES} bytes` }]);
+  const take = (s: Buffer, start: number, nl: number) => {
+    if (nl - start > MAX_LINE_BYTES) throw tooLong();
     visit(s, start, nl > start && s[nl - 1] === 13 ? nl - 1 : nl, ++line);
+  };
   try {
     for (;;) {
       const n = readSync(fd, buf, kept, buf.length - kept, null);
