@@ -145,30 +145,39 @@ async function endToEnd(): Promise<void> {
 async function folder(): Promise<void> {
   const dir = mkdtempSync(join(tmpdir(), 'thermargin-bench-folder-'));
   try {
-    const data = join(dir, 'data');
-    mkdirSync(data);
     const ids = Array.from({ length: FOLDER_VEHICLES }, (_, i) => `bus-${String(i + 1).padStart(2, '0')}`);
     const fleet = join(dir, 'fleet.json');
     writeFileSync(fleet, JSON.stringify({ vehicles: ids.map((id) => ({ ...BUS_CONFIG, id })) }));
-    for (const [i, id] of ids.entries())
-      await writeCsv(join(data, `${id}.csv`), Math.floor(FOLDER_ROWS / ids.length), id, 1 + i * 7919);
+    /** The folder of `rows` rows in all, one file per vehicle. */
+    const write = async (name: string, rows: number) => {
+      const data = join(dir, name);
+      mkdirSync(data);
+      for (const [i, id] of ids.entries())
+        await writeCsv(join(data, `${id}.csv`), Math.floor(rows / ids.length), id, 1 + i * 7919);
+      return data;
+    };
+    const half = await write('half', FOLDER_ROWS / 2);
+    const data = await write('full', FOLDER_ROWS);
     const rows = Math.floor(FOLDER_ROWS / ids.length) * ids.length;
     const mb = ids.reduce((a, id) => a + statSync(join(data, `${id}.csv`)).size, 0) / 1048576;
     const threads = availableParallelism();
-    const one = runAnalyze(['--fleet', fleet, '--data', data, '--threads', '1'], join(dir, 'one.json'));
-    const many = runAnalyze(
-      ['--fleet', fleet, '--data', data, '--threads', String(threads)],
-      join(dir, 'many.json'),
-    );
+    const on = (path: string, n: number, out: string) =>
+      runAnalyze(['--fleet', fleet, '--data', path, '--threads', String(n)], join(dir, out));
+    const one = on(data, 1, 'one.json');
+    const many = on(data, threads, 'many.json');
+    const smaller = on(half, threads, 'half.json');
     const same = readFileSync(join(dir, 'one.json')).equals(readFileSync(join(dir, 'many.json')));
     console.log(
       `thermargin analyze on a folder: ${fmt(rows)} rows of ${ids.length} vehicles, ${mb.toFixed(0)} MB CSV`,
     );
     console.log(
-      `  ${threads} threads   ${fmt(rows / many.s)} rows/s in ${many.s.toFixed(2)} s, CPU ${many.cpu_s.toFixed(2)} s, peak RSS ${many.rss_mb.toFixed(0)} MB   (target ≥ 1,200,000)  exit ${many.code}`,
+      `  ${threads} threads   ${fmt(rows / many.s)} rows/s in ${many.s.toFixed(2)} s, CPU ${many.cpu_s.toFixed(2)} s   (target ≥ 1,200,000)  exit ${many.code}`,
     );
     console.log(
-      `  baseline 1 thread  ${fmt(rows / one.s)} rows/s in ${one.s.toFixed(2)} s, CPU ${one.cpu_s.toFixed(2)} s, peak RSS ${one.rss_mb.toFixed(0)} MB   ratio ${(one.s / many.s).toFixed(2)}; results identical: ${same}`,
+      `  baseline 1 thread  ${fmt(rows / one.s)} rows/s in ${one.s.toFixed(2)} s, CPU ${one.cpu_s.toFixed(2)} s   ratio ${(one.s / many.s).toFixed(2)}; results identical: ${same}`,
+    );
+    console.log(
+      `  peak RSS on ${threads} threads: ${smaller.rss_mb.toFixed(0)} MB at ${fmt(rows / 2)} rows, ${many.rss_mb.toFixed(0)} MB at ${fmt(rows)} (ratio ${(many.rss_mb / smaller.rss_mb).toFixed(2)}); 1 thread ${one.rss_mb.toFixed(0)} MB`,
     );
   } finally {
     rmSync(dir, { recursive: true, force: true });
