@@ -35,7 +35,6 @@ export const UNITS = {
   flag: ['0/1'],
 } as const satisfies Record<Quantity, readonly string[]>;
 export type Unit = (typeof UNITS)[Quantity][number];
-export const ALL_UNITS: readonly string[] = Object.values(UNITS).flat();
 
 /** How a time column or field is written. `local` needs `zone` (an IANA time zone such as Europe/Vienna). */
 export const TIME_FORMS = ['iso8601', 'epoch_s', 'epoch_ms', 'epoch_us', 'local'] as const;

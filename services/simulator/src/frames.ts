@@ -21,7 +21,7 @@ import { j1939Id } from '@thermargin/logger-data/j1939/identifier';
 const ENGINE_SA = 0x00;
 const COOLING_SA = 0x27;
 /** The demo's proprietary PGN (J1939-21 proprietary B range, 65280–65535). */
-export const DEMO_PGN = 65312;
+const DEMO_PGN = 65312;
 /** N·m: the demo trucks' engine reference torque (a round figure for a 13 L engine, common practice). */
 export const DEMO_REFERENCE_TORQUE_NM = 2600;
 
