@@ -1,6 +1,8 @@
 import { DecodePool } from '@thermargin/ingester/decode-pool';
 import { type Decoded, safeDecode } from '@thermargin/ingester/decode';
-import { encodeSamplePayload, sampleTopic } from '@thermargin/shared';
+import { vehicleReadings } from '@thermargin/ingester/vehicle-readings';
+import { encodeFrameBatch, encodeSamplePayload, frameTopic, sampleTopic, toSample } from '@thermargin/shared';
+import { DEMO_FRAME_MAPS, sampleFrames } from '../../../services/simulator/src/frames.ts';
 import { afterAll, describe, expect, it } from 'vitest';
 import { hostileCorpus } from './corpus.ts';
 import { fleetStream } from './support.ts';
@@ -43,5 +45,24 @@ describe('DecodePool (decoding on worker threads)', () => {
     const d = await pool.decode(sampleTopic('bus-02'), big.subarray(7, 7 + text.length), now_ms);
     expect(d.rejects).toEqual([]);
     expect(d.samples.map((s) => s.time_ms)).toEqual(stream.map((w) => w.time));
+  });
+});
+
+describe('DecodePool with frames', () => {
+  it('decodes frames messages on the workers with the vehicles’ mappings, as the main thread does', async () => {
+    const maps = new Map([['bus-01', { map: DEMO_FRAME_MAPS.electric, reference_torque_nm: null }]]);
+    const framed = { ...ctx, readings: vehicleReadings(maps) };
+    const withMaps = new DecodePool(1, framed, () => {}, maps);
+    const [stream = []] = fleetStream(['bus-01'], 300);
+    const payload = Buffer.from(encodeFrameBatch(stream.flatMap((w) => sampleFrames(toSample(w), false))));
+    const cut = payload.subarray(0, payload.length - 5);
+    for (const p of [payload, cut]) {
+      const viaPool = await withMaps.decode(frameTopic('bus-01'), p, now_ms);
+      expect(viaPool).toEqual(safeDecode(frameTopic('bus-01'), p, { ...framed, now_ms }));
+    }
+    const whole = await withMaps.decode(frameTopic('bus-01'), payload, now_ms);
+    expect(whole.samples).toHaveLength(300);
+    expect(whole.tallies[0]).toMatchObject({ vehicle: 'bus-01', samples: 300, incomplete: 0 });
+    await withMaps.close();
   });
 });
