@@ -187,6 +187,18 @@ describe('thermargin analyze on candump logs of SAE J1939 frames', () => {
     expect(r.stderr).toContain(`${log}:21: row skipped: candump_syntax`);
     expect(r.report!.rejected.total).toBeGreaterThanOrEqual(4);
   });
+
+  it('holds a candump log to the same --max-line-bytes as a table, with the same message', () => {
+    const fleet = framesFleet(sc.fleet);
+    const frames = [...vehicleFrames(samples.slice(0, 60), false)].map(candumpLine);
+    frames[5] = `${frames[5]} ${'0'.repeat(200)}`;
+    const dir = tempFiles({ 'fleet.json': JSON.stringify(fleet), 'bus-01.log': `${frames.join('\n')}\n` });
+    const r = analyze(dir, 'bus-01.log', '--max-line-bytes', '128');
+    expect(r.code).toBe(2);
+    expect(r.stderr).toContain(
+      `${join(dir, 'bus-01.log')}:6: line longer than 128 bytes (no line break within it); if the file is right, raise --max-line-bytes`,
+    );
+  });
 });
 
 describe('a mapping file that cannot be used is refused, naming the field', () => {

@@ -12,7 +12,7 @@ import {
   parseCandumpLine,
 } from '@thermargin/logger-data/candump';
 import { readCandumpFile } from '@thermargin/logger-data/io/candump-file';
-import { MAX_LINE_BYTES } from '@thermargin/logger-data/io/lines';
+import { forEachLine, MAX_LINE_BYTES, READ_BYTES } from '@thermargin/logger-data/io/lines';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 
@@ -131,5 +131,31 @@ describe('reading a candump log file', () => {
       ),
     ).toThrow(`${file}:2: line longer than ${MAX_LINE_BYTES} bytes`);
     expect(seen).toEqual([1_000_000]);
+  });
+
+  it('takes the one line limit of every data file (--max-line-bytes), lower or above the read size', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'candump-'));
+    const file = join(dir, 'limits.log');
+    const long = `(1.5) can0 123#00 ${'x'.repeat(READ_BYTES + 100)}`; // one line over a whole read
+    writeFileSync(file, `(1.0) can0 123#00\n${long}\n(2.0) can0 123#00\n`);
+    const read = (max: number) => {
+      const bad: string[] = [];
+      readCandumpFile(
+        file,
+        () => {},
+        (where, reason) => bad.push(`${where} ${reason}`),
+        undefined,
+        max,
+      );
+      return bad;
+    };
+    expect(() => read(64)).toThrow(
+      `${file}:2: line longer than 64 bytes (no line break within it); if the file is right, raise --max-line-bytes`,
+    );
+    expect(read(2 * READ_BYTES)).toEqual([`${file}:2 candump_syntax`]);
+    let lines = 0;
+    forEachLine(file, () => lines++, undefined, 2 * READ_BYTES);
+    expect(lines).toBe(3);
+    expect(() => forEachLine(file, () => {})).toThrow(`${file}:2: line longer than ${MAX_LINE_BYTES} bytes`);
   });
 });

@@ -23,7 +23,7 @@ export interface AnalyzedData {
 export interface DataOptions {
   /** Mapping file (--map) for every file whose vehicle has no mapping of its own in the fleet file. */
   map?: string | undefined;
-  /** bytes: the longest table line read (--max-line-bytes; default CSV_LIMITS.max_line_bytes). */
+  /** bytes: the longest line read, tables and candump logs alike (--max-line-bytes; default MAX_LINE_BYTES). */
   max_line_bytes?: number | undefined;
   /** Threads reading and analysing (default: the machine's cores; 1 with an observer). */
   threads?: number | undefined;

@@ -3,6 +3,7 @@ import { type DataMap, InputError, isValidId, NUMERIC_COLUMNS } from '@thermargi
 import { detectDialect } from '@thermargin/logger-data/table/dialect';
 import { type TableLayout, tableLayout } from '@thermargin/logger-data/table/layout';
 import { mapValue } from '@thermargin/logger-data/units';
+import { lineTooLong, MAX_LINE_BYTES, READ_BYTES, roomFor } from '@thermargin/logger-data/io/lines';
 import { readDecimal } from './decimal.ts';
 import { fastTime_ms } from './iso-time.ts';
 
@@ -16,7 +17,7 @@ export interface CsvSink {
 export interface CsvOptions {
   map?: DataMap | undefined;
   vehicle_id?: string | null;
-  /** bytes: the longest line read (default CSV_LIMITS.max_line_bytes). */
+  /** bytes: the longest line read (default MAX_LINE_BYTES, 1 MiB). */
   max_line_bytes?: number | undefined;
 }
 
@@ -208,30 +209,6 @@ function isBlankLine(s: Uint8Array, start: number, end: number): boolean {
   return true;
 }
 
-/** bytes read per system call: few large reads win where a system call is dear (virtual machines). */
-const READ_BYTES = 4 << 20;
-
-export const CSV_LIMITS = {
-  /**
-   * bytes, 1 MiB (`--max-line-bytes`): the longest line read; a longer one (a file without line
-   * breaks, a runaway field) ends the file with exit 2 at its file:line, and memory stays at the read
-   * buffer. A row of every signal takes about 200 bytes; exports with many extra columns, a few KiB.
-   */
-  max_line_bytes: 1 << 20,
-};
-
-function tooLong(file: string, line: number, max: number): InputError {
-  return new InputError(
-    [
-      {
-        where: `${file}:${line}`,
-        rule: `line longer than ${max} bytes (no line break within it); if the file is right, raise --max-line-bytes`,
-      },
-    ],
-    `${file} has a line over the limit`,
-  );
-}
-
 /**
  * Reads one CSV file of the import format (header naming the contract's columns in any order,
  * unknown columns ignored, empty cell = missing), or a logger's own table read through a mapping
@@ -247,7 +224,7 @@ export function readCsvFile(
   onBytes?: (n: number) => void,
   options: CsvOptions = {},
 ): number {
-  const max_line_bytes = options.max_line_bytes ?? CSV_LIMITS.max_line_bytes;
+  const max_line_bytes = options.max_line_bytes ?? MAX_LINE_BYTES;
   let buf = Buffer.allocUnsafe(READ_BYTES);
   let fd: number;
   try {
@@ -261,12 +238,7 @@ export function readCsvFile(
   let kept = 0;
   try {
     for (;;) {
-      if (kept === buf.length) {
-        // One line longer than the buffer: make room for the rest of it.
-        const bigger = Buffer.allocUnsafe(buf.length * 2);
-        buf.copy(bigger, 0, 0, kept);
-        buf = bigger;
-      }
+      buf = roomFor(buf, kept);
       const n = readSync(fd, buf, kept, buf.length - kept, null);
       if (n === 0) break;
       const s = buf.subarray(0, kept + n);
@@ -274,13 +246,13 @@ export function readCsvFile(
       // Searched once per chunk, not per line: most files hold no quote at all.
       let quote = s.indexOf(34);
       for (let nl = s.indexOf(10); nl >= 0; nl = s.indexOf(10, start)) {
-        if (nl - start > max_line_bytes) throw tooLong(file, p.line + 1, max_line_bytes);
+        if (nl - start > max_line_bytes) throw lineTooLong(file, p.line + 1, max_line_bytes);
         if (quote >= 0 && quote < start) quote = s.indexOf(34, start);
         p.take(s, start, nl > start && s[nl - 1] === 13 ? nl - 1 : nl, quote >= 0 && quote < nl);
         start = nl + 1;
       }
       kept = s.length - start;
-      if (kept > max_line_bytes) throw tooLong(file, p.line + 1, max_line_bytes);
+      if (kept > max_line_bytes) throw lineTooLong(file, p.line + 1, max_line_bytes);
       buf.copyWithin(0, start, s.length);
       onBytes?.(n);
     }

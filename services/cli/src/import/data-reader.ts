@@ -163,6 +163,7 @@ export class DataReader {
         (values) => push(vehicle, values, undefined, values[0]!, true),
         bad,
         this.o.onBytes,
+        this.ctx.max_line_bytes,
       );
       const f = (this.frames[vehicle] ??= emptyFrameCounts());
       for (const k of Object.keys(f) as (keyof FrameCounts)[]) f[k] += r.frames[k];

@@ -1,7 +1,7 @@
 import { closeSync, openSync, readSync } from 'node:fs';
 import { InputError } from '@thermargin/shared';
 import { LINE_BAD, LINE_FRAME, LINE_NO_DATA, newParsedFrame, parseCandumpLine } from '../candump.ts';
-import { MAX_LINE_BYTES } from './lines.ts';
+import { lineTooLong, MAX_LINE_BYTES, READ_BYTES, roomFor } from './lines.ts';
 
 /** What a candump log held besides frames, counted. */
 export interface CandumpFileCounts {
@@ -25,20 +25,18 @@ export type CandumpVisitor = (
   line: number,
 ) => void;
 
-/** bytes read per system call: few large reads win on these machines (≈ 1 µs per call). */
-const READ_BYTES = 4 << 20;
-
 /**
  * Reads a `candump -l` log, handing each frame in time order to `visit`; each line that cannot be used
  * goes to `bad` with its file:line and the rule (`candump_syntax`, `clock_back`), then is counted. Reads
  * large chunks and parses lines in place, the parser finding each line's end (memory: one chunk).
- * Throws InputError when the file cannot be opened or a line exceeds MAX_LINE_BYTES.
+ * Throws InputError when the file cannot be opened or a line exceeds `max_line_bytes`.
  */
 export function readCandumpFile(
   file: string,
   visit: CandumpVisitor,
   bad: (where: string, reason: string, detail: string) => void,
   onBytes?: (n: number) => void,
+  max_line_bytes = MAX_LINE_BYTES,
 ): CandumpFileCounts {
   const f = newParsedFrame();
   const c: CandumpFileCounts = { lines: 0, frames: 0, bad_lines: 0, no_data: 0, clock_back: 0 };
@@ -49,12 +47,12 @@ export function readCandumpFile(
   } catch {
     throw new InputError([{ where: file, rule: 'cannot open the file' }]);
   }
-  const tooLong = () =>
-    new InputError([{ where: `${file}:${c.lines + 1}`, rule: `line longer than ${MAX_LINE_BYTES} bytes` }]);
-  const buf = Buffer.allocUnsafe(READ_BYTES);
+  const tooLong = () => lineTooLong(file, c.lines + 1, max_line_bytes);
+  let buf = Buffer.allocUnsafe(READ_BYTES);
   let kept = 0;
   try {
     for (;;) {
+      buf = roomFor(buf, kept);
       const n = readSync(fd, buf, kept, buf.length - kept, null);
       const eof = n === 0;
       const limit = kept + n;
@@ -62,7 +60,7 @@ export function readCandumpFile(
       while (p < limit) {
         const kind = parseCandumpLine(buf, p, limit, f);
         if (!f.terminated && !eof) break; // the rest of this line comes with the next read
-        if (f.next - p > MAX_LINE_BYTES) throw tooLong();
+        if (f.next - p > max_line_bytes) throw tooLong();
         p = f.next;
         const line = ++c.lines;
         if (kind === LINE_FRAME) {
@@ -85,7 +83,7 @@ export function readCandumpFile(
       }
       if (eof) break;
       kept = limit - p;
-      if (kept > MAX_LINE_BYTES) throw tooLong();
+      if (kept > max_line_bytes) throw tooLong();
       buf.copyWithin(0, p, limit);
       onBytes?.(n);
     }

@@ -21,6 +21,7 @@ export function candumpSamples(
   sink: SampleSink,
   bad: (where: string, reason: string, detail: string) => void,
   onBytes?: (n: number) => void,
+  max_line_bytes?: number,
 ): CandumpRead {
   let line = 0;
   const decoder = new FrameDecoder(config, sink, (reason, detail) => bad(`${file}:${line}`, reason, detail));
@@ -32,6 +33,7 @@ export function candumpSamples(
     },
     bad,
     onBytes,
+    max_line_bytes,
   );
   decoder.finish();
   return {
