@@ -3,7 +3,7 @@ import { type DataMap, InputError, isValidId, NUMERIC_COLUMNS } from '@thermargi
 import { detectDialect } from '@thermargin/logger-data/table/dialect';
 import { type TableLayout, tableLayout } from '@thermargin/logger-data/table/layout';
 import { mapValue } from '@thermargin/logger-data/units';
-import { lineTooLong, MAX_LINE_BYTES, READ_BYTES, roomFor } from '@thermargin/logger-data/io/lines';
+import { forEachLine } from '@thermargin/logger-data/io/lines';
 import { readDecimal } from './decimal.ts';
 import { fastTime_ms } from './iso-time.ts';
 
@@ -17,7 +17,7 @@ export interface CsvSink {
 export interface CsvOptions {
   map?: DataMap | undefined;
   vehicle_id?: string | null;
-  /** bytes: the longest line read (default MAX_LINE_BYTES, 1 MiB). */
+  /** bytes: the longest line read (default MAX_LINE_BYTES of logger-data/io/lines.ts, 1 MiB). */
   max_line_bytes?: number | undefined;
 }
 
@@ -209,6 +209,22 @@ function isBlankLine(s: Uint8Array, start: number, end: number): boolean {
   return true;
 }
 
+/** The file's first HEAD_BYTES, to detect its dialect from. */
+function readHead(file: string): string {
+  let fd: number;
+  try {
+    fd = openSync(file, 'r');
+  } catch {
+    throw new InputError([{ where: file, rule: 'cannot open the file' }]);
+  }
+  try {
+    const buf = Buffer.allocUnsafe(HEAD_BYTES);
+    return buf.toString('latin1', 0, readSync(fd, buf, 0, HEAD_BYTES, 0));
+  } finally {
+    closeSync(fd);
+  }
+}
+
 /**
  * Reads one CSV file of the import format (header naming the contract's columns in any order,
  * unknown columns ignored, empty cell = missing), or a logger's own table read through a mapping
@@ -224,43 +240,13 @@ export function readCsvFile(
   onBytes?: (n: number) => void,
   options: CsvOptions = {},
 ): number {
-  const max_line_bytes = options.max_line_bytes ?? MAX_LINE_BYTES;
-  let buf = Buffer.allocUnsafe(READ_BYTES);
-  let fd: number;
-  try {
-    fd = openSync(file, 'r');
-  } catch {
-    throw new InputError([{ where: file, rule: 'cannot open the file' }]);
-  }
-  const head = buf.toString('latin1', 0, readSync(fd, buf, 0, HEAD_BYTES, 0));
-  const p = new RowParser(file, sink, options, head);
-  /** Bytes of an unfinished last line, carried at the front of `buf`. */
-  let kept = 0;
-  try {
-    for (;;) {
-      buf = roomFor(buf, kept);
-      const n = readSync(fd, buf, kept, buf.length - kept, null);
-      if (n === 0) break;
-      const s = buf.subarray(0, kept + n);
-      let start = 0;
-      // Searched once per chunk, not per line: most files hold no quote at all.
-      let quote = s.indexOf(34);
-      for (let nl = s.indexOf(10); nl >= 0; nl = s.indexOf(10, start)) {
-        if (nl - start > max_line_bytes) throw lineTooLong(file, p.line + 1, max_line_bytes);
-        if (quote >= 0 && quote < start) quote = s.indexOf(34, start);
-        p.take(s, start, nl > start && s[nl - 1] === 13 ? nl - 1 : nl, quote >= 0 && quote < nl);
-        start = nl + 1;
-      }
-      kept = s.length - start;
-      if (kept > max_line_bytes) throw lineTooLong(file, p.line + 1, max_line_bytes);
-      buf.copyWithin(0, start, s.length);
-      onBytes?.(n);
-    }
-  } finally {
-    closeSync(fd);
-  }
-  if (!isBlankLine(buf, 0, kept))
-    p.take(buf, 0, buf[kept - 1] === 13 ? kept - 1 : kept, buf.subarray(0, kept).includes(34));
+  const p = new RowParser(file, sink, options, readHead(file));
+  forEachLine(
+    file,
+    (s, start, end, _line, quoted) => p.take(s, start, end, quoted),
+    onBytes,
+    options.max_line_bytes,
+  );
   if (p.line === 0) throw new InputError([{ where: file, rule: 'empty file (no header row)' }]);
   return p.rows;
 }

@@ -33,8 +33,11 @@ export function roomFor(buf: Buffer<ArrayBuffer>, kept: number): Buffer<ArrayBuf
   return bigger;
 }
 
-/** Receives each line as bytes s[start, end) without its line end (\n or \r\n), with its 1-based number. */
-export type LineVisitor = (s: Buffer, start: number, end: number, line: number) => void;
+/**
+ * Receives each line as bytes s[start, end) without its line end (\n or \r\n), with its 1-based number
+ * and whether it holds a double quote (for delimited tables: most hold none, so they skip quote rules).
+ */
+export type LineVisitor = (s: Buffer, start: number, end: number, line: number, quoted: boolean) => void;
 
 /**
  * Reads a file line by line from large chunks, handing out byte ranges (no string per line). Memory
@@ -56,9 +59,9 @@ export function forEachLine(
   let buf = Buffer.allocUnsafe(READ_BYTES);
   let kept = 0;
   let line = 0;
-  const take = (s: Buffer, start: number, nl: number) => {
+  const take = (s: Buffer, start: number, nl: number, quoted: boolean) => {
     if (nl - start > max_line_bytes) throw lineTooLong(file, line + 1, max_line_bytes);
-    visit(s, start, nl > start && s[nl - 1] === 13 ? nl - 1 : nl, ++line);
+    visit(s, start, nl > start && s[nl - 1] === 13 ? nl - 1 : nl, ++line, quoted);
   };
   try {
     for (;;) {
@@ -67,8 +70,11 @@ export function forEachLine(
       if (n === 0) break;
       const s = buf.subarray(0, kept + n);
       let start = 0;
+      // Searched once per chunk, not per line: most files hold no quote at all.
+      let quote = s.indexOf(34);
       for (let nl = s.indexOf(10); nl >= 0; nl = s.indexOf(10, start)) {
-        take(s, start, nl);
+        if (quote >= 0 && quote < start) quote = s.indexOf(34, start);
+        take(s, start, nl, quote >= 0 && quote < nl);
         start = nl + 1;
       }
       kept = s.length - start;
@@ -79,6 +85,6 @@ export function forEachLine(
   } finally {
     closeSync(fd);
   }
-  if (kept > 0) take(buf, 0, kept);
+  if (kept > 0) take(buf, 0, kept, buf.subarray(0, kept).includes(34));
   return line;
 }
