@@ -45,7 +45,8 @@ const FIELDS = [
 /**
  * Integrates the lumped loop C·dT/dt = Q_generated − Q_radiator (explicit Euler at the drive trace's
  * step, ≤ 0.25 s against loop time constants of minutes). The radiator sees the thermostat's share of
- * the pump flow and rejects k·A·(T − T_ambient) with k from ε-NTU. Starts from `start_c` (a cold soak
+ * the pump flow and rejects k·A·(T − T_ambient) with k from ε-NTU. The heat generated is the
+ * traction heat plus the vehicle's unmeasured steady heat (heat_kw holds both). Starts from `start_c` (a cold soak
  * starts at ambient).
  */
 export function simulateLoop(
@@ -60,6 +61,7 @@ export function simulateLoop(
   for (const f of FIELDS) tr[f] = new Float64Array(n);
   const fan = new Fan(v.fan);
   const C_kj_k = v.thermal_mass_kj_per_k;
+  const unmeasured_kw = v.unmeasured_heat_kw ?? 0;
   const lag = Math.min(1, dt / v.sensor_lag_s);
   let T = start_c ?? drive.ambient_c[0]!;
   let sIn = T;
@@ -72,7 +74,8 @@ export function simulateLoop(
       drive.aux_kw[i]!;
     const cap = powerCap_share(v.derate, T, v.coolant_limit_c);
     const power_kw = Math.min(demand_kw, cap * v.body.rated_power_kw);
-    const heat_kw = (Math.max(0, power_kw) * v.coolant_heat_fraction) / v.drivetrain_efficiency;
+    const heat_kw =
+      (Math.max(0, power_kw) * v.coolant_heat_fraction) / v.drivetrain_efficiency + unmeasured_kw;
     const fan_pct = fan.step(T, dt);
     const flow_lpm =
       radiatorShare(v.thermostat, T) * pumpFlow_lpm(v.pump, speed_ms, demand_kw / v.body.rated_power_kw);

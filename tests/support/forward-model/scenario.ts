@@ -22,6 +22,8 @@ export interface Scenario {
   /** °C at key-on; default ambient (a cold soak). */
   start_c?: number;
   trip?: string;
+  /** Epoch ms of the first sample; default TRIP_START_MS. */
+  start_ms?: number;
 }
 
 export interface ScenarioRun {
@@ -37,7 +39,11 @@ export function runScenario(s: Scenario): ScenarioRun {
   const drive = driveTrace(s.profile, MODEL_STEP_S, substream(s.seed, 0));
   const trace = simulateLoop(s.vehicle, drive, fouling, s.start_c);
   const sensors = { ...SENSOR_DEFAULTS, ...s.sensors };
-  const ids = { vehicle: s.vehicle.id, trip: s.trip ?? `trip-${s.seed}`, start_ms: TRIP_START_MS };
+  const ids = {
+    vehicle: s.vehicle.id,
+    trip: s.trip ?? `trip-${s.seed}`,
+    start_ms: s.start_ms ?? TRIP_START_MS,
+  };
   return {
     samples: readSensors(trace, sensors, ids, substream(s.seed, 1)),
     trace,

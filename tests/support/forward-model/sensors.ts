@@ -13,6 +13,8 @@ export interface SensorSpec {
   coolant_noise_k: number;
   /** K, 1σ: ambient temperature noise. */
   ambient_noise_k: number;
+  /** K: steady offset of the ambient sensor (reads true + offset; a sensor in the engine bay's heat). */
+  ambient_offset_k: number;
   /** –, 1σ: relative noise of power (and of the flow meter). */
   power_noise_share: number;
   flow_noise_share: number;
@@ -26,6 +28,7 @@ export const SENSOR_DEFAULTS: Readonly<SensorSpec> = Object.freeze({
   interval_s: 1,
   coolant_noise_k: 0.2,
   ambient_noise_k: 0.1,
+  ambient_offset_k: 0,
   power_noise_share: 0.01,
   flow_noise_share: 0.01,
   coolant_quantum_c: 0,
@@ -66,7 +69,10 @@ export function readSensors(tr: LoopTrace, s: SensorSpec, ids: SampleIds, rng: R
       speed_kmh: quantise(Math.max(0, tr.speed_kmh[i]!), SPEED_QUANTUM_KMH),
       power_kw: tr.power_kw[i]! * (1 + s.power_noise_share * gaussian(rng)),
       coolant_in_c: temp(tr.sensed_in_c[i]!),
-      ambient_c: quantise(tr.ambient_c[i]! + s.ambient_noise_k * gaussian(rng), AMBIENT_QUANTUM_C),
+      ambient_c: quantise(
+        tr.ambient_c[i]! + s.ambient_offset_k + s.ambient_noise_k * gaussian(rng),
+        AMBIENT_QUANTUM_C,
+      ),
       fan_pct: quantise(tr.fan_pct[i]!, FAN_QUANTUM_PCT),
       derate: tr.derate[i]!,
     };

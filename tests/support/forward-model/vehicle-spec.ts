@@ -24,4 +24,7 @@ export interface VehicleSpec {
   design: DesignPoint;
   /** s: first-order time constant of the coolant temperature sensors. */
   sensor_lag_s: number;
+  /** kW: steady heat into the loop that the traction power does not carry (pumps, power electronics,
+   *  a compressor on the same loop); absent means none. */
+  unmeasured_heat_kw?: number;
 }

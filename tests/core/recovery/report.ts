@@ -1,0 +1,52 @@
+/**
+ * Prints the recovery suite's figures per band (median and p90 |error| of per-trip k, coverage) over
+ * vehicle histories drawn from seeds: `node --import tsx tests/core/recovery/report.ts [seeds]
+ * [histories per seed] [trips per history] [--trips]`. Seeds are a comma list (default 101,102,103:
+ * seeds nobody tuned on); `--trips` also prints every history's worst trips.
+ */
+import { BAND_NAMES } from '@thermargin/core/trip/bands';
+import {
+  bandFigures,
+  formatFigures,
+  GOALS,
+  type HistoryRecovery,
+  histories,
+  recoverHistory,
+} from './history-suite.ts';
+
+function seedsOf(arg: string | undefined): number[] {
+  return arg ? arg.split(',').map(Number) : [101, 102, 103];
+}
+
+if (import.meta.url === `file://${process.argv[1]}`) {
+  const args = process.argv.slice(2).filter((a) => !a.startsWith('--'));
+  const detail = process.argv.includes('--trips');
+  const seeds = seedsOf(args[0]);
+  const count = Number(args[1] ?? 12);
+  const trips = args[2] === undefined ? undefined : Number(args[2]);
+  const runs: HistoryRecovery[] = [];
+  for (const seed of seeds) {
+    for (const h of histories(seed, count, trips)) {
+      const r = recoverHistory(h);
+      runs.push(r);
+      const fit = (r.result as { airside_fit?: unknown }).airside_fit;
+      console.log(h.label);
+      if (fit) console.log(`  airside_fit ${JSON.stringify(fit)}`);
+      for (const band of BAND_NAMES) console.log(`  ${formatFigures(bandFigures(r.rows, band))}`);
+      if (detail) {
+        const worst = r.rows
+          .filter((x) => !Number.isNaN(x.error_pct))
+          .sort((a, b) => Math.abs(b.error_pct) - Math.abs(a.error_pct))
+          .slice(0, 4);
+        for (const w of worst)
+          console.log(`    ${w.trip} ${w.band} ${w.error_pct >= 0 ? '+' : ''}${w.error_pct.toFixed(2)} %`);
+      }
+    }
+  }
+  const rows = runs.flatMap((r) => r.rows);
+  console.log(`\nall ${runs.length} histories, seeds ${seeds.join(',')}:`);
+  for (const band of BAND_NAMES) console.log(formatFigures(bandFigures(rows, band)));
+  console.log(
+    `goals: median ≤ ${GOALS.median_abs_error_pct.ram} %, p90 ≤ ${GOALS.p90_abs_error_pct.ram} % ram / ≤ ${GOALS.p90_abs_error_pct.fan} % fan, coverage ≥ ${GOALS.coverage * 100} %`,
+  );
+}
