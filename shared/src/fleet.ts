@@ -65,6 +65,9 @@ export const vehicleConfigSchema = z
       .strictObject({ ram: positive('bench_k_w_m2k.ram'), fan: positive('bench_k_w_m2k.fan') })
       .optional(),
     airside: airsideSchema.optional(),
+    /** kW: steady heat into the loop that the traction power does not carry (pumps, power electronics,
+     *  a compressor on the same loop), when known; otherwise the vehicle stage estimates it. */
+    aux_heat_kw: z.number().min(0, 'aux_heat_kw must be ≥ 0').max(1000).optional(),
     type: z.string().max(100).optional(),
     route_max_ambient_c: z.number().min(-60).max(65).optional(),
     maintenance: z.array(maintenanceEntrySchema).optional(),

@@ -30,6 +30,32 @@ export type Trend = (typeof TRENDS)[number];
  */
 export const MARGIN_SOURCES = ['trip', 'band_level', 'other_band'] as const;
 export type MarginSource = (typeof MARGIN_SOURCES)[number];
+/**
+ * One band's accepted windows on a trip (core/trip/windows.ts): what each window's k is made of, kept so
+ * the vehicle stage can refer them again with the air-side shape, unmeasured heat and ambient
+ * correction it learns from all the vehicle's trips (core/vehicle/learn.ts). Same length arrays.
+ */
+export const bandWindowsSchema = z.object({
+  /** km/h: the window's vehicle speed, root mean square weighted by ITD. */
+  speed_kmh: z.array(z.number()),
+  /** %: the window's fan duty, root mean square weighted by ITD. */
+  fan_pct: z.array(z.number()),
+  /** K: mean ITD as measured (coolant_in − ambient). */
+  itd_k: z.array(z.number()),
+  /** kW: heat generated less heat stored (C·dT/dt); null where the window was not near-steady. */
+  balance_kw: z.array(z.number().nullable()),
+  /** kW: heat rejected from the coolant flow meter (ρ·cp·V̇·ΔT); null where the window had none. */
+  meter_kw: z.array(z.number().nullable()),
+});
+export type BandWindowsEvidence = z.infer<typeof bandWindowsSchema>;
+
+/** The ambient-dependent figures of a trip before its ambient correction (kept beside the corrected ones). */
+export const uncorrectedSchema = z.object({
+  k_ram_w_m2k: nullableNumber,
+  k_fan_w_m2k: nullableNumber,
+  margin_pct: nullableNumber,
+  limiting_ambient_c: nullableNumber,
+});
 
 /** Per-trip result of the core computation (see core/trip/analyze-trip.ts). */
 export const tripResultSchema = z.object({
@@ -67,6 +93,13 @@ export const tripResultSchema = z.object({
   coolant_dt_per_kw: nullableNumber,
   /** Signals that looked stuck or spiky on this trip, in words (e.g. "coolant_in_c stuck at 81.0 for 42 min"). */
   sensor_flags: z.array(z.string()),
+  /** Each band's accepted windows; absent in results written before they were kept. */
+  windows: z.object({ ram: bandWindowsSchema, fan: bandWindowsSchema }).optional(),
+  /** K added to the measured ambient for k, margin and limiting ambient (the vehicle's confirmed
+   *  soak-check offset, core/trip/ambient-offset.ts); absent when none was applied. */
+  ambient_correction_k: z.number().optional(),
+  /** The figures without the ambient correction; present exactly when ambient_correction_k is. */
+  uncorrected: uncorrectedSchema.optional(),
   health_ram: nullableNumber.optional(),
   health_fan: nullableNumber.optional(),
   status: z.enum(STATUSES).optional(),

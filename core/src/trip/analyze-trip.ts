@@ -4,9 +4,11 @@ import { median } from '../stats/quantile.ts';
 import { quantileInPlace } from '../stats/select.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
 import { estimateBand } from './band-estimate.ts';
+import type { Band } from './bands.ts';
 import { designMargin } from './design-point.ts';
 import type { EstimatorOptions } from './estimator-options.ts';
 import { SENSOR_CHECK_DEFAULTS, soakOffset_k, stuckSignals } from './sensor-checks.ts';
+import { priorReferral, windowK_w_m2k } from './refer.ts';
 import type { TripSpan } from './split.ts';
 import { tripWindows } from './windows.ts';
 
@@ -68,8 +70,17 @@ export function analyzeTrip(
     sensorFlags.push(`${count} single-sample ${reason.slice(6)} spikes rejected`);
 
   const w = tripWindows(c, from, to, v, o);
-  const ram = estimateBand('ram', w.ram, o, v.thermostat_full_open_c);
-  const fan = estimateBand('fan', w.fan, o, v.thermostat_full_open_c);
+  const prior = priorReferral(v);
+  const band = (b: Band) =>
+    estimateBand(
+      b,
+      w[b],
+      windowK_w_m2k(b, w[b].evidence, v.radiator_area_m2, prior),
+      o,
+      v.thermostat_full_open_c,
+    );
+  const ram = band('ram');
+  const fan = band('fan');
   const m = designMargin(v, { ram: ram.k_w_m2k, fan: fan.k_w_m2k });
   const heatMean = time_s > 0 ? (energy_kwh * 3600) / time_s : heat[0]!;
   const p95 = quantileInPlace(heat, 0.95);
@@ -107,5 +118,6 @@ export function analyzeTrip(
     fan_saturated_share: time_s > 0 ? round(fanSat_s / time_s, 4) : 0,
     coolant_dt_per_kw: w.dt_per_kw.length ? round(median(w.dt_per_kw), 5) : null,
     sensor_flags: sensorFlags,
+    windows: { ram: w.ram.evidence, fan: w.fan.evidence },
   };
 }

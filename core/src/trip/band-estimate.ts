@@ -13,7 +13,7 @@ export interface BandEstimate {
   reason: string | null;
 }
 
-function rejectedWords(w: BandWindows): string {
+function rejectedWords(w: Pick<BandWindows, 'rejected'>): string {
   const parts: string[] = [];
   if (w.rejected.low_heat) parts.push(`${w.rejected.low_heat} with too little heat`);
   if (w.rejected.not_steady) parts.push(`${w.rejected.not_steady} not near-steady`);
@@ -27,11 +27,13 @@ function rejectedWords(w: BandWindows): string {
  */
 export function estimateBand(
   band: Band,
-  w: BandWindows,
+  w: Pick<BandWindows, 'samples' | 'eligible' | 'rejected'>,
+  k_w_m2k: ArrayLike<number>,
   o: EstimatorOptions,
   fullOpen_c: number,
 ): BandEstimate {
-  const windows = w.k_w_m2k.length;
+  const valid = Array.from(k_w_m2k).filter((k) => Number.isFinite(k));
+  const windows = valid.length;
   if (windows < o.min_windows) {
     const reason =
       w.eligible === 0
@@ -39,7 +41,7 @@ export function estimateBand(
         : `${band} band: ${windows} valid ${o.window_s}-s windows, need ${o.min_windows}${rejectedWords(w)}`;
     return { k_w_m2k: null, ci95: null, n_samples: w.samples, windows, reason };
   }
-  const sorted = Float64Array.from(w.k_w_m2k).sort();
+  const sorted = Float64Array.from(valid).sort();
   return {
     k_w_m2k: quantileSorted(sorted, 0.5),
     ci95: medianCi95Sorted(sorted),

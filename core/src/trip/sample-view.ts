@@ -4,6 +4,7 @@ import { faceVelocity_ms } from '../radiator/airside.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
 import { BANDS, type Band, bandOf } from './bands.ts';
 import type { EstimatorOptions } from './estimator-options.ts';
+import { priorReferral, type Referral, windowK_w_m2k } from './refer.ts';
 import { tripWindows } from './windows.ts';
 
 /** Per sample of one trip (cleaned, time-sorted columns [from, to)), for charts; NaN where none. */
@@ -31,6 +32,8 @@ export function tripSampleView(
   to: number,
   v: VehicleModel,
   o: EstimatorOptions,
+  /** The referral the trip's k was made with; default the fleet file's (the trip stage's). */
+  r: Referral = priorReferral(v),
 ): TripSampleView {
   const n = to - from;
   const view: TripSampleView = {
@@ -39,7 +42,7 @@ export function tripSampleView(
     k_w_m2k: new Float64Array(n).fill(Number.NaN),
     counted: new Uint8Array(n),
   };
-  const a = v.airside;
+  const a = r.airside;
   const maxStep_ms = o.max_step_s * 1000;
   const window_ms = o.window_s * 1000;
   let band: Band | null = null;
@@ -48,15 +51,15 @@ export function tripSampleView(
   let last = 0;
   const judge = (end: number) => {
     if (band === null) return;
-    const k = tripWindows(c, start, end, v, o)[band].k_w_m2k[0];
-    if (k === undefined) return;
+    const k = windowK_w_m2k(band, tripWindows(c, start, end, v, o)[band].evidence, v.radiator_area_m2, r)[0];
+    if (k === undefined || Number.isNaN(k)) return;
     const ref = BANDS[band].reference;
     const vRef = faceVelocity_ms(ref.speed_kmh, ref.fan_pct, a);
     for (let i = start; i < end; i++) {
       const g = (faceVelocity_ms(c.speed_kmh[i]!, c.fan_pct[i]!, a) / vRef) ** a.velocity_exponent;
       view.k_w_m2k[i - from] = k;
       view.heat_rejected_kw[i - from] =
-        (k * v.radiator_area_m2 * g * (c.coolant_in_c[i]! - c.ambient_c[i]!)) / 1000;
+        (k * v.radiator_area_m2 * g * (c.coolant_in_c[i]! - c.ambient_c[i]! - r.ambient_correction_k)) / 1000;
       view.counted[i - from] = BAND_CODE[band];
     }
   };

@@ -1,15 +1,14 @@
-import type { SampleColumns } from '@thermargin/shared';
+import type { BandWindowsEvidence, SampleColumns } from '@thermargin/shared';
 import { heatToCoolant_kw } from '../drivetrain/heat.ts';
 import { glycolCp_j_kgk, glycolDensity_kg_m3 } from '../properties/glycol.ts';
-import { faceVelocity_ms } from '../radiator/airside.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
-import { BANDS, type Band, bandOf } from './bands.ts';
+import { type Band, bandOf } from './bands.ts';
 import type { EstimatorOptions } from './estimator-options.ts';
 
 /** What the windows of one band gave on one trip. */
 export interface BandWindows {
-  /** W/(m²·K) of each accepted window, referred to the band's reference condition. */
-  k_w_m2k: number[];
+  /** What each accepted window is made of (the trip result carries it; refer.ts makes k of it). */
+  evidence: BandWindowsEvidence;
   /** Samples in accepted windows. */
   samples: number;
   /** Samples that were in the band with the radiator in charge (before window rules). */
@@ -26,8 +25,18 @@ export interface TripWindows {
 }
 
 function emptyBand(): BandWindows {
-  return { k_w_m2k: [], samples: 0, eligible: 0, rejected: { short: 0, low_heat: 0, not_steady: 0 } };
+  return {
+    evidence: { speed_kmh: [], fan_pct: [], itd_k: [], balance_kw: [], meter_kw: [] },
+    samples: 0,
+    eligible: 0,
+    rejected: { short: 0, low_heat: 0, not_steady: 0 },
+  };
 }
+
+const round = (x: number, digits: number) => {
+  const f = 10 ** digits;
+  return Math.round(x * f) / f;
+};
 
 /** Running sums of one window; times in seconds from the window's first sample. */
 class WindowSums {
@@ -40,7 +49,9 @@ class WindowSums {
   sT = 0;
   stT = 0;
   sq = 0;
-  sgItd = 0;
+  sItd = 0;
+  sItdV2 = 0;
+  sItdF2 = 0;
   nFlow = 0;
   sFlowDt = 0;
   nOut = 0;
@@ -52,22 +63,25 @@ class WindowSums {
   start(band: Band, t_ms: number): void {
     this.band = band;
     this.t0_ms = t_ms;
-    this.n = this.st = this.stt = this.sT = this.stT = this.sq = this.sgItd = 0;
+    this.n = this.st = this.stt = this.sT = this.stT = this.sq = this.sItd = this.sItdV2 = this.sItdF2 = 0;
     this.nFlow = this.sFlowDt = this.nOut = this.sDt = this.sTmean = 0;
     this.coarse = true;
   }
 }
 
 /**
- * Radiator-in-charge windows of one trip (docs/methods.md §4: Q = k·A·ITD, heat rejected = heat
- * generated − C·dT/dt, or ρ·cp·V̇·(T_in − T_out) with a flow meter). Per window of ≤ window_s:
- *   k_ref = Q̄_rejected / (A · mean(g·ITD)),  g = (v_face / v_face,ref)^n
- * which is exact when k = k_ref·g within the window (airside.ts), so every window's k is referred to
- * its band's reference condition. dT/dt is the least-squares slope of coolant_in_c over the window,
- * a noise-robust derivative; for a quadratic temperature course it equals the window's mean derivative.
+ * Radiator-in-charge windows of one trip (docs/methods.md §4: Q = k·A·ITD, heat rejected = heat generated
+ * − C·dT/dt, or ρ·cp·V̇·(T_in − T_out) with a flow meter). Each accepted window of ≤ window_s keeps
+ * its heat rejected, mean ITD and air condition (speed and fan duty as ITD-weighted root mean squares,
+ * so the face velocity √(ram² + fan²) of airside.ts is exact at the window's mean square); refer.ts
+ * makes its k at the band's reference condition from them. dT/dt is the least-squares slope of
+ * coolant_in_c over the window, a noise-robust derivative; for a quadratic temperature course it equals
+ * the window's mean derivative.
  * Sensor lag: a first-order sensor of time constant τ reads T_m with τ·dT_m/dt = T − T_m. Passing the
  * heat generated through the same lag gives L[q] − C·dT_m/dt = kA·(T_m − T_amb) exactly for constant
  * kA, so heat and measured temperature stay aligned in fast stop-and-go.
+ * The steady-state and low-heat rules count the fleet file's unmeasured heat (aux_heat_kw) in the
+ * heat generated; the heat balance kept leaves it out (refer.ts adds what the vehicle stage learned).
  */
 export function tripWindows(
   c: SampleColumns,
@@ -77,11 +91,6 @@ export function tripWindows(
   o: EstimatorOptions,
 ): TripWindows {
   const out: TripWindows = { ram: emptyBand(), fan: emptyBand(), dt_per_kw: [] };
-  const a = v.airside;
-  const vRef = {
-    ram: faceVelocity_ms(BANDS.ram.reference.speed_kmh, BANDS.ram.reference.fan_pct, a),
-    fan: faceVelocity_ms(BANDS.fan.reference.speed_kmh, BANDS.fan.reference.fan_pct, a),
-  };
   const C_kj_k = v.thermal_mass_kj_per_k;
   const minHeat_kw = Math.max(o.min_heat_kw, o.min_heat_share_of_design * v.design.heat_kw);
   const w = new WindowSums();
@@ -95,40 +104,43 @@ export function tripWindows(
       res.rejected.short++;
       return;
     }
-    const qGen = w.sq / w.n;
-    let qRej: number;
+    const qGen = w.sq / w.n + v.aux_heat_kw;
+    const den = w.n * w.stt - w.st * w.st;
+    const slope_k_s = den > 0 ? (w.n * w.stT - w.st * w.sT) / den : 0;
+    const storage_kw = C_kj_k * slope_k_s;
+    const steady = Math.abs(storage_kw) <= o.max_storage_share * qGen;
     // A 1 °C grid makes T_in − T_out (5–10 K) too coarse for the coolant-side balance (common
     // practice: SPN 110 is not for ΔT); such windows take the heat balance instead.
+    let meter: number | null = null;
     if (w.nFlow === w.n && !w.coarse) {
       const T = w.sTmean / w.n;
       // ρ·cp·V̇·ΔT: lpm → m³/s is /60 000; W → kW is /1000.
-      qRej =
+      meter =
         (glycolDensity_kg_m3(T, v.coolant_glycol_pct) * glycolCp_j_kgk(T, v.coolant_glycol_pct) * w.sFlowDt) /
         w.n /
         60_000 /
         1000;
-    } else {
-      const den = w.n * w.stt - w.st * w.st;
-      const slope_k_s = den > 0 ? (w.n * w.stT - w.st * w.sT) / den : 0;
-      const storage_kw = C_kj_k * slope_k_s;
-      if (Math.abs(storage_kw) > o.max_storage_share * qGen) {
-        res.rejected.not_steady++;
-        return;
-      }
-      qRej = qGen - storage_kw;
+    } else if (!steady) {
+      res.rejected.not_steady++;
+      return;
     }
+    const qRej = meter ?? qGen - storage_kw;
     if (!(qRej >= minHeat_kw)) {
       res.rejected.low_heat++;
       return;
     }
-    res.k_w_m2k.push((qRej * 1000) / (v.radiator_area_m2 * (w.sgItd / w.n)));
+    const e = res.evidence;
+    e.speed_kmh.push(round(Math.sqrt(w.sItdV2 / w.sItd), 1));
+    e.fan_pct.push(round(Math.sqrt(w.sItdF2 / w.sItd), 1));
+    e.itd_k.push(round(w.sItd / w.n, 2));
+    e.balance_kw.push(steady ? round(qGen - v.aux_heat_kw - storage_kw, 3) : null);
+    e.meter_kw.push(meter === null ? null : round(meter, 3));
     res.samples += w.n;
     if (w.nOut === w.n) out.dt_per_kw.push(w.sDt / w.n / qRej);
   };
 
   const maxStep_ms = o.max_step_s * 1000;
   const window_ms = o.window_s * 1000;
-  const n = a.velocity_exponent;
   const lag_ms = v.coolant_sensor_lag_s * 1000;
   let qLag = Number.NaN;
   for (let i = from; i < to; i++) {
@@ -154,7 +166,9 @@ export function tripWindows(
     w.sT += Tin;
     w.stT += ts * Tin;
     w.sq += qLag;
-    w.sgItd += (faceVelocity_ms(speed, fan, a) / vRef[band]) ** n * itd;
+    w.sItd += itd;
+    w.sItdV2 += itd * speed * speed;
+    w.sItdF2 += itd * fan * fan;
     w.last_ms = t;
     const Tout = c.coolant_out_c[i]!;
     if (w.coarse && (Tin !== Math.round(Tin) || Tout !== Math.round(Tout))) w.coarse = false;

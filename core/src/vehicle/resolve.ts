@@ -27,6 +27,12 @@ export interface VehicleModel {
   design: VehicleConfigInput['design'];
   bench_k_w_m2k: { ram: number; fan: number } | null;
   airside: Airside;
+  /** Where each air-side figure came from before the vehicle stage learns them. */
+  airside_basis: Record<keyof Airside, 'fleet_file' | 'default'>;
+  /** kW: unmeasured steady heat into the loop; the fleet file's aux_heat_kw, else 0. */
+  aux_heat_kw: number;
+  /** Whether aux_heat_kw came from the fleet file (then it is known, not estimated). */
+  aux_heat_known: boolean;
   route_max_ambient_c: number | null;
   maintenance: MaintenanceEntry[];
   policy: Policy;
@@ -48,6 +54,15 @@ export function defaultCoolantHeatFraction(powertrain: Powertrain, drivetrain_ef
  */
 export function defaultThermostatFullOpen_c(open_c: number, limit_c: number): number {
   return open_c + Math.min(10, 0.6 * (limit_c - open_c));
+}
+
+function airsideBasis(given: Partial<Airside> | undefined): VehicleModel['airside_basis'] {
+  const of = (k: keyof Airside) => (given?.[k] === undefined ? 'default' : 'fleet_file');
+  return {
+    ram_face_ratio: of('ram_face_ratio'),
+    fan_face_velocity_ms: of('fan_face_velocity_ms'),
+    velocity_exponent: of('velocity_exponent'),
+  };
 }
 
 export function resolveVehicle(v: VehicleConfigInput, fleetPolicy?: PolicyInput): VehicleModel {
@@ -72,6 +87,9 @@ export function resolveVehicle(v: VehicleConfigInput, fleetPolicy?: PolicyInput)
     design: v.design,
     bench_k_w_m2k: v.bench_k_w_m2k ?? null,
     airside: { ...AIRSIDE_DEFAULTS, ...v.airside },
+    airside_basis: airsideBasis(v.airside),
+    aux_heat_kw: v.aux_heat_kw ?? 0,
+    aux_heat_known: v.aux_heat_kw !== undefined,
     route_max_ambient_c: route,
     maintenance,
     policy: resolvePolicy(fleetPolicy, v.policy, { route_max_ambient_c: route }),
