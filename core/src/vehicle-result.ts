@@ -1,5 +1,6 @@
 import type { MaintenanceEntry, Trend, TripResult, VehicleResult } from '@thermargin/shared';
 import { assessVehicle, type HealthOptions, type VehicleAssessment } from './health/assess.ts';
+import { learnVehicle, type VehicleLearning } from './vehicle/learn.ts';
 import type { VehicleModel } from './vehicle/resolve.ts';
 
 export interface VehicleOutcome {
@@ -7,6 +8,29 @@ export interface VehicleOutcome {
   result: VehicleResult;
   /** Everything the health module gave (series for charts, notes, candidates). */
   assessment: VehicleAssessment;
+  /** The vehicle as the vehicle stage learned it (air side, unmeasured heat): what its figures rest on. */
+  learned: VehicleModel;
+}
+
+/** The contract's form of what the vehicle stage learned. */
+function learnedFigures(
+  l: VehicleLearning,
+): Pick<VehicleResult, 'airside_fit' | 'unmeasured_heat' | 'ambient_offset'> {
+  const { airside: f } = l;
+  const iso = (ms: number | null) => (ms === null ? null : new Date(ms).toISOString());
+  return {
+    airside_fit: {
+      velocity_exponent: f.velocity_exponent,
+      fan_velocity_exponent: f.fan_velocity_exponent,
+      ram_face_ratio: f.ram_face_ratio,
+      fan_face_velocity_ms: f.fan_face_velocity_ms,
+      windows: f.windows,
+      trips: f.trips,
+      notes: f.notes,
+    },
+    unmeasured_heat: l.unmeasured,
+    ambient_offset: l.ambient.map(({ from_ms, ...a }) => ({ from: iso(from_ms), ...a })),
+  };
 }
 
 /**
@@ -18,12 +42,13 @@ export function vehicleResult(
   trips: readonly TripResult[],
   options: Partial<HealthOptions> = {},
 ): VehicleOutcome {
-  const a = assessVehicle(vehicle, trips, options);
+  const l = learnVehicle(vehicle, trips);
+  const a = assessVehicle(l.vehicle, l.trips, options);
   const now = marginNow(a);
   return {
     result: {
       id: vehicle.id,
-      trips: trips.map((t, i) => ({ ...t, ...a.trips[i]! })),
+      trips: l.trips.map((t, i) => ({ ...t, ...a.trips[i]! })),
       health: a.health,
       status: a.status,
       cause: a.cause,
@@ -36,8 +61,10 @@ export function vehicleResult(
       trend: now.trend,
       trend_pct_per_30d: now.trend_pct_per_30d,
       alerts: a.alerts,
+      ...learnedFigures(l),
     },
     assessment: a,
+    learned: l.vehicle,
   };
 }
 

@@ -46,6 +46,8 @@ export const bandWindowsSchema = z.object({
   balance_kw: z.array(z.number().nullable()),
   /** kW: heat rejected from the coolant flow meter (ρ·cp·V̇·ΔT); null where the window had none. */
   meter_kw: z.array(z.number().nullable()),
+  /** L/min: mean coolant flow where the flow meter gave the heat; null elsewhere. */
+  flow_lpm: z.array(z.number().nullable()),
 });
 export type BandWindowsEvidence = z.infer<typeof bandWindowsSchema>;
 
@@ -117,6 +119,54 @@ export const tripResultSchema = z.object({
 });
 export type TripResult = z.infer<typeof tripResultSchema>;
 
+/** Where a learned figure came from: fitted to the vehicle's own data, the fleet file, or the default. */
+export const FIGURE_BASES = ['fitted', 'fleet_file', 'default'] as const;
+const fittedFigureSchema = z.object({
+  value: z.number(),
+  /** 95 % interval of a fitted value; null when the figure was not fitted. */
+  ci95: ci95.nullable(),
+  basis: z.enum(FIGURE_BASES),
+});
+
+/** The vehicle's air-side shape as the vehicle stage learned it (core/radiator/airside-fit.ts). */
+export const airsideFitSchema = z.object({
+  velocity_exponent: fittedFigureSchema,
+  /** The exponent in the fan band (k follows face velocity more steeply at low air flow). */
+  fan_velocity_exponent: fittedFigureSchema,
+  ram_face_ratio: fittedFigureSchema,
+  /** Not identified by k apart from the ram ratio (only their ratio is): always the prior. */
+  fan_face_velocity_ms: fittedFigureSchema,
+  windows: z.number().int(),
+  trips: z.number().int(),
+  /** Why figures kept the fleet file's value or the default, in words. */
+  notes: z.array(z.string()),
+});
+export type AirsideFit = z.infer<typeof airsideFitSchema>;
+
+/** Unmeasured steady heat into the loop: fitted (used), the fleet file's aux_heat_kw, or none. */
+export const unmeasuredHeatSchema = z.object({
+  /** kW used in the heat balance: fitted, the fleet file's aux_heat_kw, or 0. */
+  value_kw: z.number(),
+  ci95: ci95.nullable(),
+  basis: z.enum(['fitted', 'fleet_file', 'none']),
+  /** Trips with flow-meter windows the estimate rests on. */
+  trips: z.number().int(),
+  /** Why it is not fitted, in words. */
+  reason: z.string().nullable(),
+});
+
+/** The ambient offset of one sensor period from key-on soak checks (core/trip/ambient-offset.ts). */
+export const ambientOffsetSchema = z.object({
+  /** Start of the period (a sensor_replaced entry); null for the first. */
+  from: z.string().nullable(),
+  value_k: nullableNumber,
+  ci95: ci95.nullable(),
+  checks: z.number().int(),
+  /** Whether the trips of the period were corrected (ambient_correction_k). */
+  applied: z.boolean(),
+  reason: z.string().nullable(),
+});
+
 export const alertSchema = z.object({
   time: z.string(),
   status: z.enum(STATUSES),
@@ -146,6 +196,9 @@ export const vehicleResultSchema = z.object({
   alerts: z.array(alertSchema).optional(),
   /** Why the vehicle has no status: no usable data (its refusals in words), never a silent `ok`. */
   unassessed: z.string().optional(),
+  airside_fit: airsideFitSchema.optional(),
+  unmeasured_heat: unmeasuredHeatSchema.optional(),
+  ambient_offset: z.array(ambientOffsetSchema).optional(),
 });
 export type VehicleResult = z.infer<typeof vehicleResultSchema>;
 

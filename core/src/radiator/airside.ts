@@ -17,6 +17,17 @@ export interface Airside {
   fan_face_velocity_ms: number;
   /** –: exponent n in k ∝ v_face^n. Default 0.5 (common practice 0.4–0.8). */
   velocity_exponent: number;
+  /**
+   * –: the exponent in the fan band, when learned apart (the vehicle stage): k follows face velocity
+   * more steeply at the fan band's lower velocities (at low air flow ε → 1 and Q/ITD → ṁ_air·cp, so
+   * n → 1). Absent: velocity_exponent.
+   */
+  fan_velocity_exponent?: number;
+}
+
+/** The exponent that refers k within `band` and moves k from that band's reference. */
+export function bandExponent(a: Airside, band: 'ram' | 'fan'): number {
+  return band === 'fan' ? (a.fan_velocity_exponent ?? a.velocity_exponent) : a.velocity_exponent;
 }
 
 export const AIRSIDE_DEFAULTS: Readonly<Airside> = Object.freeze({
@@ -40,6 +51,16 @@ export function faceVelocity_ms(speed_kmh: number, fan_pct: number, a: Airside):
   const ram = (a.ram_face_ratio * speed_kmh) / 3.6;
   const fan = (a.fan_face_velocity_ms * fan_pct) / 100;
   return Math.sqrt(ram * ram + fan * fan);
+}
+
+/**
+ * –: k at (speed, fan) over k at `band`'s reference condition, (v_face / v_face,ref)^n with the band's
+ * exponent. Example: defaults, ram band, 40 km/h fan 0 → (0.5)^0.5 = 0.7071.
+ */
+export function bandFactor(a: Airside, band: 'ram' | 'fan', speed_kmh: number, fan_pct: number): number {
+  const ref = band === 'ram' ? RAM_REFERENCE : FAN_REFERENCE;
+  const vRef = faceVelocity_ms(ref.speed_kmh, ref.fan_pct, a);
+  return (faceVelocity_ms(speed_kmh, fan_pct, a) / vRef) ** bandExponent(a, band);
 }
 
 /**

@@ -1,4 +1,4 @@
-import { faceVelocity_ms } from '../radiator/airside.ts';
+import { bandFactor, faceVelocity_ms } from '../radiator/airside.ts';
 import { BANDS, type Band, bandOf } from '../trip/bands.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
 
@@ -16,7 +16,6 @@ export function fieldKaModel(
   v: VehicleModel,
 ): (k: BandK, speed_kmh: number, fan_pct: number) => number | null {
   const a = v.airside;
-  const n = a.velocity_exponent;
   const vRef = {
     ram: faceVelocity_ms(BANDS.ram.reference.speed_kmh, BANDS.ram.reference.fan_pct, a),
     fan: faceVelocity_ms(BANDS.fan.reference.speed_kmh, BANDS.fan.reference.fan_pct, a),
@@ -31,6 +30,6 @@ export function fieldKaModel(
     if (k[band] === null) band = band === 'ram' ? 'fan' : 'ram';
     const kRef = k[band];
     if (kRef === null) return null;
-    return kRef * (vFace / vRef[band]) ** n * v.radiator_area_m2;
+    return kRef * bandFactor(a, band, speed_kmh, fan_pct) * v.radiator_area_m2;
   };
 }

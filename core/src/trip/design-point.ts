@@ -1,4 +1,4 @@
-import { faceVelocity_ms } from '../radiator/airside.ts';
+import { bandFactor, faceVelocity_ms } from '../radiator/airside.ts';
 import { limitingAmbient_c, marginPct } from '../radiator/rating.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
 import { BANDS, type Band, bandOf } from './bands.ts';
@@ -22,13 +22,7 @@ export function designBand(v: VehicleModel): Band {
 
 /** W/K: kA at the design point from a band's reference k, moved along the air-side model. */
 export function designKa_w_k(v: VehicleModel, band: Band, k_ref_w_m2k: number): number {
-  const ref = BANDS[band].reference;
-  const a = v.airside;
-  const g =
-    (faceVelocity_ms(v.design.speed_kmh, v.design.fan_pct, a) /
-      faceVelocity_ms(ref.speed_kmh, ref.fan_pct, a)) **
-    a.velocity_exponent;
-  return k_ref_w_m2k * g * v.radiator_area_m2;
+  return k_ref_w_m2k * bandFactor(v.airside, band, v.design.speed_kmh, v.design.fan_pct) * v.radiator_area_m2;
 }
 
 export interface DesignMargin {

@@ -6,6 +6,9 @@ export const ESTIMATOR_DEFAULTS = {
   /** s, 60: averaging window. Long enough that the storage slope C·dT/dt is measured well under
    *  0.1–0.3 K sensor noise (σ_slope ≈ σ·√12 / T^1.5 ≈ 0.004 K/s at 0.2 K), short enough to stay in one band. */
   window_s: 60,
+  /** s, 10: the blocks at each end of a window whose mean temperatures give its mean dT/dt (a sixth
+   *  of the window: at 0.2 K sensor noise and 1 Hz the slope's error is ≈ 0.2·√(2/10)/50 ≈ 0.002 K/s). */
+  storage_edge_s: 10,
   /** s, 30: a window cut short by leaving the band is kept if at least this long. */
   min_window_s: 30,
   /** s, 10: a larger gap between samples ends a window; the estimator never averages across a gap. */
@@ -20,9 +23,10 @@ export const ESTIMATOR_DEFAULTS = {
   /** –, 0.5: near-steady rule without a flow meter: |C·dT/dt| at most this share of the heat generated,
    *  so an error in the thermal mass C cannot dominate the heat rejected. */
   max_storage_share: 0.5,
-  /** –, 6: windows needed for a band estimate; the smallest count whose order-statistic 95 %
-   *  interval for the median exists within the data. */
-  min_windows: 6,
+  /** –, 1: windows needed for a band estimate. Each window is a whole energy balance, so one gives a
+   *  k (every trip with a few minutes in a band gets one); the order-statistic 95 % interval of the
+   *  median needs 6, and below that the vehicle stage gives the interval from its window scatter. */
+  min_windows: 1,
 } as const;
 
 export type EstimatorOptions = { -readonly [K in keyof typeof ESTIMATOR_DEFAULTS]: number };

@@ -1,7 +1,7 @@
 import type { BandWindowsEvidence } from '@thermargin/shared';
-import { type Airside, faceVelocity_ms } from '../radiator/airside.ts';
+import { type Airside, bandFactor } from '../radiator/airside.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
-import { BANDS, type Band } from './bands.ts';
+import type { Band } from './bands.ts';
 
 /**
  * What a window's k at its band's reference condition depends on beyond the window itself: the
@@ -35,15 +35,12 @@ export function windowK_w_m2k(
   area_m2: number,
   r: Referral,
 ): Float64Array {
-  const a = r.airside;
-  const ref = BANDS[band].reference;
-  const vRef = faceVelocity_ms(ref.speed_kmh, ref.fan_pct, a);
   const n = e.itd_k.length;
   const out = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     const q_kw = e.meter_kw[i] ?? (e.balance_kw[i] ?? Number.NaN) + r.unmeasured_heat_kw;
     const itd = e.itd_k[i]! - r.ambient_correction_k;
-    const g = (faceVelocity_ms(e.speed_kmh[i]!, e.fan_pct[i]!, a) / vRef) ** a.velocity_exponent;
+    const g = bandFactor(r.airside, band, e.speed_kmh[i]!, e.fan_pct[i]!);
     out[i] = q_kw > 0 && itd > 0 ? (q_kw * 1000) / (area_m2 * itd * g) : Number.NaN;
   }
   return out;

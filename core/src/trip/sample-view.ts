@@ -1,8 +1,8 @@
 import type { SampleColumns } from '@thermargin/shared';
 import { heatToCoolant_kw } from '../drivetrain/heat.ts';
-import { faceVelocity_ms } from '../radiator/airside.ts';
+import { bandFactor } from '../radiator/airside.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
-import { BANDS, type Band, bandOf } from './bands.ts';
+import { type Band, bandOf } from './bands.ts';
 import type { EstimatorOptions } from './estimator-options.ts';
 import { priorReferral, type Referral, windowK_w_m2k } from './refer.ts';
 import { tripWindows } from './windows.ts';
@@ -53,10 +53,8 @@ export function tripSampleView(
     if (band === null) return;
     const k = windowK_w_m2k(band, tripWindows(c, start, end, v, o)[band].evidence, v.radiator_area_m2, r)[0];
     if (k === undefined || Number.isNaN(k)) return;
-    const ref = BANDS[band].reference;
-    const vRef = faceVelocity_ms(ref.speed_kmh, ref.fan_pct, a);
     for (let i = start; i < end; i++) {
-      const g = (faceVelocity_ms(c.speed_kmh[i]!, c.fan_pct[i]!, a) / vRef) ** a.velocity_exponent;
+      const g = bandFactor(a, band, c.speed_kmh[i]!, c.fan_pct[i]!);
       view.k_w_m2k[i - from] = k;
       view.heat_rejected_kw[i - from] =
         (k * v.radiator_area_m2 * g * (c.coolant_in_c[i]! - c.ambient_c[i]! - r.ambient_correction_k)) / 1000;

@@ -12,8 +12,10 @@ export const SENSOR_CHECK_DEFAULTS = {
   fan_saturated_pct: 95,
   /** h, 6: stop after which the loop is taken as soaked to ambient (the soak check, common practice). */
   soak_min_h: 6,
-  /** –, 5: samples at key-on whose median gives the soak offset. */
-  soak_samples: 5,
+  /** s, 30: the samples after key-on whose line, back at key-on, gives the soak offset (the loop warms
+   *  from the first second: a small loop under idle load gains ≈ 0.2 K/s, so a median of the first
+   *  samples would read warm; the line's noise at 0.2 K and 1 Hz is ≈ 0.07 K). */
+  soak_fit_s: 30,
 } as const;
 
 /** Longest run of exactly repeated values in [from, to): its length in minutes and the heat spread in it. */
@@ -67,7 +69,10 @@ export function stuckSignals(
   return flags;
 }
 
-/** K: coolant_in − ambient at key-on after a soak of ≥ soak_min_h, or null when the stop was shorter or unknown. */
+/**
+ * K: coolant_in − ambient at key-on after a soak of ≥ soak_min_h, or null when the stop was shorter or
+ * unknown: the least-squares line of the difference over the first soak_fit_s, at the first sample.
+ */
 export function soakOffset_k(
   c: SampleColumns,
   from: number,
@@ -76,9 +81,22 @@ export function soakOffset_k(
   o = SENSOR_CHECK_DEFAULTS,
 ): number | null {
   if (previousEnd_ms === null || c.time_ms[from]! - previousEnd_ms < o.soak_min_h * 3_600_000) return null;
-  const m = Math.min(o.soak_samples, to - from);
-  const d = new Float64Array(m);
-  for (let j = 0; j < m; j++) d[j] = c.coolant_in_c[from + j]! - c.ambient_c[from + j]!;
-  d.sort();
-  return d[m >> 1]!;
+  const t0 = c.time_ms[from]!;
+  let n = 0;
+  let st = 0;
+  let stt = 0;
+  let sd = 0;
+  let std = 0;
+  for (let i = from; i < to && c.time_ms[i]! - t0 <= o.soak_fit_s * 1000; i++) {
+    const t = (c.time_ms[i]! - t0) / 1000;
+    const d = c.coolant_in_c[i]! - c.ambient_c[i]!;
+    n++;
+    st += t;
+    stt += t * t;
+    sd += d;
+    std += t * d;
+  }
+  const den = n * stt - st * st;
+  const slope = den > 0 ? (n * std - st * sd) / den : 0;
+  return (sd - slope * st) / n;
 }

@@ -13,6 +13,8 @@ export interface BandWindows {
   samples: number;
   /** Samples that were in the band with the radiator in charge (before window rules). */
   eligible: number;
+  /** °C: coolant_in of band samples warm (≥ thermostat_open_c, ITD ≥ the minimum) but below full open. */
+  held_c: number[];
   /** Windows rejected, by rule. */
   rejected: { short: number; low_heat: number; not_steady: number };
 }
@@ -26,9 +28,10 @@ export interface TripWindows {
 
 function emptyBand(): BandWindows {
   return {
-    evidence: { speed_kmh: [], fan_pct: [], itd_k: [], balance_kw: [], meter_kw: [] },
+    evidence: { speed_kmh: [], fan_pct: [], itd_k: [], balance_kw: [], meter_kw: [], flow_lpm: [] },
     samples: 0,
     eligible: 0,
+    held_c: [],
     rejected: { short: 0, low_heat: 0, not_steady: 0 },
   };
 }
@@ -44,27 +47,27 @@ class WindowSums {
   t0_ms = 0;
   last_ms = 0;
   n = 0;
-  st = 0;
-  stt = 0;
-  sT = 0;
-  stT = 0;
+  /** Index of the window's first sample. */
+  i0 = 0;
   sq = 0;
   sItd = 0;
   sItdV2 = 0;
   sItdF2 = 0;
   nFlow = 0;
   sFlowDt = 0;
+  sFlow = 0;
   nOut = 0;
   sDt = 0;
   sTmean = 0;
   /** False once a coolant reading off a 1 °C grid is seen (SAE J1939 SPN 110 resolution). */
   coarse = true;
 
-  start(band: Band, t_ms: number): void {
+  start(band: Band, t_ms: number, i: number): void {
     this.band = band;
     this.t0_ms = t_ms;
-    this.n = this.st = this.stt = this.sT = this.stT = this.sq = this.sItd = this.sItdV2 = this.sItdF2 = 0;
-    this.nFlow = this.sFlowDt = this.nOut = this.sDt = this.sTmean = 0;
+    this.i0 = i;
+    this.n = this.sq = this.sItd = this.sItdV2 = this.sItdF2 = 0;
+    this.nFlow = this.sFlowDt = this.sFlow = this.nOut = this.sDt = this.sTmean = 0;
     this.coarse = true;
   }
 }
@@ -74,9 +77,11 @@ class WindowSums {
  * − C·dT/dt, or ρ·cp·V̇·(T_in − T_out) with a flow meter). Each accepted window of ≤ window_s keeps
  * its heat rejected, mean ITD and air condition (speed and fan duty as ITD-weighted root mean squares,
  * so the face velocity √(ram² + fan²) of airside.ts is exact at the window's mean square); refer.ts
- * makes its k at the band's reference condition from them. dT/dt is the least-squares slope of
- * coolant_in_c over the window, a noise-robust derivative; for a quadratic temperature course it equals
- * the window's mean derivative.
+ * makes its k at the band's reference condition from them. The heat stored is C·(T_last − T_first) /
+ * duration, each end temperature from a least-squares line through the samples within storage_edge_s
+ * of it: the window's energy balance then holds whatever the temperature's course inside it (a slope
+ * fitted over the whole window weights its middle, and misread windows whose heat varies by ±2 % of
+ * k on the forward model), while the local lines average the sensor noise.
  * Sensor lag: a first-order sensor of time constant τ reads T_m with τ·dT_m/dt = T − T_m. Passing the
  * heat generated through the same lag gives L[q] − C·dT_m/dt = kA·(T_m − T_amb) exactly for constant
  * kA, so heat and measured temperature stay aligned in fast stop-and-go.
@@ -95,7 +100,34 @@ export function tripWindows(
   const minHeat_kw = Math.max(o.min_heat_kw, o.min_heat_share_of_design * v.design.heat_kw);
   const w = new WindowSums();
 
-  const close = (): void => {
+  const edge_ms = o.storage_edge_s * 1000;
+  /**
+   * °C at the window's first (head) or last sample: the least-squares line through the samples within
+   * storage_edge_s of it, evaluated there (a local fit averages the noise without the lag of a mean).
+   */
+  const edgeTemperature = (end: number, head: boolean): number => {
+    const at = head ? w.t0_ms : w.last_ms;
+    let n = 0;
+    let st = 0;
+    let stt = 0;
+    let sT = 0;
+    let stT = 0;
+    for (let i = head ? w.i0 : end - 1; head ? i < end : i >= w.i0; head ? i++ : i--) {
+      const x = (c.time_ms[i]! - at) / 1000;
+      if (Math.abs(x) * 1000 > edge_ms) break;
+      const T = c.coolant_in_c[i]!;
+      n++;
+      st += x;
+      stt += x * x;
+      sT += T;
+      stT += x * T;
+    }
+    const den = n * stt - st * st;
+    const b = den > 0 ? (n * stT - st * sT) / den : 0;
+    return (sT - b * st) / n;
+  };
+
+  const close = (end: number): void => {
     const band = w.band;
     if (band === null) return;
     w.band = null;
@@ -105,9 +137,8 @@ export function tripWindows(
       return;
     }
     const qGen = w.sq / w.n + v.aux_heat_kw;
-    const den = w.n * w.stt - w.st * w.st;
-    const slope_k_s = den > 0 ? (w.n * w.stT - w.st * w.sT) / den : 0;
-    const storage_kw = C_kj_k * slope_k_s;
+    const span_s = (w.last_ms - w.t0_ms) / 1000;
+    const storage_kw = (C_kj_k * (edgeTemperature(end, false) - edgeTemperature(end, true))) / span_s;
     const steady = Math.abs(storage_kw) <= o.max_storage_share * qGen;
     // A 1 °C grid makes T_in − T_out (5–10 K) too coarse for the coolant-side balance (common
     // practice: SPN 110 is not for ΔT); such windows take the heat balance instead.
@@ -135,6 +166,7 @@ export function tripWindows(
     e.itd_k.push(round(w.sItd / w.n, 2));
     e.balance_kw.push(steady ? round(qGen - v.aux_heat_kw - storage_kw, 3) : null);
     e.meter_kw.push(meter === null ? null : round(meter, 3));
+    e.flow_lpm.push(meter === null ? null : round(w.sFlow / w.n, 2));
     res.samples += w.n;
     if (w.nOut === w.n) out.dt_per_kw.push(w.sDt / w.n / qRej);
   };
@@ -152,19 +184,19 @@ export function tripWindows(
     const itd = Tin - c.ambient_c[i]!;
     const speed = c.speed_kmh[i]!;
     const fan = c.fan_pct[i]!;
-    const inCharge = Tin >= v.thermostat_full_open_c && itd >= o.min_itd_k;
+    const warm = Tin >= v.thermostat_open_c && itd >= o.min_itd_k;
+    const inCharge = warm && Tin >= v.thermostat_full_open_c;
     const band = inCharge ? bandOf(speed, fan) : null;
     if (band !== null) out[band].eligible++;
+    else if (warm) {
+      const held = bandOf(speed, fan);
+      if (held !== null) out[held].held_c.push(Tin);
+    }
     if (w.band !== null && (band !== w.band || t - w.last_ms > maxStep_ms || t - w.t0_ms >= window_ms))
-      close();
+      close(i);
     if (band === null) continue;
-    if (w.band === null) w.start(band, t);
-    const ts = (t - w.t0_ms) / 1000;
+    if (w.band === null) w.start(band, t, i);
     w.n++;
-    w.st += ts;
-    w.stt += ts * ts;
-    w.sT += Tin;
-    w.stT += ts * Tin;
     w.sq += qLag;
     w.sItd += itd;
     w.sItdV2 += itd * speed * speed;
@@ -179,10 +211,11 @@ export function tripWindows(
       if (!Number.isNaN(flow)) {
         w.nFlow++;
         w.sFlowDt += flow * (Tin - Tout);
+        w.sFlow += flow;
         w.sTmean += (Tin + Tout) / 2;
       }
     }
   }
-  close();
+  close(to);
   return out;
 }

@@ -28,7 +28,10 @@ export interface VehicleModel {
   bench_k_w_m2k: { ram: number; fan: number } | null;
   airside: Airside;
   /** Where each air-side figure came from before the vehicle stage learns them. */
-  airside_basis: Record<keyof Airside, 'fleet_file' | 'default'>;
+  airside_basis: Record<
+    'ram_face_ratio' | 'fan_face_velocity_ms' | 'velocity_exponent',
+    'fleet_file' | 'default'
+  >;
   /** kW: unmeasured steady heat into the loop; the fleet file's aux_heat_kw, else 0. */
   aux_heat_kw: number;
   /** Whether aux_heat_kw came from the fleet file (then it is known, not estimated). */
@@ -57,7 +60,8 @@ export function defaultThermostatFullOpen_c(open_c: number, limit_c: number): nu
 }
 
 function airsideBasis(given: Partial<Airside> | undefined): VehicleModel['airside_basis'] {
-  const of = (k: keyof Airside) => (given?.[k] === undefined ? 'default' : 'fleet_file');
+  const of = (k: keyof VehicleModel['airside_basis']) =>
+    given?.[k] === undefined ? 'default' : 'fleet_file';
   return {
     ram_face_ratio: of('ram_face_ratio'),
     fan_face_velocity_ms: of('fan_face_velocity_ms'),
