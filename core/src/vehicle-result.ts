@@ -1,6 +1,6 @@
 import type { MaintenanceEntry, Trend, TripResult, VehicleResult } from '@thermargin/shared';
 import { assessVehicle, type HealthOptions, type VehicleAssessment } from './health/assess.ts';
-import { learnVehicle, type VehicleLearning } from './vehicle/learn.ts';
+import { learnedFields, learnVehicle } from './vehicle/learn.ts';
 import type { VehicleModel } from './vehicle/resolve.ts';
 
 export interface VehicleOutcome {
@@ -10,27 +10,6 @@ export interface VehicleOutcome {
   assessment: VehicleAssessment;
   /** The vehicle as the vehicle stage learned it (air side, unmeasured heat): what its figures rest on. */
   learned: VehicleModel;
-}
-
-/** The contract's form of what the vehicle stage learned. */
-function learnedFigures(
-  l: VehicleLearning,
-): Pick<VehicleResult, 'airside_fit' | 'unmeasured_heat' | 'ambient_offset'> {
-  const { airside: f } = l;
-  const iso = (ms: number | null) => (ms === null ? null : new Date(ms).toISOString());
-  return {
-    airside_fit: {
-      velocity_exponent: f.velocity_exponent,
-      fan_velocity_exponent: f.fan_velocity_exponent,
-      ram_face_ratio: f.ram_face_ratio,
-      fan_face_velocity_ms: f.fan_face_velocity_ms,
-      windows: f.windows,
-      trips: f.trips,
-      notes: f.notes,
-    },
-    unmeasured_heat: l.unmeasured,
-    ambient_offset: l.ambient.map(({ from_ms, ...a }) => ({ from: iso(from_ms), ...a })),
-  };
 }
 
 /**
@@ -61,7 +40,7 @@ export function vehicleResult(
       trend: now.trend,
       trend_pct_per_30d: now.trend_pct_per_30d,
       alerts: a.alerts,
-      ...learnedFigures(l),
+      ...learnedFields(l),
     },
     assessment: a,
     learned: l.vehicle,

@@ -3,7 +3,15 @@ import { NUMERIC_COLUMNS } from './columns.ts';
 import { MAINTENANCE_ACTIONS, maintenanceEntrySchema, vehicleConfigSchema } from './fleet.ts';
 import { healthSeriesSchema } from './health-series.ts';
 import { idSchema } from './ids.ts';
-import { CAUSES, STATUSES, TRENDS, tripResultSchema } from './results.ts';
+import {
+  ambientOffsetSchema,
+  airsideFitSchema,
+  CAUSES,
+  STATUSES,
+  TRENDS,
+  tripResultSchema,
+  unmeasuredHeatSchema,
+} from './results.ts';
 import { STORE_FAULTS } from './store-faults.ts';
 import { REJECT_REASONS } from './telemetry.ts';
 
@@ -196,6 +204,10 @@ export const vehicleResponseSchema = z.object({
   trips: z.array(tripResultSchema),
   trips_total: z.number().int(),
   safety_caution: z.string(),
+  /** What the vehicle stage learned (core/vehicle/learn.ts); absent before its first analysis. */
+  airside_fit: airsideFitSchema.optional(),
+  unmeasured_heat: unmeasuredHeatSchema.optional(),
+  ambient_offset: z.array(ambientOffsetSchema).optional(),
 });
 export type VehicleResponse = z.infer<typeof vehicleResponseSchema>;
 

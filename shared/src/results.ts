@@ -119,9 +119,15 @@ export const tripResultSchema = z.object({
 });
 export type TripResult = z.infer<typeof tripResultSchema>;
 
+/** A trip result without its window evidence: what screens and reports show (the evidence is for the vehicle stage). */
+export function withoutWindows(t: TripResult): TripResult {
+  const { windows: _, ...rest } = t;
+  return rest;
+}
+
 /** Where a learned figure came from: fitted to the vehicle's own data, the fleet file, or the default. */
 export const FIGURE_BASES = ['fitted', 'fleet_file', 'default'] as const;
-const fittedFigureSchema = z.object({
+export const fittedFigureSchema = z.object({
   value: z.number(),
   /** 95 % interval of a fitted value; null when the figure was not fitted. */
   ci95: ci95.nullable(),
@@ -142,6 +148,7 @@ export const airsideFitSchema = z.object({
   notes: z.array(z.string()),
 });
 export type AirsideFit = z.infer<typeof airsideFitSchema>;
+export type FittedFigure = z.infer<typeof fittedFigureSchema>;
 
 /** Unmeasured steady heat into the loop: fitted (used), the fleet file's aux_heat_kw, or none. */
 export const unmeasuredHeatSchema = z.object({

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { designPointSchema, POWERTRAINS } from './fleet.ts';
-import { CAUSES, STATUSES } from './results.ts';
+import { airsideFitSchema, CAUSES, STATUSES } from './results.ts';
 
 /**
  * The sizing routes' contract (services/api/src/routes-sizing.ts): the sizing result as
@@ -137,6 +137,8 @@ const vehicleSizing = z.object({
     .extend({ share_of_time: num, onset_heat_kw: percentiles, heat_kw_while_derated: percentiles })
     .nullable(),
   what_if: z.array(whatIfVehicleSchema).nullable(),
+  /** The air side the vehicle stage learned; absent in results from before it. */
+  airside_fit: airsideFitSchema.nullable().optional(),
 });
 export type VehicleSizingView = z.infer<typeof vehicleSizing>;
 
@@ -240,6 +242,10 @@ export const sizingResultSchema = z.object({
   fleet: groupSizing,
   drivetrains: drivetrainComparisonSchema,
   method: z.array(z.object({ topic: z.string(), text: z.string(), source: z.string() })).readonly(),
+  /** The core's air-side defaults, beside each vehicle's learned figures. */
+  airside_defaults: z
+    .object({ ram_face_ratio: num, fan_face_velocity_ms: num, velocity_exponent: num })
+    .optional(),
 });
 export type SizingResultView = z.infer<typeof sizingResultSchema>;
 

@@ -1,4 +1,4 @@
-import type { BandWindowsEvidence } from '@thermargin/shared';
+import type { BandWindowsEvidence, FittedFigure } from '@thermargin/shared';
 import { HUBER_DEFAULTS, huberFit, type RobustProblem } from '../stats/huber.ts';
 import { type Airside, FAN_REFERENCE, RAM_REFERENCE } from './airside.ts';
 
@@ -23,6 +23,38 @@ export const AIRSIDE_FIT_DEFAULTS = {
 
 export type AirsideFitOptions = typeof AIRSIDE_FIT_DEFAULTS;
 
+/** The fitted figures as results report them (rounded: the shape refers with these values). */
+export interface AirsideFigures {
+  velocity_exponent: FittedFigure;
+  /** The fan band's own exponent when fitted; else the ram band's figure (or the prior's). */
+  fan_velocity_exponent: FittedFigure;
+  ram_face_ratio: FittedFigure;
+  fan_face_velocity_ms: FittedFigure;
+}
+
+/**
+ * The air side to refer with, from the prior and the reported figures: a fitted figure's value, the
+ * prior's exact value elsewhere (so a vehicle with nothing fitted refers exactly as its trips did). The
+ * fan band takes its own fitted exponent, else the ram band's fitted one, else the prior's. Rebuilding
+ * it from stored results gives the shape the figures were made with.
+ */
+export function learnedAirside(prior: Airside, f: AirsideFigures): Airside {
+  const fitted = (x: FittedFigure, otherwise: number) => (x.basis === 'fitted' ? x.value : otherwise);
+  const ram = fitted(f.velocity_exponent, prior.velocity_exponent);
+  const fan =
+    f.fan_velocity_exponent.basis === 'fitted'
+      ? f.fan_velocity_exponent.value
+      : f.velocity_exponent.basis === 'fitted'
+        ? ram
+        : prior.fan_velocity_exponent;
+  return {
+    ram_face_ratio: fitted(f.ram_face_ratio, prior.ram_face_ratio),
+    fan_face_velocity_ms: prior.fan_face_velocity_ms,
+    velocity_exponent: ram,
+    ...(fan === undefined ? {} : { fan_velocity_exponent: fan }),
+  };
+}
+
 /** One trip's windows as the fit reads them; itd already corrected for the trip's ambient offset. */
 export interface FitTrip {
   windows: { ram: BandWindowsEvidence; fan: BandWindowsEvidence };
@@ -30,22 +62,9 @@ export interface FitTrip {
   ambient_correction_k: number;
 }
 
-export type Basis = 'fitted' | 'fleet_file' | 'default';
-
-export interface FittedFigure {
-  value: number;
-  /** 95 % interval of the fitted value; null when it was not fitted. */
-  ci95: [number, number] | null;
-  basis: Basis;
-}
-
-export interface AirsideFitResult {
+export interface AirsideFitResult extends AirsideFigures {
   /** The shape to refer with: fitted figures where the data carried them, the prior elsewhere. */
   airside: Airside;
-  velocity_exponent: FittedFigure;
-  fan_velocity_exponent: FittedFigure;
-  ram_face_ratio: FittedFigure;
-  fan_face_velocity_ms: FittedFigure;
   windows: number;
   trips: number;
   /** Why figures fell back to the prior, in words; empty when all were fitted. */
@@ -333,7 +352,7 @@ function assemble(
     if (j < 0 || !fit) return null;
     return { value: fit.theta[j]!, half: fit.half95[j]! };
   };
-  const figure = (p: Param, priorBasis: Basis, map = (x: number) => x): FittedFigure => {
+  const figure = (p: Param, priorBasis: FittedFigure['basis'], map = (x: number) => x): FittedFigure => {
     const f = at(p);
     return f
       ? { value: map(f.value), ci95: [map(f.value - f.half), map(f.value + f.half)], basis: 'fitted' }
@@ -341,8 +360,7 @@ function assemble(
   };
   const vf = a.fan_face_velocity_ms;
   const nRam = figure('n_ram', prior.basis.velocity_exponent);
-  const ownFan = at('n_fan') !== null || a.fan_velocity_exponent !== undefined;
-  const nFan = ownFan ? figure('n_fan', prior.basis.velocity_exponent) : { ...nRam };
+  const nFan = at('n_fan') !== null ? figure('n_fan', prior.basis.velocity_exponent) : { ...nRam };
   const ratio = figure('log_ratio', prior.basis.ram_face_ratio, (x) => Math.exp(x) * vf);
   const round = (x: number, d: number) => Math.round(x * 10 ** d) / 10 ** d;
   const r = (f: FittedFigure, d: number): FittedFigure => ({
@@ -350,17 +368,15 @@ function assemble(
     ci95: f.ci95 ? [round(f.ci95[0], d), round(f.ci95[1], d)] : null,
     basis: f.basis,
   });
-  return {
-    airside: {
-      ram_face_ratio: ratio.value,
-      fan_face_velocity_ms: vf,
-      velocity_exponent: nRam.value,
-      ...(ownFan || nRam.basis === 'fitted' ? { fan_velocity_exponent: nFan.value } : {}),
-    },
+  const figures = {
     velocity_exponent: r(nRam, 3),
     fan_velocity_exponent: r(nFan, 3),
     ram_face_ratio: r(ratio, 4),
-    fan_face_velocity_ms: { value: vf, ci95: null, basis: prior.basis.fan_face_velocity_ms },
+    fan_face_velocity_ms: r({ value: vf, ci95: null, basis: prior.basis.fan_face_velocity_ms }, 3),
+  };
+  return {
+    airside: learnedAirside(a, figures),
+    ...figures,
     windows: D.n,
     trips: D.clusters,
     notes,

@@ -1,5 +1,7 @@
 import type { TripResult } from '@thermargin/shared';
 import { median } from '../stats/quantile.ts';
+import { AIRSIDE_DEFAULTS, type Airside } from '../radiator/airside.ts';
+import { learnedFields, learnVehicle } from '../vehicle/learn.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
 import { compareDrivetrains, type DrivetrainComparison, type Duty } from './drivetrain-compare.ts';
 import { fleetDuty, withDutySource } from './fleet-duty.ts';
@@ -34,6 +36,8 @@ export interface SizingResult {
   fleet: GroupSizing;
   drivetrains: DrivetrainComparison;
   method: readonly MethodNote[];
+  /** The air-side defaults each vehicle's learned figures (VehicleSizing.airside_fit) stand beside. */
+  airside_defaults: Airside;
 }
 
 /**
@@ -46,7 +50,13 @@ export interface SizingResult {
 export function sizeFleet(input: SizingInput, o: SizingOptions): SizingResult {
   const sized = input.vehicles.map((v) => {
     const samples = input.samples?.get(v.id) ?? null;
-    return { v, samples, s: sizeVehicle(v, input.trips.get(v.id) ?? [], samples, o) };
+    // The vehicle stage's figures (learned air side, corrections), as the analysis reports them.
+    const l = learnVehicle(v, input.trips.get(v.id) ?? []);
+    return {
+      v,
+      samples,
+      s: sizeVehicle(l.vehicle, l.trips, samples, o, learnedFields(l).airside_fit ?? null),
+    };
   });
   const withSamples = (xs: typeof sized) =>
     xs.map((x) => x.samples).filter((s): s is VehicleSamples => s !== null);
@@ -87,5 +97,6 @@ export function sizeFleet(input: SizingInput, o: SizingOptions): SizingResult {
       duty,
     ),
     method: SIZING_METHOD,
+    airside_defaults: { ...AIRSIDE_DEFAULTS },
   };
 }

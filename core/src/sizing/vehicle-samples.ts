@@ -1,7 +1,9 @@
 import type { SampleColumns, TripResult } from '@thermargin/shared';
 import { heatToCoolant_kw } from '../drivetrain/heat.ts';
 import { dryAirDensity_kg_m3 } from '../properties/air.ts';
+import { medianK } from '../trip/band-estimate.ts';
 import { ESTIMATOR_DEFAULTS } from '../trip/estimator-options.ts';
+import { priorReferral, windowK_w_m2k } from '../trip/refer.ts';
 import type { TripSpan } from '../trip/split.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
 import { DerateTally } from './derate-tally.ts';
@@ -78,10 +80,22 @@ export class VehicleSamples {
     });
   }
 
-  /** k of a trip per band: its own (unflagged), else the latest earlier trip's, else the bench k. */
+  /**
+   * k of a trip per band: its own (unflagged), else the latest earlier trip's, else the bench k. Made
+   * from the trip's windows with the fleet file's air side, as the trip stage made it: the replay runs
+   * while the samples stream, before the vehicle stage has seen every trip, and the trip results the
+   * stores hold are the vehicle stage's (the replay moves k back along the same air side, so the shape
+   * cancels to first order).
+   */
   private tripK(t: TripResult): BandK {
-    this.last.ram = tripK(t, 'ram') ?? this.last.ram;
-    this.last.fan = tripK(t, 'fan') ?? this.last.fan;
+    const own = (b: 'ram' | 'fan') => {
+      if (!t.windows) return tripK(t, b);
+      if (t.sensor_flags.length > 0) return null;
+      const k = windowK_w_m2k(b, t.windows[b], this.vehicle.radiator_area_m2, priorReferral(this.vehicle));
+      return medianK(k, ESTIMATOR_DEFAULTS)?.k_w_m2k ?? null;
+    };
+    this.last.ram = own('ram') ?? this.last.ram;
+    this.last.fan = own('fan') ?? this.last.fan;
     return { ram: this.last.ram ?? this.bench.ram, fan: this.last.fan ?? this.bench.fan };
   }
 

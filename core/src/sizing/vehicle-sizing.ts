@@ -1,4 +1,4 @@
-import type { Cause, DesignPoint, Powertrain, Status, TripResult } from '@thermargin/shared';
+import type { AirsideFit, Cause, DesignPoint, Powertrain, Status, TripResult } from '@thermargin/shared';
 import type { Band } from '../trip/bands.ts';
 import { designBand, designKa_w_k } from '../trip/design-point.ts';
 import { type VehicleOutcome, vehicleResult } from '../vehicle-result.ts';
@@ -75,6 +75,8 @@ export interface VehicleSizing {
   duty_cycle: DutyCycle | null;
   derate: DerateSummary | null;
   what_if: WhatIfVehicle[] | null;
+  /** The air side the vehicle stage learned (null when sized without it). */
+  airside_fit: AirsideFit | null;
 }
 
 const r3 = (x: number) => Math.round(x * 1000) / 1000;
@@ -163,6 +165,7 @@ export function sizeVehicle(
   trips: readonly TripResult[],
   samples: VehicleSamples | null,
   o: SizingOptions,
+  airside_fit: AirsideFit | null = null,
 ): VehicleSizing {
   // The same assessment analyze makes: its causes keep other faults out of the fouling fit, its margin
   // stands beside the design check's.
@@ -201,5 +204,6 @@ export function sizeVehicle(
     duty_cycle: duty,
     derate,
     what_if: samples ? whatIf(v, samples) : null,
+    airside_fit,
   };
 }

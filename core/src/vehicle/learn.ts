@@ -1,6 +1,11 @@
-import type { TripResult } from '@thermargin/shared';
+import type { TripResult, VehicleResult } from '@thermargin/shared';
 import { maintenanceTime_ms } from '../health/rebaseline.ts';
-import { AIRSIDE_FIT_DEFAULTS, type AirsideFitResult, fitAirside } from '../radiator/airside-fit.ts';
+import {
+  AIRSIDE_FIT_DEFAULTS,
+  type AirsideFitResult,
+  fitAirside,
+  learnedAirside,
+} from '../radiator/airside-fit.ts';
 import { type AmbientOffset, ambientOffset } from '../trip/ambient-offset.ts';
 import { medianK, scatterCi95 } from '../trip/band-estimate.ts';
 import { robustSigma } from '../stats/mad.ts';
@@ -166,4 +171,43 @@ function ambientPeriods(
       .map((t) => t.soak_offset_k!);
     return { ...ambientOffset(checks), from_ms: from };
   });
+}
+
+/**
+ * The referral a stored trip's figures were made with, rebuilt from its vehicle's stored result (the
+ * API's per-sample trace shows k and heat rejected with it); the fleet file's when the result has no fit.
+ */
+export function storedReferral(
+  v: VehicleModel,
+  r: Pick<VehicleResult, 'airside_fit' | 'unmeasured_heat'>,
+  t: Pick<TripResult, 'ambient_correction_k'>,
+): Referral {
+  const airside = r.airside_fit ? learnedAirside(v.airside, r.airside_fit) : v.airside;
+  const heat = r.unmeasured_heat;
+  return {
+    airside,
+    unmeasured_heat_kw: heat && heat.basis !== 'none' ? heat.value_kw : v.aux_heat_kw,
+    ambient_correction_k: t.ambient_correction_k ?? 0,
+  };
+}
+
+/** The contract's form of what the vehicle stage learned. */
+export function learnedFields(
+  l: VehicleLearning,
+): Pick<VehicleResult, 'airside_fit' | 'unmeasured_heat' | 'ambient_offset'> {
+  const { airside: f } = l;
+  const iso = (ms: number | null) => (ms === null ? null : new Date(ms).toISOString());
+  return {
+    airside_fit: {
+      velocity_exponent: f.velocity_exponent,
+      fan_velocity_exponent: f.fan_velocity_exponent,
+      ram_face_ratio: f.ram_face_ratio,
+      fan_face_velocity_ms: f.fan_face_velocity_ms,
+      windows: f.windows,
+      trips: f.trips,
+      notes: f.notes,
+    },
+    unmeasured_heat: l.unmeasured,
+    ambient_offset: l.ambient.map(({ from_ms, ...a }) => ({ from: iso(from_ms), ...a })),
+  };
 }

@@ -1,4 +1,4 @@
-import type { ApiEvent, Status } from '@thermargin/shared';
+import { type ApiEvent, type Status, withoutWindows } from '@thermargin/shared';
 import { streamSSE } from 'hono/streaming';
 import type { ApiContext } from './context.ts';
 import type { Handlers } from './route.ts';
@@ -66,7 +66,8 @@ export class EventHub {
       if (!d) continue;
       const seen = this.trips.get(vehicle) ?? new Map<string, string>();
       for (const t of d.result.trips) {
-        if (seen.get(t.trip) !== t.end) this.emit({ event: 'trip', data: { vehicle, trip: t } });
+        if (seen.get(t.trip) !== t.end)
+          this.emit({ event: 'trip', data: { vehicle, trip: withoutWindows(t) } });
         seen.set(t.trip, t.end);
       }
       this.trips.set(vehicle, seen);

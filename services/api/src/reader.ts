@@ -1,4 +1,4 @@
-import type { Sample } from '@thermargin/shared';
+import { type Sample, withoutWindows } from '@thermargin/shared';
 import type { SampleStore, VehicleSpan } from '@thermargin/store';
 import type { AnalysisStore } from '@thermargin/store/sqlite-analysis-store';
 import type { StoredAssessment, VehicleData } from './views.ts';
@@ -57,7 +57,8 @@ export class ResultReader {
       result,
       analysis,
       assessment: analysis.assessment as StoredAssessment,
-      newest_first: [...result.trips].reverse(),
+      // Screens read the figures; the window evidence stays in the store for the vehicle stage.
+      newest_first: result.trips.map(withoutWindows).reverse(),
     };
     this.cache.set(vehicle, data);
     return data;

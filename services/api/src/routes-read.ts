@@ -175,6 +175,9 @@ function vehiclePages(x: ApiContext): (c: Context, id: string) => Promise<Answer
       trips: data?.newest_first.slice(0, VEHICLE_RECENT_TRIPS) ?? [],
       trips_total: data?.result.trips.length ?? 0,
       safety_caution: SAFETY_CAUTION,
+      ...(data?.result.airside_fit ? { airside_fit: data.result.airside_fit } : {}),
+      ...(data?.result.unmeasured_heat ? { unmeasured_heat: data.result.unmeasured_heat } : {}),
+      ...(data?.result.ambient_offset ? { ambient_offset: data.result.ambient_offset } : {}),
     });
     pages.set(id, { key, page });
     return page.respond(c);

@@ -2,6 +2,7 @@ import { TRACE_COLUMNS, type TraceResponse } from '@thermargin/shared';
 import { cleanSamples } from '@thermargin/core/trip/clean';
 import { ESTIMATOR_DEFAULTS } from '@thermargin/core/trip/estimator-options';
 import { tripSampleView } from '@thermargin/core/trip/sample-view';
+import { storedReferral } from '@thermargin/core/vehicle/learn';
 import type { ApiContext } from './context.ts';
 import { notFound } from './http-error.ts';
 import type { Handlers } from './route.ts';
@@ -14,11 +15,13 @@ export function traceRoutes(x: ApiContext): Handlers<'trace'> {
       const model = x.model(id);
       const data = await x.reader.vehicle(id);
       const trip = data?.result.trips.find((t) => t.trip === params.trip);
-      if (!trip) throw notFound(`trip ${params.trip} of vehicle ${id}`);
+      if (!data || !trip) throw notFound(`trip ${params.trip} of vehicle ${id}`);
       const raw = await x.deps.samples.readSamples(id, Date.parse(trip.start), Date.parse(trip.end) + 1);
       // The same cleaning the analysis ran, so the samples shown are the samples used.
       const { columns: c } = cleanSamples(raw);
-      const view = tripSampleView(c, 0, c.n, model, ESTIMATOR_DEFAULTS);
+      // k and heat rejected per sample with the air side and corrections the vehicle stage learned.
+      const referral = storedReferral(model, data.result, trip);
+      const view = tripSampleView(c, 0, c.n, model, ESTIMATOR_DEFAULTS, referral);
       const cols = traceColumns(c, view, query.points, ESTIMATOR_DEFAULTS.max_step_s * 1000);
       return {
         vehicle: id,

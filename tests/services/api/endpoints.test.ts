@@ -18,6 +18,7 @@ import {
   framesResponseSchema,
   sampleTopic,
   VEHICLE_RECENT_TRIPS,
+  withoutWindows,
 } from '@thermargin/shared';
 import { createInfluxStore, type SampleStore } from '@thermargin/store';
 import { createScenario, publishScenario } from '@thermargin/simulator';
@@ -159,7 +160,10 @@ describe('API against the running stack (Mosquitto → ingester → InfluxDB →
       expect(body.alerts.map(({ time, status, cause, detail }) => ({ time, status, cause, detail }))).toEqual(
         want.result.alerts,
       );
-      expect(body.trips).toEqual(want.result.trips.slice(-VEHICLE_RECENT_TRIPS).reverse());
+      // Screens get the figures; the window evidence stays in the store.
+      expect(body.trips).toEqual(
+        want.result.trips.map(withoutWindows).slice(-VEHICLE_RECENT_TRIPS).reverse(),
+      );
       expect(body.trips_total).toBe(want.result.trips.length);
       expect(body.cause_evidence).toBe(want.result.cause_evidence);
     }
@@ -167,7 +171,7 @@ describe('API against the running stack (Mosquitto → ingester → InfluxDB →
 
   it('trips: paged newest first, filtered by date and status', async () => {
     const id = IDS[0]!;
-    const all = reference().get(id)!.result.trips;
+    const all = reference().get(id)!.result.trips.map(withoutWindows);
     const page = tripsResponseSchema.parse(
       await (await stack.get(`/api/vehicles/${id}/trips?limit=3&offset=2`)).json(),
     );
@@ -198,7 +202,7 @@ describe('API against the running stack (Mosquitto → ingester → InfluxDB →
     const body = traceResponseSchema.parse(
       await (await stack.get(`/api/vehicles/${id}/trips/${trip.trip}?points=500`)).json(),
     ) as TraceResponse;
-    expect(body.trip).toEqual(trip);
+    expect(body.trip).toEqual(withoutWindows(trip));
     const col = (n: string) => body.data[body.columns.indexOf(n as never)]!;
     expect(col('time_ms').length).toBe(body.points);
     expect(body.points).toBeGreaterThan(400);

@@ -1,5 +1,6 @@
 import type { GroupSizingView, SizingResponse, SizingResultView } from '@thermargin/shared/sizing-api';
 import { DutyChart } from '../charts/duty-charts.tsx';
+import { AirsideTable } from '../components/AirsideTable.tsx';
 import { Caution } from '../components/Caution.tsx';
 import { DesignChecks, FoulingNotes } from '../components/DesignChecks.tsx';
 import { SizingCalculator } from '../components/SizingCalculator.tsx';
@@ -249,6 +250,10 @@ function Sheet({ r, session }: { r: SizingResponse; session: Session }) {
       <section aria-labelledby="fieldk">
         <h2 id="fieldk">Field k against the bench</h2>
         <FieldK s={s} />
+      </section>
+      <section aria-labelledby="airside">
+        <h2 id="airside">Air side learned per vehicle</h2>
+        <AirsideTable s={s} />
       </section>
       <section aria-labelledby="duty">
         <h2 id="duty">Heat-load duty cycle</h2>

@@ -1,4 +1,4 @@
-import type { AnalysisReport } from '@thermargin/shared';
+import { type AnalysisReport, withoutWindows } from '@thermargin/shared';
 import { vehicleResult } from '@thermargin/core/vehicle-result';
 import type { AnalyzedData } from '../import/analyze-data.ts';
 
@@ -15,7 +15,9 @@ export function buildReport(data: AnalyzedData): AnalysisReport & {
     const s = data.streams.get(v.id)!;
     for (const [k, n] of Object.entries(s.dropped)) dropped[k] = (dropped[k] ?? 0) + n;
     if (s.trips.length === 0) return { id: v.id, trips: [], unassessed: data.whyNoTrips(v.id) };
-    return vehicleResult(v, s.trips).result;
+    const r = vehicleResult(v, s.trips).result;
+    // The window evidence served the vehicle stage; the report gives the figures.
+    return { ...r, trips: r.trips.map(withoutWindows) };
   });
   return {
     vehicles,

@@ -1,4 +1,4 @@
-import { SAFETY_CAUTION } from '@thermargin/shared';
+import { type FittedFigure, SAFETY_CAUTION } from '@thermargin/shared';
 import { dutyWords, leftOutWords, marginStepsWords } from '@thermargin/shared/sizing-text';
 import type { SizingResult } from '@thermargin/core/sizing/fleet-sizing';
 import type { GroupSizing } from '@thermargin/core/sizing/group-sizing';
@@ -244,6 +244,28 @@ ${table(['vehicle', 'limit °C', 'design ambient °C', 'events', 'hours', 'kWh n
   return parts ? `<h2>What if: replay of the days driven</h2>${parts.join('')}` : '';
 }
 
+function airside(r: SizingResult): string {
+  const d = r.airside_defaults;
+  const fig = (f: FittedFigure, digits: number) =>
+    `${f.value.toFixed(digits)}${f.ci95 ? ` (${f.ci95[0].toFixed(digits)}–${f.ci95[1].toFixed(digits)})` : ''} ${esc(f.basis.replace('_', ' '))}`;
+  const rows = r.vehicles.map((v) => {
+    const a = v.airside_fit;
+    if (!a) return [esc(v.id), '–', '–', '–', '–', '–', '–'];
+    return [
+      esc(v.id),
+      fig(a.velocity_exponent, 3),
+      fig(a.fan_velocity_exponent, 3),
+      fig(a.ram_face_ratio, 3),
+      fig(a.fan_face_velocity_ms, 2),
+      `${a.windows} / ${a.trips}`,
+      esc(a.notes.join('; ')) || '–',
+    ];
+  });
+  return `<h2>Air side learned per vehicle</h2>
+<p>How k follows face velocity (k ∝ v_face^n) and how face velocity follows road speed and fan duty, fitted per vehicle to the variation of k within its trips (95 % interval in brackets), else the fleet file's figure or the default. Defaults: exponent ${d.velocity_exponent}, ram face-velocity ratio ${d.ram_face_ratio}, fan face velocity ${d.fan_face_velocity_ms} m/s. Only the ratio of ram to fan face velocity shows in k, so the fan face velocity stays the fleet file's or the default.</p>
+${table(['vehicle', 'exponent, ram band', 'exponent, fan band', 'ram face-velocity ratio', 'fan face velocity m/s', 'windows / trips', 'notes'], rows)}`;
+}
+
 function method(r: SizingResult): string {
   const rows = r.method.map((m) => [esc(m.topic), esc(m.text), esc(m.source)]);
   return `<h2>Method and sources</h2>${table(['figure', 'method', 'source'], rows)}`;
@@ -266,6 +288,7 @@ export function sizingHtml(r: SizingResult, src: ReportSource): string {
 ${caution()}
 ${summary(r)}
 ${fieldK(r)}
+${airside(r)}
 <h2>Heat-load duty cycle</h2>
 <p>Heat generated into the coolant, time-weighted percentiles; levels as shares of each vehicle's design heat.</p>
 ${[...r.types, r.fleet].map(dutyCycle).join('')}
