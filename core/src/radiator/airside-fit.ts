@@ -1,6 +1,17 @@
-import type { BandWindowsEvidence, FittedFigure } from '@thermargin/shared';
-import { HUBER_DEFAULTS, huberFit, type RobustProblem } from '../stats/huber.ts';
-import { type Airside, FAN_REFERENCE, RAM_REFERENCE } from './airside.ts';
+import type { FittedFigure } from '@thermargin/shared';
+import { HUBER_DEFAULTS, huberFit } from '../stats/huber.ts';
+import type { Airside } from './airside.ts';
+import {
+  type Data,
+  type FitTrip,
+  flatten,
+  type Param,
+  problem,
+  S_EDGE,
+  spread,
+} from './airside-window-model.ts';
+
+export type { FitTrip } from './airside-window-model.ts';
 
 /** Rules of the per-vehicle air-side fit; defaults defined once here, each says why. */
 export const AIRSIDE_FIT_DEFAULTS = {
@@ -14,11 +25,13 @@ export const AIRSIDE_FIT_DEFAULTS = {
   /** –, 0.15: an exponent is fitted when its 95 % interval is at most ± this (the common-practice
    *  range 0.4–0.8 is ± 0.2 about its middle, so a fit must say more than the range does). */
   max_exponent_half95: 0.15,
-  /** –, ln 1.5: the ram-to-fan face-velocity ratio is fitted when its 95 % interval is within ×/÷ 1.5. */
-  max_log_ratio_half95: Math.log(1.5),
+  /** –, 0.01: the ram-to-fan face-velocity ratio is fitted when its 95 % interval moves k at the fan
+   *  band's edge (20 km/h, fan 100 %) by at most ±1 %: the ratio matters only through that mixing, and
+   *  a small ratio is bounded from above long before its logarithm is. */
+  max_ratio_edge_half95: 0.01,
   /** Bounds the fit may not leave: exponents 0.2–1.2 (the fleet file's range), ratio ×/÷ 4 of the prior. */
   exponent_bounds: [0.2, 1.2] as [number, number],
-  log_ratio_span: Math.log(4),
+  max_ratio_over_prior: 4,
 } as const;
 
 export type AirsideFitOptions = typeof AIRSIDE_FIT_DEFAULTS;
@@ -55,13 +68,6 @@ export function learnedAirside(prior: Airside, f: AirsideFigures): Airside {
   };
 }
 
-/** One trip's windows as the fit reads them; itd already corrected for the trip's ambient offset. */
-export interface FitTrip {
-  windows: { ram: BandWindowsEvidence; fan: BandWindowsEvidence };
-  /** K added to the measured ambient on this trip. */
-  ambient_correction_k: number;
-}
-
 export interface AirsideFitResult extends AirsideFigures {
   /** The shape to refer with: fitted figures where the data carried them, the prior elsewhere. */
   airside: Airside;
@@ -81,167 +87,13 @@ export interface FitPrior {
   engine_pump: boolean;
 }
 
-type Param = 'n_ram' | 'n_fan' | 'log_ratio' | 'flow';
-
-const S_REF = { ram: (RAM_REFERENCE.speed_kmh / 3.6) ** 2, fan: (FAN_REFERENCE.speed_kmh / 3.6) ** 2 };
-const D_REF = { ram: (RAM_REFERENCE.fan_pct / 100) ** 2, fan: (FAN_REFERENCE.fan_pct / 100) ** 2 };
-
-/** The windows flattened: band (0 ram, 1 fan), air condition, log ITD, heats, group and cluster. */
-interface Data {
-  n: number;
-  band: Uint8Array;
-  /** (m/s)² of road speed and (fan duty share)². */
-  s: Float64Array;
-  d: Float64Array;
-  /** ln of the corrected ITD and of the heat rejected (kW). */
-  logItd: Float64Array;
-  logQ: Float64Array;
-  /** ln of the coolant flow less its mean over windows that have one; 0 where none. */
-  logFlow: Float64Array;
-  group: Int32Array;
-  groups: number;
-  cluster: Int32Array;
-  clusters: number;
-  /** Trips with ≥ min_windows_per_trip windows, per band, and with a flow meter. */
-  tripsWith: { ram: number; fan: number; flow: number };
-}
-
-/** x less the mean of its finite values, with 0 for NaN. */
-function centred(x: Float64Array): Float64Array {
-  let n = 0;
-  let s = 0;
-  for (const v of x)
-    if (!Number.isNaN(v)) {
-      n++;
-      s += v;
-    }
-  const m = n > 0 ? s / n : 0;
-  return x.map((v) => (Number.isNaN(v) ? 0 : v - m));
-}
-
-function flatten(trips: readonly FitTrip[], o: AirsideFitOptions, aux_kw: number): Data {
-  const rows: { b: number; s: number; d: number; li: number; q: number; lf: number; g: number; c: number }[] =
-    [];
-  const tripsWith = { ram: 0, fan: 0, flow: 0 };
-  let groups = 0;
-  trips.forEach((t, c) => {
-    let withFlow = false;
-    for (const [b, band] of [
-      [0, 'ram'],
-      [1, 'fan'],
-    ] as const) {
-      const e = t.windows[band];
-      const keep: number[] = [];
-      for (let i = 0; i < e.itd_k.length; i++) {
-        const q = e.meter_kw[i] ?? (e.balance_kw[i] ?? Number.NaN) + aux_kw;
-        if (e.itd_k[i]! - t.ambient_correction_k > 0 && q > 0) keep.push(i);
-      }
-      if (keep.length < o.min_windows_per_trip) continue;
-      tripsWith[band]++;
-      if (keep.some((i) => e.flow_lpm[i])) withFlow = true;
-      for (const i of keep) {
-        rows.push({
-          b,
-          s: (e.speed_kmh[i]! / 3.6) ** 2,
-          d: (e.fan_pct[i]! / 100) ** 2,
-          li: Math.log(e.itd_k[i]! - t.ambient_correction_k),
-          q: e.meter_kw[i] ?? e.balance_kw[i]! + aux_kw,
-          lf: e.flow_lpm[i] ? Math.log(e.flow_lpm[i]!) : Number.NaN,
-          g: groups,
-          c,
-        });
-      }
-      groups++;
-    }
-    if (withFlow) tripsWith.flow++;
-  });
-  const n = rows.length;
-  const col = (f: (r: (typeof rows)[number]) => number) => Float64Array.from(rows, f);
-  return {
-    n,
-    band: Uint8Array.from(rows, (r) => r.b),
-    s: col((r) => r.s),
-    d: col((r) => r.d),
-    logItd: col((r) => r.li),
-    logQ: col((r) => Math.log(r.q)),
-    logFlow: centred(col((r) => r.lf)),
-    group: Int32Array.from(rows, (r) => r.g),
-    groups,
-    cluster: Int32Array.from(rows, (r) => r.c),
-    clusters: trips.length,
-    tripsWith,
-  };
-}
-
-/**
- * The fit's model of window i in band b of trip t (field notes: Q = k·A·ITD; k ∝ v_face^n, airside.ts):
- *   ln(Q_i) − ln(ITD_i) = a_(t,b) + n_b · L_i(ρ),   L_i = ½·ln((ρ²·S_i + D_i) / (ρ²·S_ref,b + D_ref,b))
- * with v_face = v_fan·√(ρ²·S + D), S = (speed/3.6)², D = (duty/100)², ρ = ram_face_ratio / v_fan, and
- * Q the flow meter's heat or else the heat balance plus the unmeasured heat (given). The level a_(t,b) per trip
- * and band takes k's level (fouling, coolant flow, the area) so only variation within a trip fits the
- * shape. Only ρ is identified, not v_fan and the ram ratio apart: scaling both scales every v_face alike.
- */
-function problem(
-  D: Data,
-  free: readonly Param[],
-  fixed: Record<Param, number>,
-  o: AirsideFitOptions,
-  priorLogRatio: number,
-  /** The fan band takes the ram band's exponent. */
-  tie: boolean,
-): RobustProblem {
-  const idx = (p: Param) => free.indexOf(p);
-  const lower = free.map((p) =>
-    p === 'log_ratio' ? priorLogRatio - o.log_ratio_span : o.exponent_bounds[0],
-  );
-  const upper = free.map((p) =>
-    p === 'log_ratio' ? priorLogRatio + o.log_ratio_span : o.exponent_bounds[1],
-  );
-  const P = free.length;
-  return {
-    n: D.n,
-    p: P,
-    group: D.group,
-    groups: D.groups,
-    cluster: D.cluster,
-    clusters: D.clusters,
-    lower,
-    upper,
-    evaluate(theta, e, J) {
-      const get = (p: Param) => (idx(p) >= 0 ? theta[idx(p)]! : fixed[p]);
-      const rho2 = Math.exp(2 * get('log_ratio'));
-      const n = [get('n_ram'), tie ? get('n_ram') : get('n_fan')];
-      const ref = [
-        0.5 * Math.log(rho2 * S_REF.ram + D_REF.ram),
-        0.5 * Math.log(rho2 * S_REF.fan + D_REF.fan),
-      ];
-      const dRef = [
-        (rho2 * S_REF.ram) / (rho2 * S_REF.ram + D_REF.ram),
-        (rho2 * S_REF.fan) / (rho2 * S_REF.fan + D_REF.fan),
-      ];
-      const jn = [idx('n_ram'), tie ? idx('n_ram') : idx('n_fan')];
-      const jr = idx('log_ratio');
-      const jf = idx('flow');
-      const cf = jf >= 0 ? theta[jf]! : 0;
-      for (let i = 0; i < D.n; i++) {
-        const b = D.band[i]!;
-        const v2 = rho2 * D.s[i]! + D.d[i]!;
-        const L = 0.5 * Math.log(v2) - ref[b]!;
-        e[i] = D.logQ[i]! - D.logItd[i]! - n[b]! * L - cf * D.logFlow[i]!;
-        const row = i * P;
-        for (let j = 0; j < P; j++) J[row + j] = 0;
-        if (jn[b]! >= 0) J[row + jn[b]!] = -L;
-        if (jr >= 0) J[row + jr] = -n[b]! * ((rho2 * D.s[i]!) / v2 - dRef[b]!);
-        if (jf >= 0) J[row + jf] = -D.logFlow[i]!;
-      }
-    },
-  };
-}
+/** The figures from the least to the most firmly carried by the data. */
+const WEAKEST: readonly Param[] = ['rho2', 'n_fan', 'flow', 'n_ram'];
 
 const WORDS: Record<Param, string> = {
   n_ram: 'ram-band exponent',
   n_fan: 'fan-band exponent',
-  log_ratio: 'ram-to-fan face-velocity ratio',
+  rho2: 'ram-to-fan face-velocity ratio',
   flow: 'coolant-flow exponent',
 };
 
@@ -258,11 +110,11 @@ export function fitAirside(
   o: AirsideFitOptions = AIRSIDE_FIT_DEFAULTS,
 ): AirsideFitResult {
   const a = prior.airside;
-  const priorLogRatio = Math.log(a.ram_face_ratio / a.fan_face_velocity_ms);
+  const priorRho2 = (a.ram_face_ratio / a.fan_face_velocity_ms) ** 2;
   const fixed: Record<Param, number> = {
     n_ram: a.velocity_exponent,
     n_fan: a.fan_velocity_exponent ?? a.velocity_exponent,
-    log_ratio: priorLogRatio,
+    rho2: priorRho2,
     flow: 0,
   };
   const recent = trips.slice(-o.max_trips);
@@ -273,69 +125,63 @@ export function fitAirside(
     if (have >= o.min_trips) free.push(what);
     else notes.push(`${WORDS[what]}: windows on ${have} trips, need ${o.min_trips}`);
   };
-  const only = (globalThis as { AIRSIDE_FREE?: string[] }).AIRSIDE_FREE;
-  if (!only || only.includes('n_ram')) need('n_ram', D.tripsWith.ram);
-  if (!only || only.includes('n_fan')) need('n_fan', D.tripsWith.fan);
+  need('n_ram', D.tripsWith.ram);
+  need('n_fan', D.tripsWith.fan);
   // With an engine-driven pump the coolant flow follows road speed: in the fan band, how k varies with
   // speed is then the flow's doing as much as the ram air's, and only a flow meter tells them apart.
   if (prior.engine_pump && D.tripsWith.flow < o.min_trips)
     notes.push(
-      `${WORDS.log_ratio}: the engine drives the coolant pump and no flow meter separates its flow from ram air`,
+      `${WORDS.rho2}: the engine drives the coolant pump and no flow meter separates its flow from ram air`,
     );
-  else if (!only || only.includes('log_ratio')) need('log_ratio', D.tripsWith.fan);
+  else need('rho2', D.tripsWith.fan);
   // Coolant flow changes k too (engine-driven pumps follow engine speed, thermostats throttle): where a
   // flow meter gives it, its term keeps that change out of the air-side shape. It only serves the fit:
   // k stays referred at the flow the trip had.
-  if ((!only || only.includes('flow')) && D.tripsWith.flow >= o.min_trips && spread(D) > 1e-3)
-    free.push('flow');
+  if (D.tripsWith.flow >= o.min_trips && spread(D) > 1e-3) free.push('flow');
   let fit = null as ReturnType<typeof huberFit> | null;
   while (free.length > 0) {
     // The fan band follows the ram band's exponent while its own is not fitted.
     const tie = !free.includes('n_fan') && a.fan_velocity_exponent === undefined;
-    const P = problem(D, free, fixed, o, priorLogRatio, tie);
+    const P = problem(D, free, fixed, o, priorRho2, tie);
     fit = huberFit(
       P,
       free.map((p) => fixed[p]),
       HUBER_DEFAULTS,
     );
     const f = fit;
+    const lo = P.lower!;
+    const hi = P.upper!;
+    const atBound = (j: number) => f.theta[j]! <= lo[j]! + 1e-12 || f.theta[j]! >= hi[j]! - 1e-12;
     const excess = free.map((p, j) => {
       const half = f.half95[j]!;
-      if (p === 'flow') return Number.isFinite(half) ? 0 : Number.POSITIVE_INFINITY;
-      if (!Number.isFinite(half)) return Number.POSITIVE_INFINITY;
-      return half / (p === 'log_ratio' ? o.max_log_ratio_half95 : o.max_exponent_half95);
+      if (atBound(j) || !Number.isFinite(half)) return Number.POSITIVE_INFINITY;
+      if (p === 'flow') return 0;
+      if (p !== 'rho2') return half / o.max_exponent_half95;
+      // The interval's effect on ln k at the fan band's edge: n·½·S/(ρ²·S + 1) per unit of ρ².
+      const rho2 = f.theta[j]!;
+      const nFan = f.theta[free.indexOf('n_fan')] ?? f.theta[free.indexOf('n_ram')] ?? fixed.n_fan;
+      return (((0.5 * nFan * S_EDGE) / (rho2 * S_EDGE + 1)) * half) / o.max_ratio_edge_half95;
     });
-    const worst = excess.indexOf(Math.max(...excess));
+    // The worst figure goes back to its prior; among equals (an ill-posed fit gives every interval NaN)
+    // the one the data carry least.
+    const worst = free.reduce(
+      (w, p, j) =>
+        excess[j]! > excess[w]! || (excess[j] === excess[w] && WEAKEST.indexOf(p) < WEAKEST.indexOf(free[w]!))
+          ? j
+          : w,
+      0,
+    );
     if (!(excess[worst]! > 1)) break;
     const p = free[worst]!;
     notes.push(
-      `${WORDS[p]}: 95 % interval ± ${f.half95[worst]!.toFixed(3)}${p === 'log_ratio' ? ' (log)' : ''} too wide`,
+      atBound(worst)
+        ? `${WORDS[p]}: the fit ran to the edge of its plausible range`
+        : `${WORDS[p]}: 95 % interval ${p === 'rho2' ? `moves k at the fan band's edge by more than ±${o.max_ratio_edge_half95 * 100} %` : `± ${f.half95[worst]!.toFixed(3)} too wide`}`,
     );
     free.splice(worst, 1);
     fit = null;
   }
   return assemble(prior, fixed, free, fit, D, notes);
-}
-
-/** Pooled within-group standard deviation of ln flow: whether the flow varies enough to fit its term. */
-function spread(D: Data): number {
-  const sum = new Float64Array(D.groups);
-  const sum2 = new Float64Array(D.groups);
-  const n = new Float64Array(D.groups);
-  for (let i = 0; i < D.n; i++) {
-    const g = D.group[i]!;
-    n[g]!++;
-    sum[g]! += D.logFlow[i]!;
-    sum2[g]! += D.logFlow[i]! ** 2;
-  }
-  let ss = 0;
-  let N = 0;
-  for (let g = 0; g < D.groups; g++) {
-    if (n[g]! < 2) continue;
-    ss += sum2[g]! - sum[g]! ** 2 / n[g]!;
-    N += n[g]! - 1;
-  }
-  return N > 0 ? Math.sqrt(Math.max(0, ss) / N) : 0;
 }
 
 function assemble(
@@ -361,7 +207,7 @@ function assemble(
   const vf = a.fan_face_velocity_ms;
   const nRam = figure('n_ram', prior.basis.velocity_exponent);
   const nFan = at('n_fan') !== null ? figure('n_fan', prior.basis.velocity_exponent) : { ...nRam };
-  const ratio = figure('log_ratio', prior.basis.ram_face_ratio, (x) => Math.exp(x) * vf);
+  const ratio = figure('rho2', prior.basis.ram_face_ratio, (x) => Math.sqrt(Math.max(0, x)) * vf);
   const round = (x: number, d: number) => Math.round(x * 10 ** d) / 10 ** d;
   const r = (f: FittedFigure, d: number): FittedFigure => ({
     value: round(f.value, d),
