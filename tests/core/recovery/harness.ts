@@ -1,6 +1,6 @@
 import { analyzeVehicle } from '@thermargin/core/analyze';
 import { resolveVehicle } from '@thermargin/core/vehicle/resolve';
-import { columnsFromSamples, type TripResult } from '@thermargin/shared';
+import { columnsFromSamples, type TripResult, type VehicleConfigInput } from '@thermargin/shared';
 import type { Band } from '@thermargin/core/trip/bands';
 import { runScenario, type Scenario, type ScenarioRun } from '../../support/forward-model/scenario.ts';
 
@@ -38,10 +38,16 @@ function compare(band: Band, run: ScenarioRun, trip: TripResult): BandComparison
   };
 }
 
-/** Runs the forward model, feeds its telemetry to the estimator, and compares each band with the truth. */
-export function recover(s: Scenario): Recovery {
+/**
+ * Runs the forward model, feeds its telemetry to the estimator, and compares each band with the truth.
+ * `fleet` overrides fields of the vehicle's fleet-file entry (a figure the engineer got wrong).
+ */
+export function recover(s: Scenario, fleet: Partial<VehicleConfigInput> = {}): Recovery {
   const run = runScenario(s);
-  const analysis = analyzeVehicle(resolveVehicle(run.config), columnsFromSamples(run.samples));
+  const analysis = analyzeVehicle(
+    resolveVehicle({ ...run.config, ...fleet }),
+    columnsFromSamples(run.samples),
+  );
   if (analysis.trips.length !== 1)
     throw new Error(`expected one trip, the estimator found ${analysis.trips.length}`);
   const trip = analysis.trips[0]!;
