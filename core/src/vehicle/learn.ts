@@ -42,7 +42,9 @@ const opt = (x: number | null, d: number) => (x === null ? null : round(x, d));
  * adds trips as they end, and the offline CLI, which has them all, give the same figures; trips
  * without windows (results kept from before) pass unchanged.
  */
-export function learnVehicle(v: VehicleModel, trips: readonly TripResult[]): VehicleLearning {
+export function learnVehicle(given: VehicleModel, trips: readonly TripResult[]): VehicleLearning {
+  // A vehicle this stage already learned learns again from the fleet file's model it came from.
+  const v = given.learned_from ?? given;
   const order = trips
     .map((t, i) => ({ i, ms: Date.parse(t.start), id: t.trip }))
     .sort((a, b) => a.ms - b.ms || (a.id < b.id ? -1 : a.id > b.id ? 1 : 0))
@@ -75,7 +77,7 @@ export function learnVehicle(v: VehicleModel, trips: readonly TripResult[]): Veh
   });
   const aux_heat_kw = unmeasured.basis === 'none' ? v.aux_heat_kw : unmeasured.value_kw;
   const fit = aux_heat_kw === v.aux_heat_kw ? first : shapeWith(aux_heat_kw);
-  const vehicle: VehicleModel = { ...v, airside: fit.airside, aux_heat_kw };
+  const vehicle: VehicleModel = { ...v, airside: fit.airside, aux_heat_kw, learned_from: v };
   const referral = (t: TripResult): Referral => ({
     airside: fit.airside,
     unmeasured_heat_kw: aux_heat_kw,

@@ -37,6 +37,8 @@ export interface VehicleModel {
   /** Whether aux_heat_kw came from the fleet file (then it is known, not estimated). */
   aux_heat_known: boolean;
   route_max_ambient_c: number | null;
+  /** The fleet file's model a vehicle-stage model was learned from (core/vehicle/learn.ts); absent otherwise. */
+  learned_from?: VehicleModel;
   maintenance: MaintenanceEntry[];
   policy: Policy;
 }

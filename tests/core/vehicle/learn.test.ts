@@ -27,6 +27,8 @@ describe('the vehicle stage', () => {
 
   it('is a function of the set of trips: again on its own output, or in another order, the same', () => {
     expect(learnVehicle(model, learned.trips).trips).toEqual(learned.trips);
+    // Given the learned vehicle (a caller that passes it on), it learns from the fleet file's model.
+    expect(learnVehicle(learned.vehicle, learned.trips).trips).toEqual(learned.trips);
     const shuffled = [...trips].reverse();
     const byId = (ts: readonly TripResult[]) => new Map(ts.map((t) => [t.trip, t]));
     expect(byId(learnVehicle(model, shuffled).trips)).toEqual(byId(learned.trips));
