@@ -1,4 +1,5 @@
 import type { SampleColumns } from '@thermargin/shared';
+import { LineSums } from '../stats/line-sums.ts';
 
 /** Sensor plausibility rules; defaults defined once here. */
 export const SENSOR_CHECK_DEFAULTS = {
@@ -82,21 +83,8 @@ export function soakOffset_k(
 ): number | null {
   if (previousEnd_ms === null || c.time_ms[from]! - previousEnd_ms < o.soak_min_h * 3_600_000) return null;
   const t0 = c.time_ms[from]!;
-  let n = 0;
-  let st = 0;
-  let stt = 0;
-  let sd = 0;
-  let std = 0;
-  for (let i = from; i < to && c.time_ms[i]! - t0 <= o.soak_fit_s * 1000; i++) {
-    const t = (c.time_ms[i]! - t0) / 1000;
-    const d = c.coolant_in_c[i]! - c.ambient_c[i]!;
-    n++;
-    st += t;
-    stt += t * t;
-    sd += d;
-    std += t * d;
-  }
-  const den = n * stt - st * st;
-  const slope = den > 0 ? (n * std - st * sd) / den : 0;
-  return (sd - slope * st) / n;
+  const line = new LineSums();
+  for (let i = from; i < to && c.time_ms[i]! - t0 <= o.soak_fit_s * 1000; i++)
+    line.add((c.time_ms[i]! - t0) / 1000, c.coolant_in_c[i]! - c.ambient_c[i]!);
+  return line.valueAtZero();
 }

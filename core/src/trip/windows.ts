@@ -1,5 +1,6 @@
 import type { BandWindowsEvidence, SampleColumns } from '@thermargin/shared';
 import { heatToCoolant_kw } from '../drivetrain/heat.ts';
+import { LineSums } from '../stats/line-sums.ts';
 import { glycolCp_j_kgk, glycolDensity_kg_m3 } from '../properties/glycol.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
 import { type Band, bandOf } from './bands.ts';
@@ -26,9 +27,14 @@ export interface TripWindows {
   dt_per_kw: number[];
 }
 
+/** A band's window evidence with no windows yet. */
+export function emptyEvidence(): BandWindowsEvidence {
+  return { speed_kmh: [], fan_pct: [], itd_k: [], balance_kw: [], meter_kw: [], flow_lpm: [] };
+}
+
 function emptyBand(): BandWindows {
   return {
-    evidence: { speed_kmh: [], fan_pct: [], itd_k: [], balance_kw: [], meter_kw: [], flow_lpm: [] },
+    evidence: emptyEvidence(),
     samples: 0,
     eligible: 0,
     held_c: [],
@@ -107,24 +113,13 @@ export function tripWindows(
    */
   const edgeTemperature = (end: number, head: boolean): number => {
     const at = head ? w.t0_ms : w.last_ms;
-    let n = 0;
-    let st = 0;
-    let stt = 0;
-    let sT = 0;
-    let stT = 0;
+    const line = new LineSums();
     for (let i = head ? w.i0 : end - 1; head ? i < end : i >= w.i0; head ? i++ : i--) {
       const x = (c.time_ms[i]! - at) / 1000;
       if (Math.abs(x) * 1000 > edge_ms) break;
-      const T = c.coolant_in_c[i]!;
-      n++;
-      st += x;
-      stt += x * x;
-      sT += T;
-      stT += x * T;
+      line.add(x, c.coolant_in_c[i]!);
     }
-    const den = n * stt - st * st;
-    const b = den > 0 ? (n * stT - st * sT) / den : 0;
-    return (sT - b * st) / n;
+    return line.valueAtZero();
   };
 
   const close = (end: number): void => {

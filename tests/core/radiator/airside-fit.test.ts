@@ -8,6 +8,7 @@ import {
   learnedAirside,
 } from '../../../core/src/radiator/airside-fit.ts';
 import { createRng, type Rng } from '../../../core/src/stats/prng.ts';
+import { emptyEvidence } from '../../../core/src/trip/windows.ts';
 
 const PRIOR: FitPrior = {
   airside: { ...AIRSIDE_DEFAULTS },
@@ -22,14 +23,7 @@ const PRIOR: FitPrior = {
  */
 function trips(truth: Airside, count: number, rng: Rng, noise = 0.01): FitTrip[] {
   const band = (b: 'ram' | 'fan', level: number, n: number): BandWindowsEvidence => {
-    const e: BandWindowsEvidence = {
-      speed_kmh: [],
-      fan_pct: [],
-      itd_k: [],
-      balance_kw: [],
-      meter_kw: [],
-      flow_lpm: [],
-    };
+    const e = emptyEvidence();
     for (let i = 0; i < n; i++) {
       const speed = b === 'ram' ? rng.uniform(65, 110) : rng.uniform(0, 20);
       const fan = b === 'ram' ? 0 : rng.uniform(80, 100);

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { huberFit, type RobustProblem } from '../../../core/src/stats/huber.ts';
+import { LineSums } from '../../../core/src/stats/line-sums.ts';
 import { createRng } from '../../../core/src/stats/prng.ts';
 import { t975 } from '../../../core/src/stats/t-quantile.ts';
 
@@ -142,5 +143,22 @@ describe('Student t quantile', () => {
     };
     for (const [df, v] of Object.entries(scipy))
       expect(Math.abs(t975(Number(df)) / v - 1)).toBeLessThan(0.002);
+  });
+});
+
+describe('least-squares line sums', () => {
+  it('(0, 1), (1, 3), (2, 5): slope 2, value at 0 of 1; one point: its value', () => {
+    const l = new LineSums();
+    for (const [x, y] of [
+      [0, 1],
+      [1, 3],
+      [2, 5],
+    ] as const)
+      l.add(x, y);
+    expect(l.slope()).toBeCloseTo(2, 12);
+    expect(l.valueAtZero()).toBeCloseTo(1, 12);
+    const one = new LineSums();
+    one.add(3, 7);
+    expect(one.valueAtZero()).toBe(7);
   });
 });

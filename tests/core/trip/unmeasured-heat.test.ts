@@ -1,18 +1,11 @@
-import type { BandWindowsEvidence } from '@thermargin/shared';
 import { describe, expect, it } from 'vitest';
 import { AIRSIDE_DEFAULTS, bandFactor } from '../../../core/src/radiator/airside.ts';
 import { createRng } from '../../../core/src/stats/prng.ts';
 import { type HeatTrip, unmeasuredHeat } from '../../../core/src/trip/unmeasured-heat.ts';
+import { emptyEvidence } from '../../../core/src/trip/windows.ts';
 
 const SHAPE = { airside: { ...AIRSIDE_DEFAULTS }, area_m2: 0.8, engine_pump: false };
-const empty = (): BandWindowsEvidence => ({
-  speed_kmh: [],
-  fan_pct: [],
-  itd_k: [],
-  balance_kw: [],
-  meter_kw: [],
-  flow_lpm: [],
-});
+const empty = emptyEvidence;
 
 /** Trips whose ram windows reject k·A·g·ITD; the traction heat misses `aux_kw`; meter optional. */
 function trips(aux_kw: number, meter: boolean, count: number, seed: number): HeatTrip[] {
