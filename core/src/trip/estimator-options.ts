@@ -13,6 +13,9 @@ export const ESTIMATOR_DEFAULTS = {
   min_window_s: 30,
   /** s, 10: a larger gap between samples ends a window; the estimator never averages across a gap. */
   max_step_s: 10,
+  /** K, 0.5: once the coolant has read full-open, samples count until one reads this far below it:
+   *  about twice the coolant sensor's noise (0.1–0.3 K), so noise alone does not cut windows. */
+  full_open_hysteresis_k: 0.5,
   /** K, 10: minimum ITD, so a 0.5 K sensor error stays within 5 % of k. */
   min_itd_k: 10,
   /** –, 0.05: minimum heat rejected as a share of the design heat load (and at least min_heat_kw);

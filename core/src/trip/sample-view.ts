@@ -4,6 +4,7 @@ import { bandFactor } from '../radiator/airside.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
 import { type Band, bandOf } from './bands.ts';
 import type { EstimatorOptions } from './estimator-options.ts';
+import { FullOpenGate } from './full-open.ts';
 import { priorReferral, type Referral, windowK_w_m2k } from './refer.ts';
 import { tripWindows } from './windows.ts';
 
@@ -49,9 +50,16 @@ export function tripSampleView(
   let start = from;
   let t0 = 0;
   let last = 0;
+  let startOpen = false;
+  const gate = new FullOpenGate(v, o);
   const judge = (end: number) => {
     if (band === null) return;
-    const k = windowK_w_m2k(band, tripWindows(c, start, end, v, o)[band].evidence, v.radiator_area_m2, r)[0];
+    const k = windowK_w_m2k(
+      band,
+      tripWindows(c, start, end, v, o, startOpen)[band].evidence,
+      v.radiator_area_m2,
+      r,
+    )[0];
     if (k === undefined || Number.isNaN(k)) return;
     for (let i = start; i < end; i++) {
       const g = bandFactor(a, band, c.speed_kmh[i]!, c.fan_pct[i]!);
@@ -69,7 +77,8 @@ export function tripSampleView(
       v.coolant_heat_fraction,
     );
     const Tin = c.coolant_in_c[i]!;
-    const inCharge = Tin >= v.thermostat_full_open_c && Tin - c.ambient_c[i]! >= o.min_itd_k;
+    const prevOpen = gate.isOpen;
+    const inCharge = gate.inCharge(Tin, Tin - c.ambient_c[i]!);
     const b = inCharge ? bandOf(c.speed_kmh[i]!, c.fan_pct[i]!) : null;
     if (band !== null && (b !== band || t - last > maxStep_ms || t - t0 >= window_ms)) {
       judge(i);
@@ -79,6 +88,7 @@ export function tripSampleView(
     if (band === null) {
       band = b;
       start = i;
+      startOpen = prevOpen;
       t0 = t;
     }
     last = t;

@@ -5,6 +5,7 @@ import { glycolCp_j_kgk, glycolDensity_kg_m3 } from '../properties/glycol.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
 import { type Band, bandOf } from './bands.ts';
 import type { EstimatorOptions } from './estimator-options.ts';
+import { FullOpenGate } from './full-open.ts';
 
 /** What the windows of one band gave on one trip. */
 export interface BandWindows {
@@ -100,6 +101,8 @@ export function tripWindows(
   to: number,
   v: VehicleModel,
   o: EstimatorOptions,
+  /** Whether the sample before `from` found the thermostat fully open (full-open.ts). */
+  startOpen = false,
 ): TripWindows {
   const out: TripWindows = { ram: emptyBand(), fan: emptyBand(), dt_per_kw: [] };
   const C_kj_k = v.thermal_mass_kj_per_k;
@@ -170,6 +173,7 @@ export function tripWindows(
   const window_ms = o.window_s * 1000;
   const lag_ms = v.coolant_sensor_lag_s * 1000;
   let qLag = Number.NaN;
+  const gate = new FullOpenGate(v, o, startOpen);
   for (let i = from; i < to; i++) {
     const t = c.time_ms[i]!;
     const q = heatToCoolant_kw(c.power_kw[i]!, v.drivetrain_efficiency, v.coolant_heat_fraction);
@@ -180,7 +184,7 @@ export function tripWindows(
     const speed = c.speed_kmh[i]!;
     const fan = c.fan_pct[i]!;
     const warm = Tin >= v.thermostat_open_c && itd >= o.min_itd_k;
-    const inCharge = warm && Tin >= v.thermostat_full_open_c;
+    const inCharge = gate.inCharge(Tin, itd) && warm;
     const band = inCharge ? bandOf(speed, fan) : null;
     if (band !== null) out[band].eligible++;
     else if (warm) {
