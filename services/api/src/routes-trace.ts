@@ -14,7 +14,7 @@ export function traceRoutes(x: ApiContext): Handlers<'trace'> {
       const id = params.id;
       const model = x.model(id);
       const data = await x.reader.vehicle(id);
-      const trip = data?.result.trips.find((t) => t.trip === params.trip);
+      const trip = data?.newest_first.find((t) => t.trip === params.trip);
       if (!data || !trip) throw notFound(`trip ${params.trip} of vehicle ${id}`);
       const raw = await x.deps.samples.readSamples(id, Date.parse(trip.start), Date.parse(trip.end) + 1);
       // The same cleaning the analysis ran, so the samples shown are the samples used.
