@@ -1,7 +1,6 @@
 import type { TripResult } from '@thermargin/shared';
 import { median } from '../stats/quantile.ts';
 import { AIRSIDE_DEFAULTS, type Airside } from '../radiator/airside.ts';
-import { learnedFields, learnVehicle } from '../vehicle/learn.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
 import { compareDrivetrains, type DrivetrainComparison, type Duty } from './drivetrain-compare.ts';
 import { fleetDuty, withDutySource } from './fleet-duty.ts';
@@ -50,13 +49,7 @@ export interface SizingResult {
 export function sizeFleet(input: SizingInput, o: SizingOptions): SizingResult {
   const sized = input.vehicles.map((v) => {
     const samples = input.samples?.get(v.id) ?? null;
-    // The vehicle stage's figures (learned air side, corrections), as the analysis reports them.
-    const l = learnVehicle(v, input.trips.get(v.id) ?? []);
-    return {
-      v,
-      samples,
-      s: sizeVehicle(l.vehicle, l.trips, samples, o, learnedFields(l).airside_fit ?? null),
-    };
+    return { v, samples, s: sizeVehicle(v, input.trips.get(v.id) ?? [], samples, o) };
   });
   const withSamples = (xs: typeof sized) =>
     xs.map((x) => x.samples).filter((s): s is VehicleSamples => s !== null);

@@ -159,22 +159,25 @@ function whatIf(v: VehicleModel, s: VehicleSamples): WhatIfVehicle[] {
   }));
 }
 
-/** Everything the sizing evidence says about one vehicle. `trips` in time order. */
+/**
+ * Everything the sizing evidence says about one vehicle. `trips` in time order, as the trip stage gave
+ * them: the vehicle stage (vehicleResult, the same as analyze) learns the air side and corrections,
+ * and its causes keep other faults out of the fouling fit; its margin stands beside the design check's.
+ */
 export function sizeVehicle(
-  v: VehicleModel,
-  trips: readonly TripResult[],
+  vehicle: VehicleModel,
+  tripStage: readonly TripResult[],
   samples: VehicleSamples | null,
   o: SizingOptions,
-  airside_fit: AirsideFit | null = null,
 ): VehicleSizing {
-  // The same assessment analyze makes: its causes keep other faults out of the fouling fit, its margin
-  // stands beside the design check's.
-  const health = vehicleResult(v, trips);
+  const health = vehicleResult(vehicle, tripStage);
+  const v = health.learned;
+  const trips = health.result.trips;
   const fouling = foulingRates(
     v,
     trips,
     o,
-    health.result.trips.map((t) => t.cause),
+    trips.map((t) => t.cause),
   );
   const fk = fieldK(v, trips, fouling);
   let duty: DutyCycle | null = null;
@@ -204,6 +207,6 @@ export function sizeVehicle(
     duty_cycle: duty,
     derate,
     what_if: samples ? whatIf(v, samples) : null,
-    airside_fit,
+    airside_fit: health.result.airside_fit ?? null,
   };
 }
