@@ -2,7 +2,7 @@ import type { FleetResponse, RejectedResponse, TraceResponse, VehicleResponse } 
 import { SAFETY_CAUTION } from '@thermargin/shared/safety';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { dueWords, num, STATUS_WORD } from '../../web/src/format.ts';
+import { causeWord, dueWords, num, STATUS_WORD } from '../../web/src/format.ts';
 import { TRACE_POINTS } from '../../web/src/state/place.ts';
 import { inspectionQueue } from '../../web/src/state/queue.ts';
 import { startWebStack, TOKENS, type WebStack } from '../support/web-stack.ts';
@@ -219,13 +219,15 @@ describe('dashboard in a real browser against the running API', () => {
     }
     await page.locator('[data-queue] [data-alert]').first().waitFor();
     expect(await page.getByRole('button', { name: 'Log maintenance…' }).count()).toBe(queue.length);
-    // A raise with no cause named does not read "no fault found".
-    const unnamed = (await Promise.all(queue.map((id) => api<VehicleResponse>(`/api/vehicles/${id}`))))
-      .flatMap((v) => v.alerts)
-      .filter((a) => a.cause === 'none' && a.status !== 'ok');
-    expect(unnamed.length).toBeGreaterThan(0);
-    for (const a of unnamed)
-      expect(await text(page, `[data-alert="${a.id}"] .alert-head`)).toContain('cause not named yet');
+    // Each alert names its cause as the API gives it, in the one wording of every screen (a raise with
+    // no cause named reads "cause not named yet": tests/web/cause-word.test.ts). Whether the demo has
+    // such a raise depends on how soon the estimator names the cause, so it is not required here.
+    const alerts = (
+      await Promise.all(queue.map((id) => api<VehicleResponse>(`/api/vehicles/${id}`)))
+    ).flatMap((v) => v.alerts);
+    expect(alerts.length).toBeGreaterThan(0);
+    for (const a of alerts)
+      expect(await text(page, `[data-alert="${a.id}"] .alert-head`)).toContain(causeWord(a.cause, a.status));
     await screenshot(page, '4-workshop-queue');
     await page.goto(`${stack.url}/#/work-order/${queue[0]}`);
     await page.getByRole('button', { name: 'Print' }).waitFor();
