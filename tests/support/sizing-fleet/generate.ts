@@ -7,6 +7,7 @@ import {
 } from '@thermargin/shared';
 import { faceVelocity_ms } from '@thermargin/core/radiator/airside';
 import { createRng } from '@thermargin/core/stats/prng';
+import { SENSOR_CHECK_DEFAULTS } from '@thermargin/core/trip/sensor-checks';
 
 /**
  * A fleet generator whose true sizing figures are known: one trip a day, a ram-band leg (85 km/h, fan 0)
@@ -36,8 +37,8 @@ export interface SizingVehicleSpec {
 }
 
 export const LEG = { ram_s: 1200, fan_s: 600, step_s: 2, ram_kmh: 85, fan_kmh: 10, derate_s: 120 } as const;
-/** Samples at key-on that read the soaked loop (ambient): the soak check's 5 and one more. */
-const KEY_ON_SAMPLES = 6;
+/** Samples at key-on that read the soaked loop (ambient): all those the soak check's line spans. */
+const KEY_ON_SAMPLES = Math.floor(SENSOR_CHECK_DEFAULTS.soak_fit_s / LEG.step_s) + 1;
 /** °C: clean-radiator coolant level the heat is set for. */
 const TARGET_C = 74;
 /** –: heat drawn uniformly within ±20 % of the set level. */
