@@ -89,7 +89,16 @@ export function learnVehicle(given: VehicleModel, trips: readonly TripResult[]):
     const r = referral(t);
     const corr = r.ambient_correction_k;
     const figures = refer(vehicle, t, r, sigma);
-    const { ambient_correction_k: _a, uncorrected: _u, ...rest } = t;
+    // A stored result's trip keeps its own margin aside (trip_margin_*, health/trip-margins.ts); the
+    // margin made here replaces it, or a trip kept from before a late one would keep a stale figure.
+    const {
+      ambient_correction_k: _a,
+      uncorrected: _u,
+      trip_margin_pct: _m,
+      trip_limiting_ambient_c: _l,
+      trip_margin_basis: _b,
+      ...rest
+    } = t;
     if (corr === 0) return { ...rest, ...figures };
     const raw = refer(vehicle, t, { ...r, ambient_correction_k: 0 }, sigma);
     return {

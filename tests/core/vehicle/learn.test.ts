@@ -34,6 +34,18 @@ describe('the vehicle stage', () => {
     expect(byId(learnVehicle(model, shuffled).trips)).toEqual(byId(learned.trips));
   });
 
+  it('a stored result plus a trip arriving late gives what all trips at once give (the analyzer)', () => {
+    // The stored result's trips carry their own margins aside (health/trip-margins.ts); the late trip
+    // moves what the vehicle stage learns, so every kept trip's figures must be made again.
+    const late = trips[6]!;
+    const stored = vehicleResult(
+      model,
+      trips.filter((t) => t !== late),
+    ).result.trips;
+    const again = vehicleResult(model, [...stored.slice(0, 6), late, ...stored.slice(6)]).result;
+    expect(again.trips).toEqual(vehicleResult(model, trips).result.trips);
+  });
+
   it('confirms the ambient offset from the soak checks, corrects the trips and keeps the uncorrected figures', () => {
     const period = learned.ambient[0]!;
     expect(period.applied).toBe(true);
