@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { idSchema } from './ids.ts';
 import { dataMapSchema } from './mapping.ts';
 import { policySchema } from './policy.ts';
+import { numberField } from './validation.ts';
 
 export const POWERTRAINS = ['fcev', 'bev', 'ice'] as const;
 export type Powertrain = (typeof POWERTRAINS)[number];
@@ -14,13 +15,9 @@ export const MAINTENANCE_ACTIONS = [
 ] as const;
 export type MaintenanceAction = (typeof MAINTENANCE_ACTIONS)[number];
 
-const positive = (what: string) =>
-  z.number({ error: `${what} must be a number` }).positive(`${what} must be > 0`);
+const positive = (what: string) => numberField(what).positive(`${what} must be > 0`);
 const fraction = (what: string) =>
-  z
-    .number({ error: `${what} must be a number` })
-    .gt(0, `${what} must be > 0`)
-    .max(1, `${what} must be ≤ 1`);
+  numberField(what).gt(0, `${what} must be > 0`).max(1, `${what} must be ≤ 1`);
 const celsius = z.number().min(-60).max(200);
 
 export const designPointSchema = z.strictObject({

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { designPointSchema, POWERTRAINS } from './fleet.ts';
 import { airsideFitSchema, CAUSES, STATUSES } from './results.ts';
+import { numberField } from './validation.ts';
 
 /**
  * The sizing routes' contract (services/api/src/routes-sizing.ts): the sizing result as
@@ -258,11 +259,13 @@ export const sizingResponseSchema = z.object({
   /** Exactly what `thermargin sizing` writes for the same fleet file and samples. */
   sizing: sizingResultSchema,
   safety_caution: z.string(),
+  /** Field figures support, and never replace, validation testing and engineering sign-off. */
+  design_note: z.string(),
 });
 export type SizingResponse = z.infer<typeof sizingResponseSchema>;
 
 // ---- POST /api/sizing/calculator (viewer): one design question
-const finite = (what: string) => z.number({ error: `${what} must be a number` });
+const finite = numberField;
 export const calculatorBodySchema = z
   .strictObject({
     design: z.strictObject({
@@ -324,5 +327,7 @@ export const calculatorResponseSchema = z.object({
     })
     .nullable(),
   safety_caution: z.string(),
+  /** Field figures support, and never replace, validation testing and engineering sign-off. */
+  design_note: z.string(),
 });
 export type CalculatorResponse = z.infer<typeof calculatorResponseSchema>;

@@ -1,4 +1,4 @@
-import type { z } from 'zod';
+import { z } from 'zod';
 
 /** One broken rule: where (a file, line and/or field path) and which rule. */
 export interface Problem {
@@ -36,9 +36,19 @@ export function formatPath(path: readonly PropertyKey[]): string {
   return out || '(root)';
 }
 
+/** zod's own words for a missing field ("expected number, received undefined") become "required". */
+const MISSING = /^Invalid input: expected \w+, received undefined$/;
+
 export function zodProblems(source: string, error: z.ZodError): Problem[] {
-  return error.issues.map((i) => ({ where: `${source}: ${formatPath(i.path)}`, rule: i.message }));
+  return error.issues.map((i) => ({
+    where: `${source}: ${formatPath(i.path)}`,
+    rule: i.code === 'invalid_type' && MISSING.test(i.message) ? 'required' : i.message,
+  }));
 }
+
+/** A number field whose errors name it: "heat_kw is required" when absent, "must be a number" when not one. */
+export const numberField = (what: string) =>
+  z.number({ error: (i) => (i.input === undefined ? `${what} is required` : `${what} must be a number`) });
 
 /** Validates `data` against `schema`, or throws an InputError naming `source` and each field. */
 export function parseOrThrow<S extends z.ZodType>(schema: S, data: unknown, source: string): z.infer<S> {

@@ -1,6 +1,7 @@
 import { truncateSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { safetyCaution } from '@thermargin/shared';
 import { runCli, tempFiles } from '../support/run-cli.ts';
 import { BUS_CONFIG } from '../support/vehicle-fixture.ts';
 
@@ -83,13 +84,60 @@ describe('thermargin analyze on bad input', () => {
 
   it('writes one CSV row per trip with the vehicle first', () => {
     const r = analyze(`${[HEADER, row(0), row(1)].join('\n')}\n`, 'csv');
-    const [head, first] = r.stdout.trim().split('\n');
+    const lines = r.stdout.trim().split('\n');
+    // The fuel-cell caution first, as comment lines a CSV reader's comment option skips.
+    const notes = lines.filter((l) => l.startsWith('# '));
+    expect(notes.map((l) => l.slice(2)).join('\n')).toBe(safetyCaution(['fcev']));
+    const [head, first] = lines.slice(notes.length);
     expect(
       head!.startsWith('vehicle,trip,start,end,samples,rejected,distance_km,k_ram_w_m2k,k_ram_ci95_lo'),
     ).toBe(true);
     expect(first!.startsWith('bus-01,20260701T080000Z,2026-07-01T08:00:00Z,2026-07-01T08:00:01Z,2,0,')).toBe(
       true,
     );
+  });
+
+  it("carries the caution for the fleet's powertrains in its JSON", () => {
+    const r = analyze(`${[HEADER, row(0), row(1)].join('\n')}\n`);
+    expect(r.code, r.stderr).toBe(0);
+    const json = JSON.parse(r.stdout);
+    expect(json.safety_caution).toBe(safetyCaution(['fcev']));
+    expect(json.safety_caution).toMatch(/hydrogen/);
+    expect(json.safety_caution).not.toMatch(/engine-driven fan/);
+  });
+
+  it('says "required" for a fleet-file field left out, and "must be a number" for one of the wrong kind', () => {
+    const { heat_kw: _, ...design } = BUS_CONFIG.design;
+    const dir = tempFiles({
+      'fleet.json': JSON.stringify({
+        vehicles: [
+          { ...BUS_CONFIG, design },
+          { ...BUS_CONFIG, id: 'bus-02', radiator_area_m2: 'big' },
+        ],
+      }),
+      'data.csv': `${HEADER}\n${row(0)}\n`,
+    });
+    const r = runCli(['analyze', '--fleet', join(dir, 'fleet.json'), '--data', dir]);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/vehicles\[0\]\.design\.heat_kw: design\.heat_kw is required/);
+    expect(r.stderr).toMatch(/vehicles\[1\]\.radiator_area_m2: radiator_area_m2 must be a number/);
+  });
+
+  it('answers --help of every command with its own usage and exit 0', () => {
+    for (const command of ['analyze', 'sizing', 'reanalyze']) {
+      const r = runCli([command, '--help']);
+      expect(r.code, command).toBe(0);
+      expect(r.stdout.startsWith(`thermargin ${command} `), command).toBe(true);
+      expect(r.stderr).toBe('');
+    }
+  });
+
+  it('puts the reason first, on one line, then the usage', () => {
+    const r = runCli(['analyze', '--fleet', 'f.json', '--data', 'd.csv', '--format', 'xml']);
+    expect(r.code).toBe(2);
+    const [reason, blank, usage] = r.stderr.split('\n');
+    expect(reason).toBe('thermargin analyze: --format: must be one of json, csv, text');
+    expect([blank, usage]).toEqual(['', 'usage:']);
   });
 
   it('answers an unknown command or option with usage and exit 2', () => {

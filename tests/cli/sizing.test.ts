@@ -1,6 +1,6 @@
-import { readFileSync } from 'node:fs';
+import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { SAFETY_CAUTION } from '@thermargin/shared';
+import { DESIGN_NOTE, POWERTRAIN_HAZARDS } from '@thermargin/shared';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { runCli, tempFiles } from '../support/run-cli.ts';
 import { SIZING_FLEET } from '../support/sizing-fleet/fleet.ts';
@@ -53,7 +53,13 @@ describe('thermargin sizing', () => {
 
     const page = readFileSync(html, 'utf8');
     expect(page.startsWith('<!doctype html>')).toBe(true);
-    expect(page).toContain(SAFETY_CAUTION.split('\n')[0]!.slice(0, 60));
+    expect(page).toContain(DESIGN_NOTE.slice(0, 60));
+    // The caution names the hazards of the fleet's own powertrains, and only those.
+    const kinds = new Set(res.vehicles.map((v: { powertrain: string }) => v.powertrain));
+    for (const [kind, hazards] of Object.entries(POWERTRAIN_HAZARDS))
+      expect(page.includes(hazards.slice(0, 40)), kind).toBe(kinds.has(kind));
+    expect(res.safety_caution).toContain('qualified technicians');
+    expect(res.design_note).toBe(DESIGN_NOTE);
     expect(page).toContain('Method and sources');
     expect(page).toContain('What if');
     expect(page.match(/<svg /g)!.length).toBeGreaterThanOrEqual(5);
@@ -79,5 +85,20 @@ describe('thermargin sizing', () => {
     expect(drop.code).toBe(2);
     expect(drop.stderr).toMatch(/at or below its thermostat opening/);
     expect(runCli(['sizing', '--data', paths.data]).stderr).toMatch(/--fleet: required/);
+  });
+
+  it('refuses --from-store when the stores are not there, naming them, and creates nothing', () => {
+    const empty = tempFiles({});
+    const samples = join(empty, 'samples.db');
+    const r = runCli(['sizing', '--from-store', '--fleet', paths.fleet], {
+      STORE_KIND: 'sqlite',
+      STORE_SQLITE_PATH: samples,
+      RESULTS_SQLITE_PATH: join(empty, 'results.db'),
+    });
+    expect(r.code).toBe(2);
+    expect(r.stderr).toContain(`no sample store (STORE_SQLITE_PATH) at ${samples}`);
+    expect(r.stderr).toMatch(/results database \(RESULTS_SQLITE_PATH\)/);
+    expect(r.stderr).toMatch(/set STORE_KIND/);
+    expect(readdirSync(empty)).toEqual([]);
   });
 });

@@ -1,5 +1,5 @@
 import type { FleetResponse, RejectedResponse, TraceResponse, VehicleResponse } from '@thermargin/shared/api';
-import { SAFETY_CAUTION } from '@thermargin/shared/safety';
+import { safetyCaution } from '@thermargin/shared/safety';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { causeWord, dueWords, num, STATUS_WORD } from '../../web/src/format.ts';
@@ -212,10 +212,13 @@ describe('dashboard in a real browser against the running API', () => {
     expect(
       await page.locator('[data-queue]').evaluateAll((els) => els.map((e) => e.getAttribute('data-queue'))),
     ).toEqual(queue);
-    const caution = SAFETY_CAUTION.replace(/\n/g, ' ');
+    // Each vehicle's caution names its own powertrain's hazards.
+    const powertrain = new Map(fleet.vehicles.map((v) => [v.id, v.powertrain]));
     for (const id of queue) {
       expect(await text(page, `[data-queue="${id}"] .recommendation`)).toMatch(/^Recommended:/);
-      expect(await text(page, `[data-queue="${id}"] .caution`)).toBe(caution);
+      expect(await page.locator(`[data-queue="${id}"] .caution p`).allInnerTexts()).toEqual(
+        safetyCaution([powertrain.get(id)!]).split('\n'),
+      );
     }
     await page.locator('[data-queue] [data-alert]').first().waitFor();
     expect(await page.getByRole('button', { name: 'Log maintenance…' }).count()).toBe(queue.length);
@@ -233,7 +236,9 @@ describe('dashboard in a real browser against the running API', () => {
     await page.getByRole('button', { name: 'Print' }).waitFor();
     await page.emulateMedia({ media: 'print' });
     expect(await page.locator('header.top').isVisible()).toBe(false);
-    expect(await text(page, '.caution')).toBe(caution);
+    expect(await page.locator('.caution p').allInnerTexts()).toEqual(
+      safetyCaution([powertrain.get(queue[0]!)!]).split('\n'),
+    );
     await screenshot(page, '5-work-order-print');
     await page.close();
   });

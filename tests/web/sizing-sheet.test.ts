@@ -1,7 +1,7 @@
 import { answerDesign } from '@thermargin/core/sizing/calculator';
 import { compareDrivetrains } from '@thermargin/core/sizing/drivetrain-compare';
 import { median } from '@thermargin/core/stats/quantile';
-import { SAFETY_CAUTION } from '@thermargin/shared/safety';
+import { DESIGN_NOTE, safetyCaution } from '@thermargin/shared/safety';
 import type { CalculatorResponse, SizingResponse } from '@thermargin/shared/sizing-api';
 import { marginStepsWords } from '@thermargin/shared/sizing-text';
 import type { Page } from 'playwright-core';
@@ -79,7 +79,11 @@ describe('sizing sheet in a real browser against the running API', () => {
         expect(await text(page, `${row} [data-col="steps"]`)).toContain(marginStepsWords(x.design_check));
     }
     // Cleaning intervals lead to work on a vehicle: the caution sits beside them.
-    expect(await text(page, '[aria-labelledby="fouling"] .caution')).toBe(SAFETY_CAUTION.replace(/\n/g, ' '));
+    expect(await page.locator('[aria-labelledby="fouling"] .caution p').allInnerTexts()).toEqual(
+      safetyCaution(sizing.vehicles.map((v) => v.powertrain)).split('\n'),
+    );
+    // The design-side note sits above the figures.
+    expect(await text(page, '.design-note')).toBe(DESIGN_NOTE);
     await page.close();
   });
 

@@ -2,7 +2,7 @@ import {
   type DeadLettersResponse,
   type FleetResponse,
   type RejectedResponse,
-  SAFETY_CAUTION,
+  safetyCaution,
   type StatusResponse,
   type TripsQuery,
   type TripsResponse,
@@ -132,7 +132,7 @@ function fleetPages(x: ApiContext): (c: Context) => Promise<Answer<FleetResponse
       time: iso(x.clock()),
       counts,
       vehicles,
-      safety_caution: SAFETY_CAUTION,
+      safety_caution: safetyCaution(fleetNow.vehicles.map((v) => v.powertrain)),
     });
     kept = { key, latest, fleet: fleetNow, revision: deps.workflow.revision(), page };
     return page.respond(c);
@@ -174,7 +174,7 @@ function vehiclePages(x: ApiContext): (c: Context, id: string) => Promise<Answer
       maintenance: maintenanceViews(model, deps.workflow.maintenance(id)),
       trips: data?.newest_first.slice(0, VEHICLE_RECENT_TRIPS) ?? [],
       trips_total: data?.result.trips.length ?? 0,
-      safety_caution: SAFETY_CAUTION,
+      safety_caution: safetyCaution([config.powertrain]),
       ...(data?.result.airside_fit ? { airside_fit: data.result.airside_fit } : {}),
       ...(data?.result.unmeasured_heat ? { unmeasured_heat: data.result.unmeasured_heat } : {}),
       ...(data?.result.ambient_offset ? { ambient_offset: data.result.ambient_offset } : {}),

@@ -2,7 +2,7 @@ import { answerDesign } from '@thermargin/core/sizing/calculator';
 import { compareDrivetrains, type DrivetrainComparison } from '@thermargin/core/sizing/drivetrain-compare';
 import { DEFAULT_COMPARISON_K_W_M2K, type SizingResult } from '@thermargin/core/sizing/fleet-sizing';
 import { median } from '@thermargin/core/stats/quantile';
-import { SAFETY_CAUTION } from '@thermargin/shared';
+import { DESIGN_NOTE, safetyCaution } from '@thermargin/shared';
 import type {
   CalculatorBody,
   CalculatorResponse,
@@ -63,6 +63,7 @@ function whatIfAnswer(r: SizingResult, s: { ambient_rise_k: number; limit_drop_k
 /** The sizing loop on the API: the fleet's figures and the interactive calculator. */
 export function sizingRoutes(x: ApiContext): Handlers<'sizing' | 'calculator'> {
   const cache = new SizingCache(x.deps, x.clock);
+  const fleetCaution = () => safetyCaution(x.deps.fleet.current().input.vehicles.map((v) => v.powertrain));
   return {
     sizing: async (): Promise<SizingResponse> => {
       const f = await cache.get();
@@ -70,7 +71,8 @@ export function sizingRoutes(x: ApiContext): Handlers<'sizing' | 'calculator'> {
         computed_at: new Date(f.computed_ms).toISOString(),
         trips_without_samples: f.trips_without_samples,
         sizing: asView(f.sizing),
-        safety_caution: SAFETY_CAUTION,
+        safety_caution: fleetCaution(),
+        design_note: DESIGN_NOTE,
       };
     },
     calculator: async ({ body }): Promise<CalculatorResponse> => {
@@ -108,7 +110,14 @@ export function sizingRoutes(x: ApiContext): Handlers<'sizing' | 'calculator'> {
       const what_if = w
         ? whatIfAnswer(await refusedAs('what_if.limit_drop_k', () => cache.whatIf(w)), w)
         : null;
-      return { basis: b, design, drivetrains, what_if, safety_caution: SAFETY_CAUTION };
+      return {
+        basis: b,
+        design,
+        drivetrains,
+        what_if,
+        safety_caution: fleetCaution(),
+        design_note: DESIGN_NOTE,
+      };
     },
   };
 }

@@ -1,4 +1,5 @@
 import { InputError } from '@thermargin/shared';
+import { UsageError } from './usage-error.ts';
 
 interface Command {
   usage: string;
@@ -32,7 +33,10 @@ async function usage(): Promise<string> {
 ${commands.map((c) => c.usage).join('\n\n')}`;
 }
 
-/** Runs one command; returns the process exit code (0 done, 2 unusable input or usage, 1 failure). */
+/**
+ * Runs one command; returns the process exit code (0 done, 2 unusable input or usage, 1 failure).
+ * `thermargin COMMAND --help` prints that command's usage and exits 0.
+ */
 export async function main(argv: string[]): Promise<number> {
   const log = (line: string) => process.stderr.write(`${line}\n`);
   const [name, ...rest] = argv;
@@ -46,10 +50,18 @@ export async function main(argv: string[]): Promise<number> {
     return 2;
   }
   const cmd = await load();
+  if (rest.includes('--help') || rest.includes('-h')) {
+    process.stdout.write(`${cmd.usage}\n`);
+    return 0;
+  }
   try {
     await cmd.run(rest, log);
     return 0;
   } catch (e) {
+    if (e instanceof UsageError) {
+      log(`thermargin ${name}: ${e.message}\n\nusage:\n${cmd.usage}`);
+      return 2;
+    }
     if (e instanceof InputError) {
       log(`thermargin ${name}: ${e.message}`);
       return 2;

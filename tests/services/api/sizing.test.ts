@@ -4,7 +4,7 @@ import { answerDesign } from '@thermargin/core/sizing/calculator';
 import { compareDrivetrains } from '@thermargin/core/sizing/drivetrain-compare';
 import { DEFAULT_DUTY, type SizingResult } from '@thermargin/core/sizing/fleet-sizing';
 import { median } from '@thermargin/core/stats/quantile';
-import { meResponseSchema, type Sample, SAFETY_CAUTION } from '@thermargin/shared';
+import { DESIGN_NOTE, meResponseSchema, type Sample, safetyCaution } from '@thermargin/shared';
 import {
   type CalculatorResponse,
   calculatorResponseSchema,
@@ -57,8 +57,17 @@ function sizingCli(out: string, ...extra: string[]): SizingResult {
     ...extra,
   ]);
   expect(r.code, r.stderr).toBe(0);
-  return JSON.parse(readFileSync(out, 'utf8')) as SizingResult;
+  return figuresOf(out);
 }
+
+/** The figures of a `sizing --out` file, once its caution (for the fleet's powertrains) and design note are checked. */
+function figuresOf(out: string): SizingResult {
+  const { safety_caution, design_note, ...figures } = JSON.parse(readFileSync(out, 'utf8'));
+  expect(design_note).toBe(DESIGN_NOTE);
+  expect(safety_caution).toBe(cautionOf(figures));
+  return figures as SizingResult;
+}
+const cautionOf = (r: SizingResult) => safetyCaution(r.vehicles.map((v) => v.powertrain));
 
 const sizing = async () => {
   const res = await stack.get('/api/sizing');
@@ -99,7 +108,8 @@ describe('GET /api/sizing and POST /api/sizing/calculator against the stores', (
     const body = await sizing();
     expect(body.computed_at).not.toBe(first.computed_at);
     expect(body.trips_without_samples).toBe(0);
-    expect(body.safety_caution).toBe(SAFETY_CAUTION);
+    expect(body.safety_caution).toBe(cautionOf(cli));
+    expect(body.design_note).toBe(DESIGN_NOTE);
     // Exactly what `thermargin sizing --data` wrote for the same samples, field for field.
     expect(body.sizing).toStrictEqual(cli);
     expect(cli.fleet.derate!.events).toBeGreaterThan(0);
@@ -137,7 +147,8 @@ describe('GET /api/sizing and POST /api/sizing/calculator against the stores', (
     expect(cli.drivetrains.duty_source!.mass_kg).toBe('fleet_data');
     expect(cli.drivetrains.duty.mass_kg).not.toBe(DEFAULT_DUTY.mass_kg);
     expect(body.what_if).toBeNull();
-    expect(body.safety_caution).toBe(SAFETY_CAUTION);
+    expect(body.safety_caution).toBe(cautionOf(cli));
+    expect(body.design_note).toBe(DESIGN_NOTE);
   });
 
   it('calculator: the worked example of the trade (common practice): half the ITD, half the heat', async () => {
@@ -249,6 +260,6 @@ describe('GET /api/sizing and POST /api/sizing/calculator against the stores', (
     const ok = runCli(['sizing', '--from-store', '--fleet', stack.fleetFile, '--out', out], env);
     expect(ok.code, ok.stderr).toBe(0);
     expect(ok.stderr).toMatch(/sized 3 vehicles from the stores, \d+ trips/);
-    expect(JSON.parse(readFileSync(out, 'utf8'))).toStrictEqual(cli);
+    expect(figuresOf(out)).toStrictEqual(cli);
   });
 });

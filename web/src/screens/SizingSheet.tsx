@@ -1,7 +1,7 @@
 import type { GroupSizingView, SizingResponse, SizingResultView } from '@thermargin/shared/sizing-api';
 import { DutyChart } from '../charts/duty-charts.tsx';
 import { AirsideTable } from '../components/AirsideTable.tsx';
-import { Caution } from '../components/Caution.tsx';
+import { Caution, DesignNote } from '../components/Caution.tsx';
 import { DesignChecks, FoulingNotes } from '../components/DesignChecks.tsx';
 import { SizingCalculator } from '../components/SizingCalculator.tsx';
 import { Empty, Loaded } from '../components/States.tsx';
@@ -131,7 +131,7 @@ function Fouling({ s }: { s: SizingResultView }) {
         sensor is named are left out: what they lose is not fouling.
       </p>
       <FoulingNotes s={s} />
-      <Caution />
+      <Caution powertrains={s.vehicles.map((v) => v.powertrain)} />
     </>
   );
 }
@@ -224,6 +224,7 @@ function Sheet({ r, session }: { r: SizingResponse; session: Session }) {
   const s = r.sizing;
   return (
     <>
+      <DesignNote text={r.design_note} />
       <dl class="figures">
         <Figure label="Trips" fig="trips">
           {s.period.trips}

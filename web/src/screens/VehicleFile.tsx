@@ -91,7 +91,9 @@ function Body({ session, v, reload }: { session: Session; v: VehicleResponse; re
             </ul>
           </details>
         )}
-        {v.summary.status && v.summary.status !== 'ok' && <Caution />}
+        {((v.summary.status && v.summary.status !== 'ok') || v.summary.open_alerts > 0) && (
+          <Caution text={v.safety_caution} />
+        )}
       </section>
       {v.series ? (
         <section class="charts" aria-label="Health and margin over time">

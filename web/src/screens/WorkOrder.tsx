@@ -42,7 +42,7 @@ export function WorkOrder({ session, id }: { session: Session; id: string }) {
                 </p>
                 <h2>Recommended work</h2>
                 <p data-fig="recommendation">{RECOMMENDATION[cause]}</p>
-                <Caution />
+                <Caution text={v.safety_caution} />
               </section>
               <section>
                 <h2>Open alerts ({open.length})</h2>

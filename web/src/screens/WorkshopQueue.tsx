@@ -61,7 +61,7 @@ function QueueItem({
       <p class="recommendation">
         <strong>Recommended:</strong> {RECOMMENDATION[v.cause ?? 'none']}
       </p>
-      <Caution />
+      <Caution powertrains={[v.powertrain]} />
       <Loaded res={detail} what={`alerts of ${v.id}`}>
         {(d) => (
           <>

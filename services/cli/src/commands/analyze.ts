@@ -1,6 +1,6 @@
 import { writeFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
-import { InputError } from '@thermargin/shared';
+import { safetyCaution } from '@thermargin/shared';
 import { tripsCsv } from '../output/trips-csv.ts';
 import { textSummary } from '../output/text-summary.ts';
 import { analyzeData } from '../import/analyze-data.ts';
@@ -12,6 +12,7 @@ import {
   maxLineBytes,
 } from '../fleet-data-args.ts';
 import { buildReport } from '../output/report.ts';
+import { UsageError } from '../usage-error.ts';
 
 export const ANALYZE_USAGE = `thermargin analyze --fleet FLEET.json --data PATH [--map MAP.json] [--out FILE] [--format json|csv|text] [--threads N]
   --fleet   fleet file (JSON): the vehicles, their cooling packages and design points
@@ -40,19 +41,20 @@ export async function analyzeCommand(argv: string[], log: (line: string) => void
   const threads = values.threads === undefined ? undefined : Number(values.threads);
   if (threads !== undefined && !(Number.isInteger(threads) && threads >= 1 && threads <= 64))
     problems.push({ where: '--threads', rule: 'must be an integer 1…64' });
-  if (problems.length) throw new InputError(problems, `usage:\n${ANALYZE_USAGE}\n`);
+  if (problems.length) throw new UsageError(problems);
   const data = await analyzeData(values.fleet!, values.data!, log, undefined, {
     map: values.map,
     threads,
     max_line_bytes: maxLine,
   });
   const report = buildReport(data);
+  const caution = safetyCaution(data.vehicles.map((v) => v.powertrain));
   const text =
     format === 'csv'
-      ? tripsCsv(report)
+      ? tripsCsv(report, caution)
       : format === 'text'
-        ? textSummary(report)
-        : `${JSON.stringify(report, null, 1)}\n`;
+        ? textSummary(report, caution)
+        : `${JSON.stringify({ safety_caution: caution, ...report }, null, 1)}\n`;
   if (values.out) writeFileSync(values.out, text);
   else process.stdout.write(text);
   log(

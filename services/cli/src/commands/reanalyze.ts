@@ -1,10 +1,10 @@
 import { parseArgs } from 'node:util';
-import { InputError } from '@thermargin/shared';
+import { UsageError } from '../usage-error.ts';
 import { openSampleStore } from '@thermargin/store';
 import { createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis-store';
 import { createWorkflowStore } from '@thermargin/store/sqlite-workflow';
 import { createAnalyzer } from '@thermargin/analyzer/analyzer';
-import { deploymentConfig } from '@thermargin/usecases/config';
+import { storedDeployment } from '../stored-deployment.ts';
 import { loadFleetFile } from '@thermargin/usecases/fleet-file';
 
 export const REANALYZE_USAGE = `thermargin reanalyze [--vehicle ID] [--since DATE]
@@ -24,15 +24,12 @@ export async function reanalyzeCommand(argv: string[], log: (line: string) => vo
       /^\d{4}-\d{2}-\d{2}$/.test(values.since) ? `${values.since}T00:00:00Z` : values.since,
     );
     if (!Number.isFinite(since_ms))
-      throw new InputError([{ where: '--since', rule: 'must be YYYY-MM-DD or ISO 8601 UTC' }], 'bad option');
+      throw new UsageError([{ where: '--since', rule: 'must be YYYY-MM-DD or ISO 8601 UTC' }]);
   }
-  const config = deploymentConfig();
+  const config = storedDeployment('stores', process.env);
   const fleet = loadFleetFile(config.fleet_file);
   if (values.vehicle !== undefined && !fleet.models.has(values.vehicle))
-    throw new InputError(
-      [{ where: '--vehicle', rule: `${values.vehicle} is not in the fleet file` }],
-      'bad option',
-    );
+    throw new UsageError([{ where: '--vehicle', rule: `${values.vehicle} is not in the fleet file` }]);
   const samples = openSampleStore(config.samples);
   const db = openResultsDb(config.results_path);
   const results = createAnalysisStore(db);

@@ -1,6 +1,6 @@
 import { writeFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
-import { decimalNumber, InputError, type Problem } from '@thermargin/shared';
+import { DESIGN_NOTE, decimalNumber, InputError, type Problem, safetyCaution } from '@thermargin/shared';
 import { DEFAULT_DUTY, type SizingInput, sizeFleet } from '@thermargin/core/sizing/fleet-sizing';
 import type { Duty } from '@thermargin/core/sizing/drivetrain-compare';
 import {
@@ -13,6 +13,7 @@ import { VehicleSamples } from '@thermargin/core/sizing/vehicle-samples';
 import { sizingHtml } from '../output/sizing-html.ts';
 import { analyzeData, type DataOptions } from '../import/analyze-data.ts';
 import { FLEET_DATA_OPTIONS, fleetDataProblems, MAX_LINE_USAGE, maxLineBytes } from '../fleet-data-args.ts';
+import { UsageError } from '../usage-error.ts';
 
 export const SIZING_USAGE = `thermargin sizing --fleet FLEET.json (--data PATH | --from-store) [--out RESULT.json] [--html REPORT.html] [options]
   --fleet      fleet file (JSON): the vehicles, their cooling packages and design points
@@ -87,7 +88,7 @@ export async function sizingCommand(argv: string[], log: (line: string) => void)
     problems.push({ where: '--cleaning-interval', rule: 'must be a number of days > 0' });
   const duty = values.duty === undefined ? undefined : parseDuty(values.duty, problems);
   const maxLine = maxLineBytes(values, problems);
-  if (problems.length) throw new InputError(problems, `usage:\n${SIZING_USAGE}\n`);
+  if (problems.length) throw new UsageError(problems);
 
   let options: ReturnType<typeof resolveSizingOptions>;
   try {
@@ -105,7 +106,9 @@ export async function sizingCommand(argv: string[], log: (line: string) => void)
         max_line_bytes: maxLine,
       });
   const result = sizeFleet(read.input, options);
-  const json = `${JSON.stringify(result, null, 1)}\n`;
+  // The caution and the design note travel with the figures, as in the API's answer.
+  const caution = safetyCaution(result.vehicles.map((v) => v.powertrain));
+  const json = `${JSON.stringify({ safety_caution: caution, design_note: DESIGN_NOTE, ...result }, null, 1)}\n`;
   if (values.out) writeFileSync(values.out, json);
   else process.stdout.write(json);
   if (values.html)
@@ -167,17 +170,12 @@ async function readStore(
   duty: Partial<Duty> | undefined,
 ): Promise<SizingRead> {
   // Loaded here: the stores' modules would slow every `sizing --data` run's start-up.
-  const [{ deploymentConfig }, { loadFleetFile }, { sizingInputFromConfig }] = await Promise.all([
-    import('@thermargin/usecases/config'),
+  const [{ storedDeployment }, { loadFleetFile }, { sizingInputFromConfig }] = await Promise.all([
+    import('../stored-deployment.ts'),
     import('@thermargin/usecases/fleet-file'),
     import('@thermargin/usecases/sizing-input'),
   ]);
-  let config: ReturnType<typeof deploymentConfig>;
-  try {
-    config = deploymentConfig(fleetPath ? { ...process.env, FLEET_FILE: fleetPath } : process.env);
-  } catch (e) {
-    throw new InputError([{ where: '--from-store', rule: (e as Error).message }]);
-  }
+  const config = storedDeployment('--from-store', process.env, fleetPath);
   const vehicles = [...loadFleetFile(config.fleet_file).models.values()];
   const read = await sizingInputFromConfig(config, vehicles, options, duty).catch((e) => {
     throw e instanceof RangeError ? new InputError([{ where: '--what-if', rule: e.message }]) : e;

@@ -1,4 +1,4 @@
-import { type FittedFigure, SAFETY_CAUTION } from '@thermargin/shared';
+import { DESIGN_NOTE, type FittedFigure, safetyCaution } from '@thermargin/shared';
 import { dutyWords, leftOutWords, marginStepsWords } from '@thermargin/shared/sizing-text';
 import type { SizingResult } from '@thermargin/core/sizing/fleet-sizing';
 import type { GroupSizing } from '@thermargin/core/sizing/group-sizing';
@@ -27,7 +27,12 @@ function table(head: string[], rows: Cell[][] | string[][]): string {
   return `<table><thead><tr>${th}</tr></thead><tbody>${tr}</tbody></table>`;
 }
 
-const caution = () => `<div class="caution">${esc(SAFETY_CAUTION).replace(/\n/g, ' ')}</div>`;
+const caution = (r: SizingResult) =>
+  `<div class="caution">${safetyCaution(r.vehicles.map((v) => v.powertrain))
+    .split('\n')
+    .map((l) => `<p>${esc(l)}</p>`)
+    .join('')}</div>`;
+const designNote = () => `<div class="design-note">${esc(DESIGN_NOTE)}</div>`;
 
 function summary(r: SizingResult): string {
   const rows = [...r.types, r.fleet].map((g) => {
@@ -155,7 +160,7 @@ function fouling(r: SizingResult): string {
   const fan = r.vehicles.map((v) => v.fouling.find((f) => f.band === 'fan')!.loss_pct_per_month);
   return `<h2>Fouling rate and cleaning interval</h2>
 <p>Loss of k after cleaning (Theil–Sen line per cleaning interval). Allowance for a cleaning interval of ${r.options.cleaning_interval_days} days. Where this report suggests cleaning or inspection:</p>
-${caution()}
+${caution(r)}
 ${barChart(
   'k loss after cleaning',
   '%/month',
@@ -274,7 +279,8 @@ function method(r: SizingResult): string {
 const CSS = `body{font:13px/1.45 system-ui,sans-serif;margin:24px auto;max-width:1000px;color:#1a202c}
 h1{font-size:20px}h2{font-size:16px;margin-top:28px;border-bottom:1px solid #cbd5e0}h3{font-size:14px}
 table{border-collapse:collapse;margin:8px 0 16px;font-size:12px}th,td{border:1px solid #cbd5e0;padding:3px 6px;text-align:left;vertical-align:top}
-th{background:#edf2f7}.caution{border:2px solid #c05621;background:#fffaf0;padding:8px 12px;margin:12px 0}
+th{background:#edf2f7}.caution{border:2px solid #c05621;background:#fffaf0;padding:8px 12px;margin:12px 0}.caution p{margin:4px 0}
+.design-note{border:2px solid #2b6cb0;background:#ebf8ff;padding:8px 12px;margin:12px 0}
 svg{display:block;margin:8px 0;max-width:100%;height:auto}@media print{h2{page-break-after:avoid}}`;
 
 /** The self-contained HTML report (inline CSS and SVG, no scripts, no external assets). */
@@ -285,7 +291,8 @@ export function sizingHtml(r: SizingResult, src: ReportSource): string {
 <body>
 <h1>Cooling sizing evidence from the fleet</h1>
 <p>Fleet file ${esc(src.fleet)}, data ${esc(src.data)}; ${r.vehicles.length} vehicles, ${p.trips} trips, ${p.samples.toLocaleString('en-US')} samples, ${esc(p.first_trip ?? '–')} to ${esc(p.last_trip ?? '–')}. Made ${esc(src.generated)}.</p>
-${caution()}
+${designNote()}
+${caution(r)}
 ${summary(r)}
 ${fieldK(r)}
 ${airside(r)}

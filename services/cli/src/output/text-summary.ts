@@ -1,4 +1,4 @@
-import { type AnalysisReport, SAFETY_CAUTION, type VehicleResult } from '@thermargin/shared';
+import type { AnalysisReport, VehicleResult } from '@thermargin/shared';
 
 const num = (x: number | null | undefined, unit: string, digits = 1) =>
   x === null || x === undefined ? '—' : `${x >= 0 && unit === '%' ? '+' : ''}${x.toFixed(digits)} ${unit}`;
@@ -26,7 +26,7 @@ function due(v: VehicleResult): string {
  * One line per vehicle: status, cause, the current margin level and its limiting ambient, the margin's
  * trend, when inspection is due; the caution when needed.
  */
-export function textSummary(report: AnalysisReport): string {
+export function textSummary(report: AnalysisReport, caution: string): string {
   const lines: string[] = [];
   let recommends = false;
   for (const v of report.vehicles) {
@@ -51,6 +51,6 @@ export function textSummary(report: AnalysisReport): string {
     if (v.cause_evidence && v.cause && v.cause !== 'none') lines.push(`${''.padEnd(15)}${v.cause_evidence}`);
   }
   lines.push(`rejected samples: ${report.rejected.total}`);
-  if (recommends) lines.push('', SAFETY_CAUTION);
+  if (recommends) lines.push('', caution);
   return `${lines.join('\n')}\n`;
 }

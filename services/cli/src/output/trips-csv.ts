@@ -53,9 +53,12 @@ function header(): string {
   return ['vehicle', ...names].join(',');
 }
 
-/** One row per trip, vehicle first. */
-export function tripsCsv(report: AnalysisReport): string {
-  const lines = [header()];
+/**
+ * One row per trip, vehicle first, after the caution as `#` comment lines (a reader's comment option,
+ * e.g. `comment='#'`, skips them).
+ */
+export function tripsCsv(report: AnalysisReport, caution: string): string {
+  const lines = [...caution.split('\n').map((l) => `# ${l}`), header()];
   for (const v of report.vehicles) {
     for (const t of v.trips) {
       const cells = COLUMNS.flatMap((c) => {
