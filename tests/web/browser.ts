@@ -18,6 +18,11 @@ export const CHROMIUM_ARGS = [
 
 export interface Browser {
   context: BrowserContext;
+  /**
+   * Console errors and uncaught page errors since the last call, then cleared; those matching `expected`
+   * (a refusal a test provokes on purpose) are dropped. Every browser test checks it is empty.
+   */
+  consoleErrors(expected?: RegExp): string[];
   close(): Promise<void>;
 }
 
@@ -30,8 +35,22 @@ export async function launchBrowser(): Promise<Browser> {
     args: CHROMIUM_ARGS,
     viewport: { width: 1360, height: 900 },
   });
+  let errors: string[] = [];
+  const watch = (page: Page) => {
+    page.on('console', (m) => {
+      if (m.type() === 'error') errors.push(`${page.url()}: ${m.text()}`);
+    });
+    page.on('pageerror', (e) => errors.push(`${page.url()}: ${e.message}`));
+  };
+  context.pages().forEach(watch);
+  context.on('page', watch);
   return {
     context,
+    consoleErrors(expected) {
+      const seen = errors.filter((e) => !expected?.test(e));
+      errors = [];
+      return seen;
+    },
     async close() {
       await context.close();
       rmSync(profile, { recursive: true, force: true });

@@ -1,7 +1,7 @@
 import type { FleetResponse, RejectedResponse, TraceResponse, VehicleResponse } from '@thermargin/shared/api';
 import { safetyCaution } from '@thermargin/shared/safety';
 import type { Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { causeWord, dueWords, num, STATUS_WORD } from '../../web/src/format.ts';
 import { TRACE_POINTS } from '../../web/src/state/place.ts';
 import { inspectionQueue } from '../../web/src/state/queue.ts';
@@ -65,6 +65,10 @@ beforeAll(async () => {
   });
   browser = await launchBrowser();
 }, 120_000);
+// Any console error on any page fails the test that caused it.
+afterEach(() => {
+  expect(browser.consoleErrors()).toEqual([]);
+});
 afterAll(async () => {
   await browser?.close();
   await stack?.close();
@@ -77,6 +81,8 @@ describe('dashboard in a real browser against the running API', () => {
     await page.getByLabel('API token').fill('not-a-valid-token-0000');
     await page.getByRole('button', { name: 'Sign in' }).click();
     expect(await text(page, '[role="alert"]')).toContain('not valid');
+    // The one error the browser logs is the refusal provoked here.
+    expect(browser.consoleErrors(/status of 401/)).toEqual([]);
     await screenshot(page, '0-sign-in');
     await page.close();
   });

@@ -5,7 +5,7 @@ import { DESIGN_NOTE, safetyCaution } from '@thermargin/shared/safety';
 import type { CalculatorResponse, SizingResponse } from '@thermargin/shared/sizing-api';
 import { marginStepsWords } from '@thermargin/shared/sizing-text';
 import type { Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { num } from '../../web/src/format.ts';
 import { calculatorBody, defaultForm } from '../../web/src/state/calculator.ts';
 import { startWebStack, TOKENS, type WebStack } from '../support/web-stack.ts';
@@ -37,6 +37,10 @@ beforeAll(async () => {
   sizing = ((await res.json()) as SizingResponse).sizing;
   browser = await launchBrowser();
 }, 180_000);
+// Any console error on any page fails the test that caused it.
+afterEach(() => {
+  expect(browser.consoleErrors()).toEqual([]);
+});
 afterAll(async () => {
   await browser?.close();
   await stack?.close();
@@ -159,6 +163,7 @@ describe('sizing sheet in a real browser against the running API', () => {
     // A limit below the ambient is refused by the API, field and rule shown.
     await page.locator('input[name="coolant_limit_c"]').fill('20');
     await expect.poll(() => text(page, '.calc-answer [role="alert"]')).toContain('design.coolant_limit_c');
+    expect(browser.consoleErrors(/status of 400/)).toEqual([]);
     await page.close();
   });
 

@@ -1,3 +1,4 @@
+import '@thermargin/shared/zod-jitless';
 import { render } from 'preact';
 import { App } from './App.tsx';
 import { Loading } from './components/States.tsx';

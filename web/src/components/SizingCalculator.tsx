@@ -255,7 +255,7 @@ export function SizingCalculator({ session, sizing }: { session: Session; sizing
             {problems.length > 0 && (
               <ul>
                 {problems.map((p) => (
-                  <li key={p.where}>
+                  <li key={`${p.where}: ${p.rule}`}>
                     <code>{p.where.replace(/^body: /, '')}</code>: {p.rule}
                   </li>
                 ))}
