@@ -34,6 +34,8 @@ export interface RouteSpec {
   method: 'get' | 'post' | 'put' | 'delete';
   /** Hono form, e.g. `/api/vehicles/:id`; every `:param` is validated as an id. */
   path: string;
+  /** Old paths still answered the same way for one release after a rename, documented as deprecated. */
+  old_paths?: readonly string[];
   /** The least role that may call it; null: no token needed. */
   role: ApiRole | null;
   summary: string;
@@ -96,7 +98,8 @@ export const API_ROUTES = {
   },
   deadLetters: {
     method: 'get',
-    path: '/api/rejected/letters',
+    path: '/api/rejected/messages',
+    old_paths: ['/api/rejected/letters'],
     role: 'viewer',
     summary: 'The refused messages, newest first: rule broken, topic and payload excerpt',
     query: deadLettersQuerySchema,

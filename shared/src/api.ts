@@ -290,7 +290,7 @@ export const rejectedResponseSchema = z.object({
 });
 export type RejectedResponse = z.infer<typeof rejectedResponseSchema>;
 
-// ---- GET /api/rejected/letters?vehicle=&reason=&limit= (viewer): the refused messages themselves
+// ---- GET /api/rejected/messages?vehicle=&reason=&limit= (viewer): the refused messages themselves
 export const deadLettersQuerySchema = z.strictObject({
   /** '' for messages whose vehicle could not be read; else an id (checked here, before any store is asked). */
   vehicle: z.union([z.literal(''), idSchema]).optional(),

@@ -1,3 +1,4 @@
+export * from './bytes.ts';
 export * from './column-builder.ts';
 export * from './columns.ts';
 export * from './fleet.ts';

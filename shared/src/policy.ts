@@ -23,7 +23,7 @@ export const POLICY_DEFAULTS = {
   /** K: the same deadband for the limiting ambient temperature. */
   hysteresis_lat_k: 1,
   /** trips: consecutive trips the better state must hold before the status steps down one level. */
-  clear_trips: 3,
+  trips_to_step_down: 3,
 } as const;
 
 export const policySchema = z.strictObject({
@@ -35,8 +35,13 @@ export const policySchema = z.strictObject({
   watch_health_drop_pct: z.number().min(0).max(100).optional(),
   hysteresis_margin_pct: z.number().min(0).optional(),
   hysteresis_lat_k: z.number().min(0).optional(),
+  trips_to_step_down: z.number().int().min(1).optional(),
+  /** The old name of `trips_to_step_down`, still read until the next release. */
   clear_trips: z.number().int().min(1).optional(),
 });
+
+/** Old policy keys still read, with the name each now has. */
+export const OLD_POLICY_KEYS = { clear_trips: 'trips_to_step_down' } as const;
 
 export type PolicyInput = z.infer<typeof policySchema>;
 export type Policy = { -readonly [K in keyof typeof POLICY_DEFAULTS]: (typeof POLICY_DEFAULTS)[K] };
@@ -46,7 +51,12 @@ export function resolvePolicy(...layers: (PolicyInput | undefined)[]): Policy {
   const out: Policy = { ...POLICY_DEFAULTS };
   for (const layer of layers) {
     if (!layer) continue;
-    for (const [k, v] of Object.entries(layer)) if (v !== undefined) (out as Record<string, unknown>)[k] = v;
+    for (const [k, v] of Object.entries(layer)) {
+      const key = OLD_POLICY_KEYS[k as keyof typeof OLD_POLICY_KEYS] ?? k;
+      // The new name wins over the old one in the same layer.
+      if (v !== undefined && (key === k || layer[key as keyof PolicyInput] === undefined))
+        (out as Record<string, unknown>)[key] = v;
+    }
   }
   return out;
 }

@@ -1,6 +1,6 @@
 /**
  * `npm run bench:web`: the dashboard's production bundle size (gzip), and in Debian's chromium the first
- * render of the fleet board with 1 000 vehicles and of a trip trace with 20 000 points per signal, and the
+ * render of the margin overview with 1 000 vehicles and of a trip trace with 20 000 points per signal, and the
  * frame time while zooming six linked charts of 100 000 points each. The built dashboard is served by the
  * API's own static handler; the API answers are synthetic (tests/bench/web-fixtures.ts), routed in the
  * browser, so the figures are the page's own. Prints figures; asserts nothing.
@@ -135,7 +135,7 @@ async function main(): Promise<void> {
         for (let i = 0; i < 3; i++)
           fleet.push(await firstRender(browser.context, url, '#/fleet', 'fleet:rendered'));
         console.log(
-          `fleet board, 1 000 vehicles: first render at ${fleet.map((m) => m.toFixed(0)).join(' / ')} ms after navigation`,
+          `margin overview, 1 000 vehicles: first render at ${fleet.map((m) => m.toFixed(0)).join(' / ')} ms after navigation`,
         );
       }
       const trip = [];

@@ -174,8 +174,8 @@ for (const id of ids) {
 await call('GET', '/api/vehicles/nobody');
 await call('GET', '/api/vehicles/nobody/trips?limit=0');
 await call('GET', '/api/rejected');
-await call('GET', '/api/rejected/letters');
-await call('GET', `/api/rejected/letters?vehicle=${first}&reason=json`);
+await call('GET', '/api/rejected/messages');
+await call('GET', `/api/rejected/messages?vehicle=${first}&reason=json`);
 await call('GET', '/api/sizing');
 const design = { ambient_c: 40, heat_kw: 120, coolant_limit_c: 105 };
 await call('POST', '/api/sizing/calculator', 'viewer', {

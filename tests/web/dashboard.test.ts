@@ -87,14 +87,14 @@ describe('dashboard in a real browser against the running API', () => {
     await page.close();
   });
 
-  it('fleet board shows every vehicle with the status, margin and LAT the API serves', async () => {
+  it('margin overview shows every vehicle with the status, margin and LAT the API serves', async () => {
     const fleet = await api<FleetResponse>('/api/fleet');
     const page = await signedIn(browser.context, stack.url, TOKENS.viewer);
     await page.locator('tr[data-vehicle]').first().waitFor();
     expect(await page.locator('tr[data-vehicle]').count()).toBe(fleet.vehicles.length);
     for (const v of fleet.vehicles) {
       const row = `tr[data-vehicle="${v.id}"]`;
-      expect(await text(page, `${row} [data-col="status"]`)).toBe(STATUS_WORD[v.status ?? 'none']);
+      expect(await text(page, `${row} [data-col="status"]`)).toBe(STATUS_WORD[v.status ?? 'unassessed']);
       expect(await text(page, `${row} [data-col="margin"]`)).toBe(num(v.margin_pct, '%'));
       expect(await text(page, `${row} [data-col="lat"]`)).toContain(num(v.limiting_ambient_c, '°C'));
       // A date that has passed reads as overdue, with the date beside it.
@@ -108,7 +108,7 @@ describe('dashboard in a real browser against the running API', () => {
       fleet.vehicles.some((v) => v.status === 'inspect' && v.projected_inspect_overdue_days !== null),
     ).toBe(true);
     expect(await text(page, '[data-count="inspect"] strong')).toBe(String(fleet.counts.inspect));
-    expect(await text(page, '[data-count="none"] strong')).toBe(String(fleet.counts.unassessed));
+    expect(await text(page, '[data-count="unassessed"] strong')).toBe(String(fleet.counts.unassessed));
     const bins = JSON.parse(
       (await page.locator('[data-chart="fleet-margin"]').getAttribute('data-bins')) ?? '[]',
     );
@@ -134,7 +134,7 @@ describe('dashboard in a real browser against the running API', () => {
     await page.close();
   });
 
-  it('vehicle file charts the health and margin series the API serves, with evidence and alerts', async () => {
+  it('vehicle history charts the health and margin series the API serves, with evidence and alerts', async () => {
     const v = await api<VehicleResponse>(`/api/vehicles/${VEHICLE}`);
     const page = await signedIn(browser.context, stack.url, TOKENS.viewer, `#/vehicle/${VEHICLE}`);
     await page.locator('[data-chart="vehicle-margin"] canvas').waitFor();
@@ -249,9 +249,9 @@ describe('dashboard in a real browser against the running API', () => {
     await page.close();
   });
 
-  it('intake check shows refused data per vehicle and reason, and what CAN frames held', async () => {
+  it('the refused-data screen shows refusals per vehicle and reason, what CAN frames held, and the pipeline', async () => {
     const r = await api<RejectedResponse>('/api/rejected');
-    const page = await signedIn(browser.context, stack.url, TOKENS.viewer, '#/intake');
+    const page = await signedIn(browser.context, stack.url, TOKENS.viewer, '#/refused');
     await page.locator('[data-table="rejected"]').waitFor();
     for (const v of r.vehicles) {
       const row = `tr[data-vehicle="${v.vehicle || '(unreadable)'}"]`;
@@ -285,17 +285,17 @@ describe('dashboard in a real browser against the running API', () => {
   it('a status change appears live through the event stream, without a reload', async () => {
     const page = await signedIn(browser.context, stack.url, TOKENS.viewer);
     const status = `tr[data-vehicle="${LATE}"] [data-col="status"]`;
-    expect(await text(page, status)).toBe(STATUS_WORD.none);
+    expect(await text(page, status)).toBe(STATUS_WORD.unassessed);
     await page.locator('[data-live="live"]').waitFor();
     await stack.release(LATE);
     await expect
       .poll(() => text(page, status), { timeout: 45_000, interval: 250 })
-      .not.toBe(STATUS_WORD.none);
+      .not.toBe(STATUS_WORD.unassessed);
     const after = await api<FleetResponse>('/api/fleet');
     const late = after.vehicles.find((v) => v.id === LATE)!;
-    expect(await text(page, status)).toBe(STATUS_WORD[late.status ?? 'none']);
+    expect(await text(page, status)).toBe(STATUS_WORD[late.status ?? 'unassessed']);
     expect(await text(page, `[data-change="${LATE}"]`)).toContain(
-      `${STATUS_WORD.none} → ${STATUS_WORD[late.status!]}`,
+      `${STATUS_WORD.unassessed} → ${STATUS_WORD[late.status!]}`,
     );
     await screenshot(page, '7-fleet-live-change');
     await page.close();

@@ -1,11 +1,11 @@
 import { useState } from 'preact/hooks';
 import { Shell } from './components/Shell.tsx';
-import { FleetBoard } from './screens/FleetBoard.tsx';
-import { IntakeCheck } from './screens/IntakeCheck.tsx';
+import { MarginOverview } from './screens/MarginOverview.tsx';
+import { RefusedData } from './screens/RefusedData.tsx';
 import { SignIn } from './screens/SignIn.tsx';
 import { SizingSheet } from './screens/SizingSheet.tsx';
 import { TripTrace } from './screens/TripTrace.tsx';
-import { VehicleFile } from './screens/VehicleFile.tsx';
+import { VehicleHistory } from './screens/VehicleHistory.tsx';
 import { WorkOrder } from './screens/WorkOrder.tsx';
 import { WorkshopQueue } from './screens/WorkshopQueue.tsx';
 import { LiveContext, useLiveStream } from './state/live.ts';
@@ -15,23 +15,23 @@ import { forgetToken, type Session } from './state/session.ts';
 function Screen({ place, session }: { place: Place; session: Session }) {
   switch (place.screen) {
     case 'fleet':
-      return <FleetBoard session={session} />;
+      return <MarginOverview session={session} />;
     case 'vehicle':
-      return <VehicleFile session={session} id={place.id} />;
+      return <VehicleHistory session={session} id={place.id} />;
     case 'trip':
       return <TripTrace session={session} id={place.id} trip={place.trip} points={place.points} />;
     case 'queue':
       return <WorkshopQueue session={session} />;
     case 'work-order':
       return <WorkOrder session={session} id={place.id} />;
-    case 'intake':
-      return <IntakeCheck session={session} />;
+    case 'refused':
+      return <RefusedData session={session} />;
     case 'sizing':
       return <SizingSheet session={session} />;
     default:
       return (
         <div class="state state-empty">
-          No screen at <code>{place.hash}</code>. <a href={href.fleet()}>Go to the fleet board</a>.
+          No screen at <code>{place.hash}</code>. <a href={href.fleet()}>Go to the margin overview</a>.
         </div>
       );
   }

@@ -9,19 +9,22 @@ import {
 import type { RejectReason } from '@thermargin/shared/telemetry';
 
 export { CAUSE_WORD };
+export { bytesText } from '@thermargin/shared/bytes';
 
 /** Words for the contract's codes: a status always reads as a word, never as a colour alone. */
-export const STATUS_WORD: Record<Status | 'none', string> = {
+export const STATUS_WORD: Record<Status | 'unassessed', string> = {
   ok: 'OK',
   watch: 'Watch',
   inspect: 'Inspect',
-  none: 'Unassessed',
+  unassessed: 'Unassessed',
 };
 export const POWERTRAIN_WORD: Record<Powertrain, string> = {
-  ice: 'engine',
+  ice: 'combustion',
   bev: 'battery-electric',
   fcev: 'fuel cell',
 };
+/** The two operating bands in one wording on every screen. */
+export const BAND_WORD = { ram: 'ram air', fan: 'fan at standstill' } as const;
 export const TREND_WORD: Record<Trend, string> = { falling: 'falling', steady: 'steady', rising: 'rising' };
 export const ACTION_WORD = {
   radiator_cleaned: 'radiator cleaned',
@@ -30,7 +33,7 @@ export const ACTION_WORD = {
   sensor_replaced: 'sensor replaced',
 } as const;
 
-/** The ingester's refusal codes in words; the cleaning's codes read with spaces for underscores. */
+/** The ingester's refusal codes in words. */
 const REFUSAL_WORD: Record<RejectReason, string> = {
   json: 'not JSON',
   schema: 'wrong shape',
@@ -45,8 +48,34 @@ const REFUSAL_WORD: Record<RejectReason, string> = {
   dlc_mismatch: 'frame length wrong',
   clock_back: 'clock went back',
 };
+/** Signals as the screening's words name them. */
+const SIGNAL_WORD: Record<string, string> = {
+  speed_kmh: 'speed',
+  power_kw: 'power',
+  coolant_in_c: 'radiator inlet temperature',
+  coolant_out_c: 'radiator outlet temperature',
+  ambient_c: 'ambient temperature',
+  fan_pct: 'fan duty',
+  coolant_flow_lpm: 'coolant flow',
+  derate: 'derate flag',
+};
+const signalWord = (name: string) => SIGNAL_WORD[name] ?? name.replaceAll('_', ' ');
+
+/** The screening's codes (core/src/trip/clean.ts) in words. */
+function screeningWord(code: string): string {
+  if (code === 'time_invalid') return 'time unreadable';
+  if (code === 'time_before_2000') return 'time before 2000';
+  if (code === 'duplicate_time') return 'same time twice';
+  const spike = /^spike_(.+)$/.exec(code);
+  if (spike) return `${signalWord(spike[1]!)} spike`;
+  const fault = /^(.+)_(missing|out_of_range)$/.exec(code);
+  if (fault) return `${signalWord(fault[1]!)} ${fault[2] === 'missing' ? 'missing' : 'out of range'}`;
+  return code.replaceAll('_', ' ');
+}
+
+/** A refusal code in words: the ingester's, else the screening's. */
 export const refusalWord = (code: string): string =>
-  REFUSAL_WORD[code as RejectReason] ?? code.replaceAll('_', ' ');
+  REFUSAL_WORD[code as RejectReason] ?? screeningWord(code);
 
 /**
  * A vehicle's or alert's cause in words. No cause named reads "no fault found" while all is well,
@@ -60,7 +89,12 @@ export function causeWord(cause: Cause | null | undefined, status: Status | null
 }
 
 /** Urgency rank: inspect first, unassessed last. */
-export const STATUS_RANK: Record<Status | 'none', number> = { inspect: 0, watch: 1, ok: 2, none: 3 };
+export const STATUS_RANK: Record<Status | 'unassessed', number> = {
+  inspect: 0,
+  watch: 1,
+  ok: 2,
+  unassessed: 3,
+};
 
 const DASH = '—';
 

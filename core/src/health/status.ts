@@ -30,7 +30,7 @@ export interface StatusStep {
 
 /**
  * ok → watch → inspect with hysteresis: a worse state is entered at once; a better one only after the
- * level has cleared the threshold plus its deadband on `clear_trips` consecutive trips, and never
+ * level has cleared the threshold plus its deadband on `trips_to_step_down` consecutive trips, and never
  * while the margin is not judged (right after maintenance, until the data show the result) or while
  * it is falling significantly (noise lifting a falling level over the deadband is not a recovery).
  */
@@ -79,7 +79,7 @@ export class StatusMachine {
       next = enter;
       this.clearing = 0;
     } else if (hold < now && m !== null && !x.margin_falling) {
-      if (++this.clearing >= this.p.clear_trips) {
+      if (++this.clearing >= this.p.trips_to_step_down) {
         next = hold;
         this.clearing = 0;
       }

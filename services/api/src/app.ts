@@ -71,7 +71,7 @@ function register<K extends RouteName>(app: Hono, name: K, handle: Handler<K>, d
         },
       }),
     );
-  app.on([r.method.toUpperCase()], [r.path], ...handlers, async (c: Context) => {
+  app.on([r.method.toUpperCase()], [r.path, ...(r.old_paths ?? [])], ...handlers, async (c: Context) => {
     const actor = c.get('actor' as never) as Actor | undefined;
     if (r.role !== null) {
       if (!actor) throw new HttpError(401, 'unauthorized', 'a bearer token is required');

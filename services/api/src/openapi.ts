@@ -33,7 +33,7 @@ export function openApiDocument(routes: Readonly<Record<string, RouteSpec>>): Re
         { description: 'error', content: json(apiErrorSchema, 'output') },
       ]),
     );
-    (paths[openapiPath(r.path)] ??= {})[r.method] = {
+    const operation = {
       summary: r.summary,
       ...(r.role ? { security: [{ bearer: [] }], 'x-role': r.role } : {}),
       parameters: params,
@@ -45,6 +45,13 @@ export function openApiDocument(routes: Readonly<Record<string, RouteSpec>>): Re
         ...errors,
       },
     };
+    (paths[openapiPath(r.path)] ??= {})[r.method] = operation;
+    for (const old of r.old_paths ?? [])
+      (paths[openapiPath(old)] ??= {})[r.method] = {
+        ...operation,
+        summary: `Old path of ${r.path}, answered until the next release: ${r.summary}`,
+        deprecated: true,
+      };
   }
   return {
     openapi: '3.1.0',

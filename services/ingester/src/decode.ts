@@ -1,4 +1,5 @@
 import {
+  bytesText,
   FUTURE_TOLERANCE_MS,
   MAX_SAMPLES_PER_MESSAGE,
   type RejectReason,
@@ -79,7 +80,7 @@ export function decodeMessage(topic: string, payload: Buffer, ctx: DecodeContext
   if (payload.length > ctx.max_payload_bytes) {
     return whole(
       'oversize',
-      `payload of ${payload.length} bytes is over the limit of ${ctx.max_payload_bytes}`,
+      `payload of ${bytesText(payload.length)} is over the limit of ${bytesText(ctx.max_payload_bytes)}`,
     );
   }
   const reading = ctx.readings?.get(vehicle) ?? STANDARD_READING;

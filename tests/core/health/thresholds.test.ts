@@ -34,19 +34,25 @@ describe('status hysteresis', () => {
       coolant_suspect: false,
       margin_falling: false,
     }).status;
-  it('enters at once, leaves only after clear_trips trips above threshold + deadband', () => {
+  it('enters at once, leaves only after trips_to_step_down trips above threshold + deadband', () => {
     const m = new StatusMachine(t, p);
     expect(step(m, 9)).toBe('watch');
     expect(step(m, 11)).toBe('watch'); // inside the 2-point deadband
-    for (let i = 0; i < p.clear_trips - 1; i++) expect(step(m, 13)).toBe('watch');
+    for (let i = 0; i < p.trips_to_step_down - 1; i++) expect(step(m, 13)).toBe('watch');
     expect(step(m, 13)).toBe('ok');
   });
   it('a fall of k enters watch at the watch drop and holds it down to the drop less the deadband', () => {
     const m = new StatusMachine(t, p);
     expect(step(m, 20, 2)).toBe('watch');
     for (let i = 0; i < 10; i++) expect(step(m, 20, 1)).toBe('watch'); // 6–8 % below: held
-    for (let i = 0; i < p.clear_trips - 1; i++) expect(step(m, 20)).toBe('watch');
+    for (let i = 0; i < p.trips_to_step_down - 1; i++) expect(step(m, 20)).toBe('watch');
     expect(step(m, 20)).toBe('ok');
+  });
+  it('reads the old key clear_trips as trips_to_step_down; the new key wins in the same layer', () => {
+    expect(resolvePolicy({ clear_trips: 5 }).trips_to_step_down).toBe(5);
+    expect(resolvePolicy({ clear_trips: 5, trips_to_step_down: 2 }).trips_to_step_down).toBe(2);
+    expect(resolvePolicy({ trips_to_step_down: 2 }, { clear_trips: 4 }).trips_to_step_down).toBe(4);
+    expect('clear_trips' in resolvePolicy({ clear_trips: 5 })).toBe(false);
   });
   it('holds while the margin is not judged (right after maintenance)', () => {
     const m = new StatusMachine(t, p);

@@ -214,7 +214,7 @@ describe('API security', () => {
     );
     try {
       await gone.close();
-      for (const path of ['/api/rejected', '/api/rejected/letters', '/api/fleet']) {
+      for (const path of ['/api/rejected', '/api/rejected/messages', '/api/fleet']) {
         const r = await other.get(path);
         expect(r.status, path).toBe(503);
         const body = (await r.json()) as { error: { code: string; message: string } };

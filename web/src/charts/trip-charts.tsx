@@ -1,7 +1,7 @@
 import type { TraceColumn, TraceResponse } from '@thermargin/shared/api';
 import { useMemo } from 'preact/hooks';
 import type uPlot from 'uplot';
-import { num } from '../format.ts';
+import { BAND_WORD, num } from '../format.ts';
 import { AXIS_LABEL_SIZE, AXIS_SIZE, Chart, timeAxis, valueAxis } from './Chart.tsx';
 import type { ZoomLink } from './link.ts';
 import { overlays, runs } from './overlays.ts';
@@ -107,14 +107,14 @@ export function TripCharts({ trace, link }: { trace: TraceResponse; link: ZoomLi
       },
       {
         id: 'trip-bands',
-        title: 'Samples that counted for the ram and fan bands',
+        title: `Samples that counted for ${BAND_WORD.ram} and ${BAND_WORD.fan}`,
         data: [x, lane(c.counted_ram, 2), lane(c.counted_fan, 1)],
         series: [
-          s('counted for ram band', INK.blue, '', {
+          s(`counted for ${BAND_WORD.ram}`, INK.blue, '', {
             width: 10,
             value: (_u, v) => (v === null ? 'no' : 'yes'),
           }),
-          s('counted for fan band', INK.orange, '', {
+          s(`counted for ${BAND_WORD.fan}`, INK.orange, '', {
             width: 10,
             value: (_u, v) => (v === null ? 'no' : 'yes'),
           }),
@@ -123,7 +123,7 @@ export function TripCharts({ trace, link }: { trace: TraceResponse; link: ZoomLi
           t,
           left('band', {
             splits: () => [1, 2],
-            values: (_u, v) => v.map((y) => (y === 2 ? 'ram' : y === 1 ? 'fan' : '')),
+            values: (_u, v) => v.map((y) => (y === 2 ? BAND_WORD.ram : y === 1 ? BAND_WORD.fan : '')),
           }),
         ],
         scales: { y: { range: [0.4, 2.6] as uPlot.Range.MinMax } },

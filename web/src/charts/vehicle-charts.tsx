@@ -4,7 +4,7 @@ import type { HealthSeriesView } from '@thermargin/shared/health-series';
 import type { VehicleConfigInput } from '@thermargin/shared/fleet';
 import { useMemo } from 'preact/hooks';
 import type uPlot from 'uplot';
-import { ACTION_WORD, num, when } from '../format.ts';
+import { ACTION_WORD, BAND_WORD, num, when } from '../format.ts';
 import { Chart, timeAxis, valueAxis } from './Chart.tsx';
 import { type Marker, overlays } from './overlays.ts';
 import { DASH, INK, SHADE } from './palette.ts';
@@ -76,12 +76,12 @@ export function HealthChart({
         pct(s.fan.ewma_lcl),
       ] as uPlot.AlignedData,
       series: [
-        dots('ram band health', INK.blue),
-        line('ram band level', INK.blue, DASH.solid, '%'),
-        line('ram band lower control limit', INK.blue, DASH.dotted, '%'),
-        dots('fan band health', INK.orange, 'square'),
-        line('fan band level', INK.orange, DASH.long, '%'),
-        line('fan band lower control limit', INK.orange, DASH.dotted, '%'),
+        dots(`${BAND_WORD.ram} health`, INK.blue),
+        line(`${BAND_WORD.ram} level`, INK.blue, DASH.solid, '%'),
+        line(`${BAND_WORD.ram} lower control limit`, INK.blue, DASH.dotted, '%'),
+        dots(`${BAND_WORD.fan} health`, INK.orange, 'square'),
+        line(`${BAND_WORD.fan} level`, INK.orange, DASH.long, '%'),
+        line(`${BAND_WORD.fan} lower control limit`, INK.orange, DASH.dotted, '%'),
       ],
       axes: [timeAxis(), valueAxis('health: k / reference (%)')],
       plugins: [overlays({ markers: [...changes, ...maintenanceMarkers(maintenance)] })],
@@ -96,7 +96,7 @@ export function HealthChart({
     <Chart
       id="vehicle-health"
       title="Health per band over time (%, 100 % = as clean)"
-      summary={`${s.time_ms.length} trips; latest level ram ${latest(s.ram.level)}, fan ${latest(s.fan.level)}`}
+      summary={`${s.time_ms.length} trips; latest level ${BAND_WORD.ram} ${latest(s.ram.level)}, ${BAND_WORD.fan} ${latest(s.fan.level)}`}
       {...props}
     />
   );

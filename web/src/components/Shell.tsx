@@ -5,9 +5,9 @@ import { href, type Place } from '../state/place.ts';
 import type { Session } from '../state/session.ts';
 
 const NAV = [
-  { to: href.fleet(), label: 'Fleet board', screens: ['fleet', 'vehicle', 'trip'] },
+  { to: href.fleet(), label: 'Margin overview', screens: ['fleet', 'vehicle', 'trip'] },
   { to: href.queue(), label: 'Workshop queue', screens: ['queue', 'work-order'] },
-  { to: href.intake(), label: 'Intake check', screens: ['intake'] },
+  { to: href.refused(), label: 'Refused data', screens: ['refused'] },
   { to: href.sizing(), label: 'Sizing sheet', screens: ['sizing'] },
 ];
 
@@ -57,8 +57,8 @@ export function Shell({
       <div class="changes" aria-live="polite">
         {live.changes.slice(0, 1).map((c) => (
           <p key={c.at_ms} class="change" data-change={c.vehicle}>
-            Status change: <a href={href.vehicle(c.vehicle)}>{c.vehicle}</a> {STATUS_WORD[c.from ?? 'none']} →{' '}
-            {STATUS_WORD[c.to]}
+            Status change: <a href={href.vehicle(c.vehicle)}>{c.vehicle}</a>{' '}
+            {STATUS_WORD[c.from ?? 'unassessed']} → {STATUS_WORD[c.to]}
           </p>
         ))}
       </div>

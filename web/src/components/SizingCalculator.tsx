@@ -97,7 +97,14 @@ function Answer({ a }: { a: CalculatorResponse }) {
         <table class="grid" data-table="drivetrains">
           <TableHead
             text={['Drivetrain']}
-            figures={['Efficiency', 'Heat to coolant', 'Coolant limit', 'ITD', 'Required area', '× engine']}
+            figures={[
+              'Efficiency',
+              'Heat to coolant',
+              'Coolant limit',
+              'ITD',
+              'Required area',
+              'Area against combustion',
+            ]}
           />
           <tbody>
             {a.drivetrains.rows.map((r) => (
@@ -201,11 +208,17 @@ export function SizingCalculator({ session, sizing }: { session: Session; sizing
           <NumberInput form={form} set={set} name="ambient_c" label="Design ambient (°C)" />
           <NumberInput form={form} set={set} name="heat_kw" label="Design heat to coolant (kW)" />
           <NumberInput form={form} set={set} name="coolant_limit_c" label="Coolant limit (°C)" />
-          <NumberInput form={form} set={set} name="area_m2" label="Net area to test (m²)" hint="none" />
+          <NumberInput
+            form={form}
+            set={set}
+            name="area_m2"
+            label="Radiator area to check (m²)"
+            hint="empty: size it"
+          />
           <NumberInput form={form} set={set} name="fouling_pct" label="Fouling allowance (%)" hint="field" />
           <NumberInput form={form} set={set} name="k_w_m2k" label="k (W/(m²·K))" hint="field k" />
           <label class="calc-field">
-            <span>Field basis</span>
+            <span>k and fouling from</span>
             <select
               name="powertrain"
               value={form.powertrain}

@@ -3,7 +3,7 @@ import type { Status } from '@thermargin/shared/results';
 import { dueWords, rateWords, STATUS_WORD, TREND_WORD } from '../format.ts';
 
 /** Each status has a shape of its own as well as a colour and a word: a disc, a notched triangle, a diamond with a bar, a dashed ring. */
-function Shape({ status }: { status: Status | 'none' }) {
+function Shape({ status }: { status: Status | 'unassessed' }) {
   switch (status) {
     case 'ok':
       return <circle cx="8" cy="8" r="5.5" />;
@@ -32,7 +32,7 @@ function Shape({ status }: { status: Status | 'none' }) {
 }
 
 export function StatusMark({ status, compact = false }: { status: Status | null; compact?: boolean }) {
-  const s = status ?? 'none';
+  const s = status ?? 'unassessed';
   return (
     <span class={`status status-${s}`} data-status={s}>
       <svg viewBox="0 0 16 16" width="16" height="16" aria-hidden="true" fill="currentColor">

@@ -1,6 +1,6 @@
 import type { TripResult } from '@thermargin/shared/results';
 import { useState } from 'preact/hooks';
-import { duration, marginSourceWords, num, when } from '../format.ts';
+import { BAND_WORD, duration, marginSourceWords, num, when } from '../format.ts';
 import { useResource } from '../state/resource.ts';
 import { href } from '../state/place.ts';
 import type { Session } from '../state/session.ts';
@@ -18,7 +18,14 @@ function Rows({ vehicle, trips }: { vehicle: string; trips: readonly TripResult[
       <table class="grid">
         <TableHead
           text={['Trip start']}
-          figures={['Duration', 'Distance', 'Heat mean / p95', 'k ram / fan (W/m²·K)', 'Margin', 'Derate']}
+          figures={[
+            'Duration',
+            'Distance',
+            'Heat mean / p95',
+            `k ${BAND_WORD.ram} / ${BAND_WORD.fan} (W/(m²·K))`,
+            'Margin',
+            'Derate',
+          ]}
           after={['Status']}
         />
         <tbody>

@@ -5,7 +5,7 @@ import { Caution, DesignNote } from '../components/Caution.tsx';
 import { DesignChecks, FoulingNotes } from '../components/DesignChecks.tsx';
 import { SizingCalculator } from '../components/SizingCalculator.tsx';
 import { Empty, Loaded } from '../components/States.tsx';
-import { num, POWERTRAIN_WORD, when } from '../format.ts';
+import { BAND_WORD, num, POWERTRAIN_WORD, when } from '../format.ts';
 import { useLive } from '../state/live.ts';
 import { useResource } from '../state/resource.ts';
 import { href } from '../state/place.ts';
@@ -13,7 +13,6 @@ import type { Session } from '../state/session.ts';
 import { TableHead } from '../components/TableHead.tsx';
 import { Figure } from '../components/Figure.tsx';
 
-const BAND_WORD = { ram: 'ram air', fan: 'fan at standstill' } as const;
 type Spread = GroupSizingView['field_k'][number]['ratio'];
 
 const range = (ci: [number, number] | null, unit: string, digits: number) =>
@@ -100,7 +99,7 @@ function Fouling({ s }: { s: SizingResultView }) {
             figures={[
               'k lost per month',
               'k lost per 1000 km',
-              'Cleaning → inspection',
+              'Days from cleaning to inspection',
               `Fouling allowance for ${s.options.cleaning_interval_days} d`,
             ]}
           />

@@ -4,7 +4,7 @@ import { ZoomLink } from '../charts/link.ts';
 import { TripCharts } from '../charts/trip-charts.tsx';
 import { Loaded } from '../components/States.tsx';
 import { StatusMark } from '../components/StatusMark.tsx';
-import { duration, marginSourceWords, num, when } from '../format.ts';
+import { BAND_WORD, duration, marginSourceWords, num, when } from '../format.ts';
 import { useResource } from '../state/resource.ts';
 import { href } from '../state/place.ts';
 import type { Session } from '../state/session.ts';
@@ -25,14 +25,14 @@ function TripFigures({ t }: { t: TraceResponse['trip'] }) {
     ['energy', 'Heat energy', num(t.heat_kwh, 'kWh')],
     [
       'k-ram',
-      `k ram band (${t.n_ram} windows)`,
+      `k ${BAND_WORD.ram} (${t.n_ram} windows)`,
       t.k_ram_w_m2k === null
         ? (t.k_ram_reason ?? '—')
         : `${num(t.k_ram_w_m2k, 'W/m²·K', 0)}${ci(t.k_ram_ci95)}`,
     ],
     [
       'k-fan',
-      `k fan band (${t.n_fan} windows)`,
+      `k ${BAND_WORD.fan} (${t.n_fan} windows)`,
       t.k_fan_w_m2k === null
         ? (t.k_fan_reason ?? '—')
         : `${num(t.k_fan_w_m2k, 'W/m²·K', 0)}${ci(t.k_fan_ci95)}`,
@@ -111,7 +111,7 @@ export function TripTrace({
   return (
     <div class="screen" data-screen="trip">
       <nav class="crumbs" aria-label="Breadcrumb">
-        <a href={href.fleet()}>Fleet board</a> › <a href={href.vehicle(id)}>{id}</a> › {trip}
+        <a href={href.fleet()}>Margin overview</a> › <a href={href.vehicle(id)}>{id}</a> › {trip}
       </nav>
       <Loaded res={res} what={`trip ${trip}`}>
         {(t) => <Body trace={t} />}

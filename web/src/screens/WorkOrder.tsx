@@ -1,10 +1,10 @@
 import { Caution } from '../components/Caution.tsx';
 import { Loaded } from '../components/States.tsx';
-import { ACTION_WORD, causeWord, num, RECOMMENDATION, when } from '../format.ts';
+import { ACTION_WORD, causeWord, num, RECOMMENDATION, STATUS_WORD, when } from '../format.ts';
 import { useResource } from '../state/resource.ts';
 import { href } from '../state/place.ts';
 import type { Session } from '../state/session.ts';
-import { Figures } from './VehicleFile.tsx';
+import { Figures } from './VehicleHistory.tsx';
 
 const RECENT_MAINTENANCE = 5;
 
@@ -49,7 +49,7 @@ export function WorkOrder({ session, id }: { session: Session; id: string }) {
                 <ul>
                   {open.map((a) => (
                     <li key={a.id}>
-                      {when(a.time)} · {a.status} · {a.detail}
+                      {when(a.time)} · {STATUS_WORD[a.status]} · {a.detail}
                     </li>
                   ))}
                 </ul>

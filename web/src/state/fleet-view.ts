@@ -18,7 +18,7 @@ export type SortKey =
 
 export interface FleetQuery {
   search: string;
-  status: Status | 'none' | 'all';
+  status: Status | 'unassessed' | 'all';
   sort: SortKey;
   descending: boolean;
 }
@@ -48,7 +48,7 @@ function key(v: FleetRow, k: Exclude<SortKey, 'status'>): string | number | null
 export function fleetView(rows: readonly FleetRow[], q: FleetQuery): FleetRow[] {
   const words = q.search.trim().toLowerCase().split(/\s+/).filter(Boolean);
   const out = rows.filter((v) => {
-    if (q.status !== 'all' && (v.status ?? 'none') !== q.status) return false;
+    if (q.status !== 'all' && (v.status ?? 'unassessed') !== q.status) return false;
     if (!words.length) return true;
     const hay =
       `${v.id} ${v.type} ${v.powertrain} ${v.cause ? causeWord(v.cause, v.status) : ''}`.toLowerCase();

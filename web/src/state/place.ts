@@ -1,13 +1,13 @@
 import { useEffect, useState } from 'preact/hooks';
 
-/** Screens by deep link: `#/fleet`, `#/vehicle/<id>`, `#/trip/<id>/<trip>`, `#/queue`, `#/work-order/<id>`, `#/intake`, `#/sizing`. */
+/** Screens by deep link: `#/fleet`, `#/vehicle/<id>`, `#/trip/<id>/<trip>`, `#/queue`, `#/work-order/<id>`, `#/refused`, `#/sizing`. */
 export type Place =
   | { screen: 'fleet' }
   | { screen: 'vehicle'; id: string }
   | { screen: 'trip'; id: string; trip: string; points: number }
   | { screen: 'queue' }
   | { screen: 'work-order'; id: string }
-  | { screen: 'intake' }
+  | { screen: 'refused' }
   | { screen: 'sizing' }
   | { screen: 'unknown'; hash: string };
 
@@ -27,7 +27,8 @@ export function parsePlace(hash: string): Place {
   }
   if (head === 'queue' && !a) return { screen: 'queue' };
   if (head === 'work-order' && a) return { screen: 'work-order', id: a };
-  if (head === 'intake' && !a) return { screen: 'intake' };
+  // `#/intake`: the screen's old link, still followed.
+  if ((head === 'refused' || head === 'intake') && !a) return { screen: 'refused' };
   if (head === 'sizing' && !a) return { screen: 'sizing' };
   return { screen: 'unknown', hash };
 }
@@ -38,7 +39,7 @@ export const href = {
   trip: (id: string, trip: string) => `#/trip/${encodeURIComponent(id)}/${encodeURIComponent(trip)}`,
   queue: () => '#/queue',
   workOrder: (id: string) => `#/work-order/${encodeURIComponent(id)}`,
-  intake: () => '#/intake',
+  refused: () => '#/refused',
   sizing: () => '#/sizing',
 };
 

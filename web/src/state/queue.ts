@@ -6,7 +6,7 @@ const due = (v: VehicleSummary) => (v.projected_inspect_date ? Date.parse(v.proj
 
 /** Urgency order: inspect, watch, ok, unassessed; then the earliest projected inspection; then the lowest margin. */
 export const byUrgency = (a: VehicleSummary, b: VehicleSummary): number =>
-  STATUS_RANK[a.status ?? 'none'] - STATUS_RANK[b.status ?? 'none'] ||
+  STATUS_RANK[a.status ?? 'unassessed'] - STATUS_RANK[b.status ?? 'unassessed'] ||
   due(a) - due(b) ||
   (a.margin_pct ?? FAR) - (b.margin_pct ?? FAR) ||
   a.id.localeCompare(b.id);

@@ -8,7 +8,7 @@ import type { FramesResponse } from '@thermargin/shared/intake-api';
 import type { RejectReason } from '@thermargin/shared/telemetry';
 import { useState } from 'preact/hooks';
 import { Empty, Loaded } from '../components/States.tsx';
-import { ago, num, refusalWord, when } from '../format.ts';
+import { ago, bytesText, num, refusalWord, when } from '../format.ts';
 import { useLive } from '../state/live.ts';
 import { useResource } from '../state/resource.ts';
 import { href } from '../state/place.ts';
@@ -43,7 +43,7 @@ function Rejected({ r, pick }: { r: RejectedResponse; pick: (f: LetterFilter) =>
             {cols.map((c) => (
               <th key={`${c.source}:${c.reason}`} scope="col" class="num" title={c.reason}>
                 <span class="small muted">
-                  {c.source === 'ingest' ? 'refused at intake' : 'removed in cleaning'}
+                  {c.source === 'ingest' ? 'refused at intake' : 'set aside in screening'}
                 </span>
                 <br />
                 {refusalWord(c.reason)}
@@ -125,7 +125,7 @@ function Letters({ d, filter, all }: { d: DeadLettersResponse; filter: LetterFil
               <th scope="col">Rule broken</th>
               <th scope="col">Topic</th>
               <th scope="col" class="num">
-                Bytes
+                Size
               </th>
               <th scope="col">Payload (first 2 KiB)</th>
             </tr>
@@ -140,7 +140,7 @@ function Letters({ d, filter, all }: { d: DeadLettersResponse; filter: LetterFil
                 <td>
                   <code>{l.topic}</code>
                 </td>
-                <td class="num">{l.payload_bytes}</td>
+                <td class="num">{bytesText(l.payload_bytes)}</td>
                 <td>
                   {l.excerpt.length <= EXCERPT_PREVIEW ? (
                     <code>{l.excerpt}</code>
@@ -263,10 +263,10 @@ function Health({ s }: { s: StatusResponse }) {
 }
 
 /**
- * Intake check: data refused per vehicle and reason, the refused messages themselves, and the health
+ * Refused data and pipeline health: data refused per vehicle and reason, the refused messages themselves, and the health
  * of intake and analysis.
  */
-export function IntakeCheck({ session }: { session: Session }) {
+export function RefusedData({ session }: { session: Session }) {
   const live = useLive();
   const [filter, setFilter] = useState<LetterFilter>({});
   const rejected = useResource(() => session.api.call('rejected'), [session, live.version]);
@@ -281,8 +281,8 @@ export function IntakeCheck({ session }: { session: Session }) {
   const status = useResource(() => session.api.call('status'), [session, live.version]);
   const frames = useResource(() => session.api.call('intakeFrames'), [session, live.version]);
   return (
-    <div class="screen" data-screen="intake">
-      <h1>Intake check</h1>
+    <div class="screen" data-screen="refused">
+      <h1>Refused data and pipeline health</h1>
       <section aria-labelledby="refused">
         <h2 id="refused">Refused data per vehicle and reason</h2>
         <Loaded res={rejected} what="refused data">

@@ -22,20 +22,20 @@ import { href } from '../state/place.ts';
 import type { Session } from '../state/session.ts';
 
 const PAGE = 50;
-const FILTERS: (Status | 'none' | 'all')[] = ['all', 'inspect', 'watch', 'ok', 'none'];
+const FILTERS: (Status | 'unassessed' | 'all')[] = ['all', 'inspect', 'watch', 'ok', 'unassessed'];
 
 function Counts({ counts }: { counts: FleetResponse['counts'] }) {
-  const items: [Status | 'none', number][] = [
+  const items: [Status | 'unassessed', number][] = [
     ['inspect', counts.inspect],
     ['watch', counts.watch],
     ['ok', counts.ok],
-    ['none', counts.unassessed],
+    ['unassessed', counts.unassessed],
   ];
   return (
     <ul class="counts" aria-label="Vehicles per status">
       {items.map(([s, n]) => (
         <li key={s} class={`count count-${s}`} data-count={s}>
-          <StatusMark status={s === 'none' ? null : s} />
+          <StatusMark status={s === 'unassessed' ? null : s} />
           <strong>{n}</strong>
         </li>
       ))}
@@ -171,13 +171,13 @@ function FleetTable({ fleet }: { fleet: FleetResponse }) {
   );
 }
 
-/** Fleet board: every vehicle's status at a glance, the margin distribution, and a sortable table. */
-export function FleetBoard({ session }: { session: Session }) {
+/** Margin overview: every vehicle's status at a glance, the margin distribution, and a sortable table. */
+export function MarginOverview({ session }: { session: Session }) {
   const live = useLive();
   const res = useResource(() => session.api.call('fleet'), [session, live.version]);
   return (
     <div class="screen" data-screen="fleet">
-      <h1>Fleet board</h1>
+      <h1>Margin overview</h1>
       <Loaded res={res} what="the fleet">
         {(fleet) =>
           fleet.vehicles.length === 0 ? (

@@ -6,7 +6,7 @@ import { MaintenanceForm } from '../components/MaintenanceForm.tsx';
 import { Empty, Loaded } from '../components/States.tsx';
 import { DueMark, StatusMark, TrendMark } from '../components/StatusMark.tsx';
 import { TripList } from '../components/TripList.tsx';
-import { ACTION_WORD, CAUSE_WORD, causeWord, num, when } from '../format.ts';
+import { ACTION_WORD, BAND_WORD, CAUSE_WORD, causeWord, num, when } from '../format.ts';
 import { useLive } from '../state/live.ts';
 import { useResource } from '../state/resource.ts';
 import { href } from '../state/place.ts';
@@ -45,7 +45,7 @@ export function Figures({ v }: { v: VehicleResponse }) {
           </span>
         )}
       </Figure>
-      <Figure label="Health ram / fan" fig="health">
+      <Figure label={`Health: ${BAND_WORD.ram} / ${BAND_WORD.fan}`} fig="health">
         {num(s.health.ram === null ? null : s.health.ram * 100, '%')} /{' '}
         {num(s.health.fan === null ? null : s.health.fan * 100, '%')}
       </Figure>
@@ -60,7 +60,7 @@ function Body({ session, v, reload }: { session: Session; v: VehicleResponse; re
     <>
       <header class="screen-head">
         <h1>
-          Vehicle file: {v.id} <span class="muted small">{v.summary.type}</span>
+          Vehicle history: {v.id} <span class="muted small">{v.summary.type}</span>
         </h1>
         {v.summary.status && v.summary.status !== 'ok' && (
           <a class="btn" href={href.workOrder(v.id)}>
@@ -139,8 +139,8 @@ function Body({ session, v, reload }: { session: Session; v: VehicleResponse; re
   );
 }
 
-/** Vehicle file: one vehicle's health, margin, cause, alerts, maintenance and trips. */
-export function VehicleFile({ session, id }: { session: Session; id: string }) {
+/** Vehicle history: one vehicle's health, margin, cause, alerts, maintenance and trips. */
+export function VehicleHistory({ session, id }: { session: Session; id: string }) {
   const live = useLive();
   const res = useResource(
     () => session.api.call('vehicle', { params: { id: id } }),
@@ -149,7 +149,7 @@ export function VehicleFile({ session, id }: { session: Session; id: string }) {
   return (
     <div class="screen" data-screen="vehicle">
       <nav class="crumbs" aria-label="Breadcrumb">
-        <a href={href.fleet()}>Fleet board</a> › {id}
+        <a href={href.fleet()}>Margin overview</a> › {id}
       </nav>
       <Loaded res={res} what={`vehicle ${id}`}>
         {(v) => <Body session={session} v={v} reload={res.reload} />}
