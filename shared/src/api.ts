@@ -63,6 +63,8 @@ export const meResponseSchema = z.object({ name: z.string(), role: z.enum(API_RO
 export type MeResponse = z.infer<typeof meResponseSchema>;
 
 // ---- GET /api/status (viewer): ingest and analyzer health
+export const ANALYZER_STATES = ['idle', 'working', 'stopped', 'separate'] as const;
+
 export const statusResponseSchema = z.object({
   time: iso,
   /**
@@ -85,12 +87,21 @@ export const statusResponseSchema = z.object({
     dead_letters: z.number().int(),
   }),
   analyzer: z.object({
+    /**
+     * idle: waiting for new samples; working: a pass is going on; stopped: this API's analyzer is not
+     * polling; separate: the analyzer runs in a process of its own (figures from the stored results).
+     */
+    state: z.enum(ANALYZER_STATES),
     running: z.boolean(),
     runs: z.number().int(),
     last_run: iso.nullable(),
     last_error: z.string().nullable(),
+    /** Trips and samples analysed by this process since `counting_since` (not the stored totals). */
     trips_analysed: z.number().int(),
     samples_analysed: z.number().int(),
+    counting_since: iso.nullable(),
+    /** Every trip with a stored result. */
+    trips_stored: z.number().int(),
     /** Vehicles with samples newer than their watermark, not counting those on a trip now. */
     backlog_vehicles: z.number().int(),
     /**

@@ -1,4 +1,10 @@
-import type { FleetResponse, RejectedResponse, TraceResponse, VehicleResponse } from '@thermargin/shared/api';
+import type {
+  FleetResponse,
+  RejectedResponse,
+  StatusResponse,
+  TraceResponse,
+  VehicleResponse,
+} from '@thermargin/shared/api';
 import { safetyCaution } from '@thermargin/shared/safety';
 import type { Page } from 'playwright-core';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
@@ -118,7 +124,7 @@ describe('dashboard in a real browser against the running API', () => {
     expect(await page.locator('tr[data-vehicle]').first().getAttribute('data-vehicle')).toBe(
       inspectionQueue(fleet.vehicles)[0]?.id,
     );
-    await screenshot(page, '1-fleet-board');
+    await screenshot(page, '1-margin-overview');
     // Search narrows the table; the status filter too.
     await page.getByLabel('Search').fill('truck');
     expect(await page.locator('tr[data-vehicle]').count()).toBe(
@@ -161,7 +167,7 @@ describe('dashboard in a real browser against the running API', () => {
     expect(await page.locator('tr[data-trip]').count()).toBe(Math.min(20, v.trips_total));
     // A viewer sees no write buttons.
     expect(await page.getByRole('button', { name: /Acknowledge|Close…|Log maintenance/ }).count()).toBe(0);
-    await screenshot(page, '2-vehicle-file');
+    await screenshot(page, '2-vehicle-history');
     await page.close();
   });
 
@@ -278,7 +284,20 @@ describe('dashboard in a real browser against the running API', () => {
     expect(await text(page, `${frames} [data-col="unknown_pgn"]`)).toBe('1,000');
     expect(await text(page, `${frames} [data-col="not_available"]`)).toBe('12');
     await page.locator('[data-fig="samples"]').waitFor();
-    await screenshot(page, '6-intake-check');
+    // The analyzer says what it is doing, and each count says what it covers.
+    const status = await api<StatusResponse>('/api/status');
+    expect(['idle', 'working']).toContain(status.analyzer.state);
+    expect(await text(page, '[data-fig="analyzer"]')).toMatch(
+      /^(idle, waiting for new samples|working) · last pass/,
+    );
+    expect(await text(page, '[data-fig="trips-stored"]')).toContain(
+      `${status.analyzer.trips_stored.toLocaleString('en')} stored`,
+    );
+    expect(await page.locator('dt', { hasText: /^Analysed since \d{4}-\d\d-\d\d/ }).count()).toBe(1);
+    expect(await text(page, '[data-fig="since-start"]')).toMatch(/^[\d,]+ trips · [\d,]+ samples$/);
+    // Screening codes read as words.
+    expect(await page.locator('[data-table="rejected"] thead').innerText()).not.toMatch(/_/);
+    await screenshot(page, '6-refused-data');
     await page.close();
   });
 

@@ -24,7 +24,12 @@ export interface AnalyzerDeps {
 }
 
 export interface AnalyzerStats {
+  /** A pass is going on. */
   running: boolean;
+  /** Polling for new samples (started and not stopped): idle between passes. */
+  polling: boolean;
+  /** ms: since when the counts below count (this process's analyzer was made). */
+  counting_since_ms: number;
   runs: number;
   last_run_ms: number | null;
   last_error: string | null;
@@ -77,6 +82,8 @@ export function createAnalyzer(deps: AnalyzerDeps, options: Partial<AnalyzerOpti
   const extra = deps.extraMaintenance ?? (() => []);
   const stats: AnalyzerStats = {
     running: false,
+    polling: false,
+    counting_since_ms: clock(),
     runs: 0,
     last_run_ms: null,
     last_error: null,
@@ -185,6 +192,7 @@ export function createAnalyzer(deps: AnalyzerDeps, options: Partial<AnalyzerOpti
     stats,
     start: () => {
       stopped = false;
+      stats.polling = true;
       schedule(0);
     },
     poke: () => schedule(0),
@@ -198,6 +206,7 @@ export function createAnalyzer(deps: AnalyzerDeps, options: Partial<AnalyzerOpti
       }),
     stop: async () => {
       stopped = true;
+      stats.polling = false;
       clearTimeout(timer);
       await chain;
     },

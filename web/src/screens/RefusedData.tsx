@@ -228,6 +228,13 @@ function Frames({ f }: { f: FramesResponse }) {
   );
 }
 
+const ANALYZER_WORD: Record<StatusResponse['analyzer']['state'], string> = {
+  idle: 'idle, waiting for new samples',
+  working: 'working',
+  stopped: 'stopped',
+  separate: 'runs in its own process',
+};
+
 function Health({ s }: { s: StatusResponse }) {
   const now = Date.parse(s.time);
   const stale = s.analyzer.watermarks.filter((w) => w.analysed_to === null);
@@ -246,17 +253,31 @@ function Health({ s }: { s: StatusResponse }) {
       <Figure label="Messages refused at intake" fig="dead-letters">
         {s.ingest.dead_letters}
       </Figure>
-      <Figure label="Analyzer">
-        {s.analyzer.running ? 'running' : 'stopped'} · last run {ago(s.analyzer.last_run, now)}
+      <Figure label="Analyzer" fig="analyzer">
+        <span data-state={s.analyzer.state}>{ANALYZER_WORD[s.analyzer.state]}</span> · last pass{' '}
+        {ago(s.analyzer.last_run, now)}
         {s.analyzer.last_error && <div class="bad small">{s.analyzer.last_error}</div>}
       </Figure>
-      <Figure label="Analysed">
-        {s.analyzer.trips_analysed} trips · {s.analyzer.samples_analysed.toLocaleString('en')} samples ·
-        backlog {s.analyzer.backlog_vehicles} vehicles · {s.analyzer.on_trip_vehicles} on a trip now
+      <Figure label="Trips with results" fig="trips-stored">
+        {s.analyzer.trips_stored.toLocaleString('en')} stored
       </Figure>
-      <Figure label="Arrived late, analysed again" fig="late-samples">
-        {s.analyzer.late_samples.toLocaleString('en')} samples
+      <Figure label="Still to analyse" fig="backlog">
+        {s.analyzer.backlog_vehicles} vehicles with new samples · {s.analyzer.on_trip_vehicles} on a trip now
       </Figure>
+      {s.analyzer.counting_since && (
+        <Figure label={`Analysed since ${when(s.analyzer.counting_since)}`} fig="since-start">
+          {s.analyzer.trips_analysed.toLocaleString('en')} trips ·{' '}
+          {s.analyzer.samples_analysed.toLocaleString('en')} samples
+        </Figure>
+      )}
+      {s.analyzer.counting_since && (
+        <Figure
+          label={`Arrived late since ${when(s.analyzer.counting_since)}, analysed again`}
+          fig="late-samples"
+        >
+          {s.analyzer.late_samples.toLocaleString('en')} samples
+        </Figure>
+      )}
       {stale.length > 0 && <Figure label="Never analysed">{stale.map((w) => w.vehicle).join(', ')}</Figure>}
     </dl>
   );
