@@ -170,6 +170,9 @@ export const ALERT_STATES = ['open', 'acknowledged', 'closed'] as const;
 export type AlertState = (typeof ALERT_STATES)[number];
 
 const actionStamp = z.object({ by: z.string(), at: iso, note: z.string() });
+/** Who closed an alert that closed by itself (superseded, or a return to ok). */
+export const ALERT_SELF_CLOSER = 'thermargin';
+
 export const alertViewSchema = z.object({
   /** Stable across re-analysis: the alert's time (compact) and status, e.g. `20260701T081500Z-watch`. */
   id: z.string(),
@@ -180,6 +183,10 @@ export const alertViewSchema = z.object({
   detail: z.string(),
   state: z.enum(ALERT_STATES),
   acknowledged: actionStamp.nullable(),
+  /**
+   * Who closed it, when and why; by ALERT_SELF_CLOSER when it closed by itself: a return to ok needs no
+   * acknowledgement, and an alert a later one of the same vehicle replaced is superseded.
+   */
   closed: actionStamp.nullable(),
 });
 export type AlertView = z.infer<typeof alertViewSchema>;

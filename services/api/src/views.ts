@@ -1,10 +1,11 @@
-import type {
-  AlertView,
-  HealthSeriesView,
-  MaintenanceView,
-  TripResult,
-  VehicleResult,
-  VehicleSummary,
+import {
+  ALERT_SELF_CLOSER,
+  type AlertView,
+  type HealthSeriesView,
+  type MaintenanceView,
+  type TripResult,
+  type VehicleResult,
+  type VehicleSummary,
 } from '@thermargin/shared';
 import type { StoredAnalysis } from '@thermargin/store/sqlite-analysis-store';
 import type { AlertAction, RecordedMaintenance } from '@thermargin/store/sqlite-workflow';
@@ -37,7 +38,8 @@ export function alertViews(
   actions: readonly AlertAction[],
 ): AlertView[] {
   const seen = new Map<string, number>();
-  return (r?.alerts ?? []).map((a) => {
+  const list = r?.alerts ?? [];
+  return list.map((a, i) => {
     const base = `${tripIdFromTime(Date.parse(a.time))}-${a.status}`;
     const k = (seen.get(base) ?? 0) + 1;
     seen.set(base, k);
@@ -50,9 +52,30 @@ export function alertViews(
       if (x.action === 'acknowledge') acknowledged = stamp;
       else closed = stamp;
     }
+    closed ??= closedByItself(a, list[i + 1]);
     const state = closed ? 'closed' : acknowledged ? 'acknowledged' : 'open';
     return { id, vehicle, ...a, state, acknowledged, closed };
   });
+}
+
+type StoredAlert = NonNullable<VehicleResult['alerts']>[number];
+
+/**
+ * The closing stamp of an alert no person has to act on: a return to ok (nothing to acknowledge), or one
+ * a later alert of the same vehicle has replaced (the newer one says where the vehicle stands now).
+ */
+function closedByItself(a: StoredAlert, next: StoredAlert | undefined): AlertView['closed'] {
+  if (a.status === 'ok')
+    return { by: ALERT_SELF_CLOSER, at: a.time, note: 'back inside the thresholds: nothing to acknowledge' };
+  if (!next) return null;
+  return {
+    by: ALERT_SELF_CLOSER,
+    at: next.time,
+    note:
+      next.status === 'ok'
+        ? 'superseded: the vehicle went back to ok'
+        : `superseded by the ${next.status} alert of ${next.time.slice(0, 16).replace('T', ' ')} UTC`,
+  };
 }
 
 export const isOpenAlert = (a: AlertView) => a.status !== 'ok' && a.state !== 'closed';

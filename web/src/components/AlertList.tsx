@@ -1,4 +1,4 @@
-import type { AlertView } from '@thermargin/shared/api';
+import { ALERT_SELF_CLOSER, type AlertView } from '@thermargin/shared/api';
 import { useState } from 'preact/hooks';
 import { causeWord, when } from '../format.ts';
 import { canWrite, type Session } from '../state/session.ts';
@@ -95,7 +95,8 @@ export function AlertList({
           )}
           {a.closed && (
             <p class="small muted">
-              Closed by {a.closed.by}, {when(a.closed.at)}: “{a.closed.note}”
+              {a.closed.by === ALERT_SELF_CLOSER ? 'Closed by itself' : `Closed by ${a.closed.by}`},{' '}
+              {when(a.closed.at)}: “{a.closed.note}”
             </p>
           )}
           {write && a.state !== 'closed' && editing?.id !== a.id && (
