@@ -1,5 +1,6 @@
 import type { MaintenanceEntry, Trend, TripResult, VehicleResult } from '@thermargin/shared';
 import { assessVehicle, type HealthOptions, type VehicleAssessment } from './health/assess.ts';
+import { ESTIMATOR_DEFAULTS } from './trip/estimator-options.ts';
 import { learnedFields, learnVehicle } from './vehicle/learn.ts';
 import type { VehicleModel } from './vehicle/resolve.ts';
 
@@ -13,6 +14,14 @@ export interface VehicleOutcome {
 }
 
 /**
+ * A trip shorter than one estimation window (a sample or two published by hand, a logger's blip) has no
+ * window to estimate k from and says nothing of the cooling: it is listed, never judged.
+ */
+export function isTooShort(t: Pick<TripResult, 'start' | 'end'>): boolean {
+  return Date.parse(t.end) - Date.parse(t.start) < ESTIMATOR_DEFAULTS.window_s * 1000;
+}
+
+/**
  * The one place that turns a vehicle's trip results into its full VehicleResult: the offline CLI and the
  * analyzer service both call it, so their outputs agree exactly.
  */
@@ -21,26 +30,35 @@ export function vehicleResult(
   trips: readonly TripResult[],
   options: Partial<HealthOptions> = {},
 ): VehicleOutcome {
-  const l = learnVehicle(vehicle, trips);
+  const judged = trips.filter((t) => !isTooShort(t));
+  const l = learnVehicle(vehicle, judged);
   const a = assessVehicle(l.vehicle, l.trips, options);
   const now = marginNow(a);
+  let j = 0;
   return {
     result: {
       id: vehicle.id,
-      trips: l.trips.map((t, i) => ({ ...t, ...a.trips[i]! })),
-      health: a.health,
-      status: a.status,
-      cause: a.cause,
-      cause_evidence: a.cause_evidence,
-      projected_inspect_date: a.projected_inspect_date,
-      projected_inspect_overdue_days: a.projected_inspect_overdue_days,
-      margin_pct: now.margin_pct,
-      limiting_ambient_c: now.limiting_ambient_c,
-      margin_basis: a.series.margin.basis,
-      trend: now.trend,
-      trend_pct_per_30d: now.trend_pct_per_30d,
-      alerts: a.alerts,
-      ...learnedFields(l),
+      trips: trips.map((t) =>
+        isTooShort(t) ? { ...t, too_short: true } : { ...l.trips[j]!, ...a.trips[j++]! },
+      ),
+      // Only too-short trips: nothing judged, the vehicle stays unassessed.
+      ...(judged.length === 0
+        ? {}
+        : {
+            health: a.health,
+            status: a.status,
+            cause: a.cause,
+            cause_evidence: a.cause_evidence,
+            projected_inspect_date: a.projected_inspect_date,
+            projected_inspect_overdue_days: a.projected_inspect_overdue_days,
+            margin_pct: now.margin_pct,
+            limiting_ambient_c: now.limiting_ambient_c,
+            margin_basis: a.series.margin.basis,
+            trend: now.trend,
+            trend_pct_per_30d: now.trend_pct_per_30d,
+            alerts: a.alerts,
+            ...learnedFields(l),
+          }),
     },
     assessment: a,
     learned: l.vehicle,

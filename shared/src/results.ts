@@ -116,6 +116,11 @@ export const tripResultSchema = z.object({
   trip_margin_pct: nullableNumber.optional(),
   trip_limiting_ambient_c: nullableNumber.optional(),
   trip_margin_basis: z.enum(['ram', 'fan']).nullable().optional(),
+  /**
+   * true: the trip is shorter than one estimation window, too short to judge; it is listed but left out
+   * of the vehicle's assessment (no health, no status).
+   */
+  too_short: z.boolean().optional(),
 });
 export type TripResult = z.infer<typeof tripResultSchema>;
 

@@ -97,6 +97,16 @@ describe('thermargin analyze on bad input', () => {
     );
   });
 
+  it('lists a trip too short to judge as such, and never judges it', () => {
+    const r = analyze(`${[HEADER, row(0), row(1)].join('\n')}\n`);
+    expect(r.code, r.stderr).toBe(0);
+    const v = JSON.parse(r.stdout).vehicles[0];
+    expect(v.trips).toHaveLength(1);
+    expect(v.trips[0].too_short).toBe(true);
+    expect(v.trips[0].status).toBeUndefined();
+    expect(v.status).toBeUndefined(); // nothing judged: the vehicle stays unassessed
+  });
+
   it("carries the caution for the fleet's powertrains in its JSON", () => {
     const r = analyze(`${[HEADER, row(0), row(1)].join('\n')}\n`);
     expect(r.code, r.stderr).toBe(0);

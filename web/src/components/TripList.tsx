@@ -50,7 +50,17 @@ function Rows({ vehicle, trips }: { vehicle: string; trips: readonly TripResult[
                 {t.margin_source === 'other_band' && <span class="muted small"> via {t.margin_basis}</span>}
               </td>
               <td class="num">{t.derate_s > 0 ? duration(t.derate_s) : 'none'}</td>
-              <td>{t.status ? <StatusMark status={t.status} /> : '—'}</td>
+              <td>
+                {t.status ? (
+                  <StatusMark status={t.status} />
+                ) : t.too_short ? (
+                  <span class="muted" data-too-short>
+                    too short to judge
+                  </span>
+                ) : (
+                  '—'
+                )}
+              </td>
             </tr>
           ))}
         </tbody>

@@ -40,6 +40,7 @@ const COLUMNS = [
   'trip_margin_pct',
   'trip_limiting_ambient_c',
   'trip_margin_basis',
+  'too_short',
 ] as const satisfies readonly (keyof TripResult)[];
 
 function cell(v: unknown): string {
