@@ -5,7 +5,7 @@ import { useResource } from '../state/resource.ts';
 import { href } from '../state/place.ts';
 import type { Session } from '../state/session.ts';
 import { Pager } from './Pager.tsx';
-import { rowLink } from './rowKeys.ts';
+import { RowLink } from './RowLink.tsx';
 import { Loaded } from './States.tsx';
 import { StatusMark } from './StatusMark.tsx';
 import { TableHead } from './TableHead.tsx';
@@ -30,12 +30,12 @@ function Rows({ vehicle, trips }: { vehicle: string; trips: readonly TripResult[
         />
         <tbody>
           {trips.map((t) => (
-            <tr
-              key={t.trip}
-              data-trip={t.trip}
-              {...rowLink(href.trip(vehicle, t.trip), `Open trip ${t.trip}`)}
-            >
-              <td>{when(t.start)}</td>
+            <tr key={t.trip} data-trip={t.trip} class="row-link">
+              <td>
+                <RowLink to={href.trip(vehicle, t.trip)} label={`Open trip ${t.trip}`}>
+                  {when(t.start)}
+                </RowLink>
+              </td>
               <td class="num">{duration((Date.parse(t.end) - Date.parse(t.start)) / 1000)}</td>
               <td class="num">{num(t.distance_km, 'km')}</td>
               <td class="num">

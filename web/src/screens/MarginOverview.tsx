@@ -3,7 +3,7 @@ import type { Status } from '@thermargin/shared/results';
 import { useEffect, useMemo, useState } from 'preact/hooks';
 import { MarginHistogram } from '../charts/MarginHistogram.tsx';
 import { Pager } from '../components/Pager.tsx';
-import { rowLink } from '../components/rowKeys.ts';
+import { RowLink } from '../components/RowLink.tsx';
 import { SortHeader } from '../components/SortHeader.tsx';
 import { Empty, Loaded } from '../components/States.tsx';
 import { DueMark, StatusMark, TrendMark } from '../components/StatusMark.tsx';
@@ -123,9 +123,11 @@ function FleetTable({ fleet }: { fleet: FleetResponse }) {
                 const room = headroom(v);
                 const seen = live.lastSample.get(v.id) ?? v.last_seen;
                 return (
-                  <tr key={v.id} data-vehicle={v.id} {...rowLink(href.vehicle(v.id), `Open ${v.id}`)}>
+                  <tr key={v.id} data-vehicle={v.id} class="row-link">
                     <td>
-                      <strong>{v.id}</strong>
+                      <RowLink to={href.vehicle(v.id)} label={`Open ${v.id}`}>
+                        <strong>{v.id}</strong>
+                      </RowLink>
                       <div class="muted small">{v.type}</div>
                     </td>
                     <td data-col="status">
