@@ -281,6 +281,8 @@ export const traceQuerySchema = z.strictObject({
 export const traceResponseSchema = z.object({
   vehicle: z.string(),
   trip: tripResultSchema,
+  /** °C: the vehicle's coolant limit, drawn on the temperature chart. */
+  coolant_limit_c: z.number(),
   /** Samples read for the trip, and points returned (gaps add one null row each). */
   samples: z.number().int(),
   points: z.number().int(),

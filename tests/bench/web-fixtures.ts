@@ -110,6 +110,7 @@ export function syntheticTrace(points: number): TraceResponse {
   return {
     vehicle: 'bench-0001',
     trip: { ...TRIP, samples: points },
+    coolant_limit_c: 85,
     samples: points,
     points,
     method: 'lttb',

@@ -199,6 +199,19 @@ describe('dashboard in a real browser against the running API', () => {
       col('counted_fan').filter((x) => x === 1).length,
     );
     expect(await text(page, '[data-fig="distance"]')).toBe(num(trace.trip.distance_km, 'km'));
+    // The temperature chart keeps the coolant limit in view, and its legend lists only the signals the
+    // vehicle has.
+    const temps = await page.evaluate(() => {
+      const u = window.__thermargin!.charts['trip-temperatures']!;
+      return { labels: u.series.slice(1).map((s) => s.label), max: u.scales.y!.max! };
+    });
+    expect(temps.max).toBeGreaterThanOrEqual(trace.coolant_limit_c);
+    const words = { coolant_in_c: 'coolant in', coolant_out_c: 'coolant out', ambient_c: 'ambient' } as const;
+    expect(temps.labels).toEqual(
+      (['coolant_in_c', 'coolant_out_c', 'ambient_c'] as const)
+        .filter((c) => col(c).some((v) => v !== null))
+        .map((c) => words[c]),
+    );
     const t = col('time_ms').filter((x): x is number => x !== null);
     const mid = { min: t[Math.floor(t.length / 4)]!, max: t[Math.floor(t.length / 2)]! };
     await page.evaluate((mid) => window.__thermargin!.charts['trip-fan']!.setScale('x', mid), mid);

@@ -26,6 +26,7 @@ export function traceRoutes(x: ApiContext): Handlers<'trace'> {
       return {
         vehicle: id,
         trip,
+        coolant_limit_c: model.coolant_limit_c,
         samples: raw.n,
         points: cols[0]!.length,
         method: 'lttb',

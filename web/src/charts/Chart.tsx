@@ -27,7 +27,29 @@ export interface ChartProps {
   link?: ZoomLink;
   /** x other than time (UTC epoch ms, the default): its legend series and scale. */
   x?: { series: uPlot.Series; scale: uPlot.Scale };
+  /** Shown in place of the plot when no series has a value to draw: why the chart is empty. */
+  empty: string;
+  /** The least span of a value scale, by scale key (MIN_SPAN by unit): a flat line is not a step. */
+  minSpan?: Partial<Record<string, number>>;
 }
+
+/**
+ * The least span of a value axis per unit: noise of 0.01 K must not fill a chart's height as if it were a
+ * step (our choice: about a sensor's resolution times a few, rounded).
+ */
+export const MIN_SPAN = { K: 4, '°C': 4, '%': 10, kW: 10, 'km/h': 10, 'W/(m²·K)': 200 } as const;
+
+/** [lo, hi] widened about its middle to at least `span`. */
+export function atLeast(lo: number | null, hi: number | null, span: number): uPlot.Range.MinMax {
+  if (lo === null || hi === null || !Number.isFinite(lo) || !Number.isFinite(hi)) return [0, span];
+  const pad = Math.max(0, span - (hi - lo)) / 2;
+  return [lo - pad, hi + pad];
+}
+
+const hasValues = (data: uPlot.AlignedData) =>
+  data
+    .slice(1)
+    .some((col) => Array.prototype.some.call(col, (v: number | null) => v !== null && Number.isFinite(v)));
 
 const axisStyle = { stroke: INK.axis, grid: { stroke: INK.grid, width: 1 }, ticks: { stroke: INK.grid } };
 
@@ -68,6 +90,17 @@ export const valueAxis = (label: string, o: Partial<uPlot.Axis> = {}): uPlot.Axi
   ...o,
 });
 
+/** The scales with a least span where one is asked (a scale with a fixed range keeps it). */
+function withMinSpans(scales: uPlot.Scales = {}, spans: Partial<Record<string, number>> = {}): uPlot.Scales {
+  const out = { ...scales };
+  for (const [key, span] of Object.entries(spans)) {
+    const s = out[key];
+    if (s?.range || span === undefined) continue;
+    out[key] = { ...s, range: (_u, lo, hi) => atLeast(lo, hi, span) };
+  }
+  return out;
+}
+
 /** A uPlot chart that fills its container's width; recreated when its inputs change. */
 export function Chart(p: ChartProps) {
   const host = useRef<HTMLDivElement>(null);
@@ -81,7 +114,7 @@ export function Chart(p: ChartProps) {
       tzDate: utc,
       series: [p.x?.series ?? { label: 'time (UTC)', value: '{YYYY}-{MM}-{DD} {HH}:{mm}:{ss}' }, ...p.series],
       axes: p.axes,
-      scales: { x: p.x?.scale ?? { time: true }, ...p.scales },
+      scales: { x: p.x?.scale ?? { time: true }, ...withMinSpans(p.scales, p.minSpan) },
       plugins: p.plugins ?? [],
       legend: { live: true },
       cursor: p.link
@@ -104,7 +137,16 @@ export function Chart(p: ChartProps) {
       if (window.__thermargin?.charts[p.id] === u) delete window.__thermargin.charts[p.id];
       u.destroy();
     };
-  }, [p.data, p.series, p.axes, p.scales, p.plugins, p.link, p.id, p.height, p.x]);
+  }, [p.data, p.series, p.axes, p.scales, p.plugins, p.link, p.id, p.height, p.x, p.minSpan]);
+  if (!hasValues(p.data))
+    return (
+      <figure class="chart chart-empty" data-chart={p.id} data-points={0}>
+        <figcaption>{p.title}</figcaption>
+        <p class="state state-empty" data-empty>
+          {p.empty}
+        </p>
+      </figure>
+    );
   return (
     <figure class="chart" data-chart={p.id} data-points={p.data[0].length}>
       <figcaption>{p.title}</figcaption>

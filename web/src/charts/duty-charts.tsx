@@ -77,6 +77,7 @@ export function DutyChart({ duty, by }: { duty: DutyCycleView; by: 'speed' | 'am
       series={props.series}
       axes={props.axes}
       x={props.x}
+      empty="No driving recorded in any band yet."
       height={240}
     />
   );

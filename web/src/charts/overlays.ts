@@ -22,7 +22,32 @@ export interface Span {
   color: string;
 }
 
-/** Draws shaded x spans under the series, and vertical markers and horizontal levels over them, with labels. */
+/** A label's box on the canvas: left, top, width, height. */
+type Box = [number, number, number, number];
+const overlaps = (a: Box, b: Box) =>
+  a[0] < b[0] + b[2] && b[0] < a[0] + a[2] && a[1] < b[1] + b[3] && b[1] < a[1] + a[3];
+
+/**
+ * The first of `tries` (top-left corners) whose box is free of the boxes already placed, else the first
+ * moved down a row at a time until free; the box chosen is added to `placed`.
+ */
+export function placeLabel(placed: Box[], tries: [number, number][], w: number, h: number): [number, number] {
+  const free = (x: number, y: number) => !placed.some((b) => overlaps(b, [x, y, w, h]));
+  let at = tries.find(([x, y]) => free(x, y));
+  if (!at) {
+    const [x, y0] = tries[0]!;
+    let y = y0;
+    for (let i = 0; i < 50 && !free(x, y); i++) y += h;
+    at = [x, y];
+  }
+  placed.push([at[0], at[1], w, h]);
+  return at;
+}
+
+/**
+ * Draws shaded x spans under the series, and vertical markers and horizontal levels over them, with
+ * labels placed so that none is drawn over another.
+ */
 export function overlays(o: { spans?: Span[]; markers?: Marker[]; levels?: LevelLine[] }): uPlot.Plugin {
   const px = (v: number) => v * devicePixelRatio;
   return {
@@ -44,6 +69,10 @@ export function overlays(o: { spans?: Span[]; markers?: Marker[]; levels?: Level
         ctx.save();
         ctx.font = `${px(11)}px system-ui, sans-serif`;
         ctx.lineWidth = px(1.5);
+        ctx.textBaseline = 'top';
+        const h = px(13);
+        const placed: Box[] = [];
+        const right = bbox.left + bbox.width;
         for (const m of o.markers ?? []) {
           const x = u.valToPos(m.x, 'x', true);
           if (x < bbox.left || x > bbox.left + bbox.width) continue;
@@ -53,7 +82,17 @@ export function overlays(o: { spans?: Span[]; markers?: Marker[]; levels?: Level
           ctx.moveTo(x, bbox.top);
           ctx.lineTo(x, bbox.top + bbox.height);
           ctx.stroke();
-          ctx.fillText(m.label, x + px(3), bbox.top + px(12));
+          const w = ctx.measureText(m.label).width;
+          const [lx, ly] = placeLabel(
+            placed,
+            [
+              [x + px(3), bbox.top + px(2)],
+              [x - px(3) - w, bbox.top + px(2)],
+            ],
+            w,
+            h,
+          );
+          ctx.fillText(m.label, lx, ly);
         }
         for (const l of o.levels ?? []) {
           const y = u.valToPos(l.y, l.scale, true);
@@ -64,7 +103,19 @@ export function overlays(o: { spans?: Span[]; markers?: Marker[]; levels?: Level
           ctx.moveTo(bbox.left, y);
           ctx.lineTo(bbox.left + bbox.width, y);
           ctx.stroke();
-          ctx.fillText(l.label, bbox.left + px(4), y - px(4));
+          const w = ctx.measureText(l.label).width;
+          const [lx, ly] = placeLabel(
+            placed,
+            [
+              [bbox.left + px(4), y - px(2) - h],
+              [bbox.left + px(4), y + px(2)],
+              [right - px(4) - w, y - px(2) - h],
+              [right - px(4) - w, y + px(2)],
+            ],
+            w,
+            h,
+          );
+          ctx.fillText(l.label, lx, ly);
         }
         ctx.restore();
       },

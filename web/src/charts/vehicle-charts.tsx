@@ -5,7 +5,7 @@ import type { VehicleConfigInput } from '@thermargin/shared/fleet';
 import { useMemo } from 'preact/hooks';
 import type uPlot from 'uplot';
 import { ACTION_WORD, BAND_WORD, num, when } from '../format.ts';
-import { Chart, timeAxis, valueAxis } from './Chart.tsx';
+import { Chart, MIN_SPAN, timeAxis, valueAxis } from './Chart.tsx';
 import { type Marker, overlays } from './overlays.ts';
 import { DASH, INK, SHADE } from './palette.ts';
 
@@ -97,6 +97,8 @@ export function HealthChart({
       id="vehicle-health"
       title="Health per band over time (%, 100 % = as clean)"
       summary={`${s.time_ms.length} trips; latest level ${BAND_WORD.ram} ${latest(s.ram.level)}, ${BAND_WORD.fan} ${latest(s.fan.level)}`}
+      empty={`Not enough trips in the ${BAND_WORD.ram} or ${BAND_WORD.fan} band yet: health needs a valid k on a trip.`}
+      minSpan={{ y: MIN_SPAN['%'] }}
       {...props}
     />
   );
@@ -214,6 +216,8 @@ export function MarginChart({
       title="Margin and limiting ambient temperature over time, with the projection"
       summary={`inspect threshold ${num(s.margin.inspect_below_pct, '%', 0)}; ${p.date && Date.parse(p.date) <= (s.time_ms.at(-1) ?? 0) ? 'inspection due since' : 'projected inspection'} ${when(p.date, false)}${p.interval ? ` (interval ${when(p.interval[0], false)} to ${when(p.interval[1], false)})` : ''}`}
       height={260}
+      empty="No trip gave a margin at the design point yet: it needs a valid k in the design point's band."
+      minSpan={{ y: MIN_SPAN['%'], degC: MIN_SPAN['°C'] }}
       {...props}
     />
   );
