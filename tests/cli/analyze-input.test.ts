@@ -38,6 +38,12 @@ describe('thermargin analyze on bad input', () => {
     );
   });
 
+  it('names the separator of a header that reads as one column', () => {
+    const r = analyze(`${HEADER.replaceAll(',', '|')}\n${row(0).replaceAll(',', '|')}\n`);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toContain("the header has one column: is the separator '|'?");
+  });
+
   it('skips and counts bad rows with file:line while keeping the good ones', () => {
     const lines = [
       HEADER,

@@ -222,4 +222,17 @@ describe('a mapping file that cannot be used is refused, naming the field', () =
       /map\.json: fields\.Foo\.signal: "coolant" is not a signal \(one of speed_kmh, /,
     );
   });
+
+  it('a delimiter it forces that the file does not use: the header read as one column names the separator', () => {
+    const dir = tempFiles({
+      'fleet.json': FLEET,
+      'map.json': JSON.stringify({ delimiter: ';' }),
+      'data.csv': 'time,vehicle,speed_kmh,power_kw,coolant_in_c,ambient_c,fan_pct\n',
+    });
+    const r = analyze(dir, 'data.csv', '--map', join(dir, 'map.json'));
+    expect(r.code).toBe(2);
+    expect(r.stderr).toContain(
+      "data.csv:1: the header has one column: is the separator ','? The mapping sets delimiter ';': change or remove it",
+    );
+  });
 });

@@ -46,6 +46,17 @@ function repeatedColumns(where: string, names: readonly string[], used: readonly
   return out;
 }
 
+const shown = (separator: string) => (separator === '\t' ? 'tab' : separator);
+
+/**
+ * The separator a header read as one column seems to use instead of the one it was split with: a
+ * delimiter the mapping forces, or one no table is read with ('|').
+ */
+function otherSeparator(header: string, delimiter: string): string | undefined {
+  const s = [',', ';', '\t', '|'].find((c) => c !== delimiter && header.includes(c));
+  return s && shown(s);
+}
+
 /**
  * The layout of a table with this header under the mapping (or none: the import format's own names).
  * A mapped field wins over a column that happens to bear the signal's name; a signal not mapped is read
@@ -108,12 +119,19 @@ export function tableLayout(
   }
   const trip = column(map?.trip?.field ?? 'trip');
   problems.push(...repeatedColumns(header, names, [numeric, vehicle, trip].flat()));
+  const other = names.length === 1 ? otherSeparator(names[0]!, dialect.delimiter) : undefined;
   if (missing.length)
     problems.push({
       where: header,
-      rule: `missing column(s) ${missing.join(', ')}; header has: ${names.join(', ') || '(nothing)'}${
-        map ? '' : ". A logger's own names and units: see --map"
-      }`,
+      rule: other
+        ? `the header has one column: is the separator '${other}'? ${
+            map?.delimiter
+              ? `The mapping sets delimiter '${shown(dialect.delimiter)}': change or remove it`
+              : "Tables are read separated by ',', ';' or tab"
+          }`
+        : `missing column(s) ${missing.join(', ')}; header has: ${names.join(', ') || '(nothing)'}${
+            map ? '' : ". A logger's own names and units: see --map"
+          }`,
     });
   if (problems.length)
     throw new InputError(problems, `${where} cannot be read${map ? ' with the mapping' : ''}`);
