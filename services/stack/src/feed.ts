@@ -22,11 +22,15 @@ export async function* historyFeed(
     n++;
     // Let the broker, the ingester and the analyzer in this process run between chunks of generation.
     if ((n & 1023) === 0) await new Promise((r) => setImmediate(r));
-    if ((n & 4095) === 0)
+    if ((n & 4095) === 0) {
+      const f = (s.time_ms - from_ms) / (cut_ms - from_ms);
+      // The total is estimated from the share of the history's time already fed.
+      const total = f > 0.01 ? ` of about ${(Math.round(n / f / 1e5) / 10).toLocaleString('en-US')} M` : '';
       bar.update(
-        (s.time_ms - from_ms) / (cut_ms - from_ms),
-        `${n.toLocaleString('en-US')} samples, ${new Date(s.time_ms).toISOString().slice(0, 10)}`,
+        f,
+        `${n.toLocaleString('en-US')}${total} samples, ${new Date(s.time_ms).toISOString().slice(0, 10)}`,
       );
+    }
     yield s;
   }
   bar.done(`${n.toLocaleString('en-US')} samples`);

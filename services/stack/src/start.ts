@@ -8,10 +8,12 @@ import { serveApi } from '@thermargin/api/start';
 import { wireApi } from '@thermargin/api/wiring';
 import { createScenario, publishScenario } from '@thermargin/simulator';
 import { framesFleet } from '@thermargin/simulator/frames';
-import { FAULT_WORDS, faultKind, parseFleetText, type Sample, SAFETY_CAUTION } from '@thermargin/shared';
+import { FAULT_WORDS, faultKind, parseFleetText, type Sample, safetyCaution } from '@thermargin/shared';
 import type { Logger } from '@thermargin/shared/log';
 import { brokerUsers, INGESTER_USER, loadDemoState } from './demo-state.ts';
 import { historyFeed, liveFeed } from './feed.ts';
+import { analysisCaughtUp } from './catch-up-report.ts';
+import { roughDuration } from './progress-bar.ts';
 import { readStackConfig } from './stack-config.ts';
 import { ensureWebBuilt } from './web-build.ts';
 
@@ -159,13 +161,16 @@ async function main(): Promise<void> {
       await new Promise((r) => setTimeout(r, 500));
     const samples = (await store.listVehicles()).reduce((n, v) => n + v.count, 0);
     log(
-      `\nhistory back-filled in ${((Date.now() - t0) / 1000).toFixed(0)} s (${samples.toLocaleString('en-US')} samples stored); the fleet drives on live.`,
+      `\nhistory back-filled in ${roughDuration(Date.now() - t0)}: ${samples.toLocaleString('en-US')} samples stored; the fleet drives on live.`,
     );
     api.analyzer?.poke();
     log(`\ndashboard:  ${api.url}/\nAPI token:  ${state.api_token}   (role admin; sign in with it)\n`);
     log(
-      `ingest metrics: http://127.0.0.1:${ingester.metrics_port}/metrics\n\n${SAFETY_CAUTION}\n\nCtrl-C stops.`,
+      `ingest metrics: http://127.0.0.1:${ingester.metrics_port}/metrics\n\n${safetyCaution(scenario.fleet.vehicles.map((v) => v.powertrain))}\n`,
     );
+    if (api.analyzer)
+      await analysisCaughtUp(api.analyzer, pieces.results, scenario.history.from_ms, Date.now(), stop.signal);
+    log('Ctrl-C stops.');
   };
   const publish = (samples: AsyncIterable<Sample>) =>
     publishScenario(null, scenario, {
