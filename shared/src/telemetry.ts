@@ -110,5 +110,7 @@ export const REJECT_REASONS = [
   'frame_layout', // a frames payload that cannot be read (from where it breaks on: truncated, garbled)
   'dlc_mismatch', // CAN frames whose data length does not fit their PGN
   'clock_back', // CAN frames earlier than the frame before them
+  'broker_login', // the broker refused the connection: wrong user name or password
+  'broker_denied', // the broker refused a publish or subscribe outside the client's topics
 ] as const;
 export type RejectReason = (typeof REJECT_REASONS)[number];

@@ -47,6 +47,8 @@ const REFUSAL_WORD: Record<RejectReason, string> = {
   frame_layout: 'frames unreadable',
   dlc_mismatch: 'frame length wrong',
   clock_back: 'clock went back',
+  broker_login: 'broker: wrong login',
+  broker_denied: 'broker: topic not allowed',
 };
 /** Signals as the screening's words name them. */
 const SIGNAL_WORD: Record<string, string> = {

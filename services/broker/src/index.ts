@@ -26,6 +26,19 @@ export interface EmbeddedBrokerOptions {
   /** 0 picks a free port. */
   port?: number;
   host?: string;
+  /** Told of each refusal, so the tool can count it (per client id and reason) and show it. */
+  onRefused?: (r: BrokerRefusal) => void;
+}
+
+/** A connection, publish or subscribe the broker refused. */
+export interface BrokerRefusal {
+  time_ms: number;
+  client_id: string;
+  /** The user name given, '' without one. */
+  username: string;
+  reason: 'broker_login' | 'broker_denied';
+  topic: string;
+  detail: string;
 }
 
 const IDENTIFIER_REJECTED = 2;
@@ -45,15 +58,28 @@ export async function startEmbeddedBroker(options: EmbeddedBrokerOptions): Promi
   const users = new Map(options.users.map((u) => [u.username, u]));
   const roleOf = new WeakMap<object, BrokerUser>();
   const isVehicle = (name: string) => users.get(name)?.role === 'vehicle';
+  const refused = (
+    client_id: string,
+    username: string,
+    reason: BrokerRefusal['reason'],
+    topic: string,
+    detail: string,
+  ) => options.onRefused?.({ time_ms: Date.now(), client_id, username, reason, topic, detail });
+  const denied = (client: { id: string } | null, topic: string, detail: string) =>
+    refused(client?.id ?? '', (client && roleOf.get(client)?.username) ?? '', 'broker_denied', topic, detail);
   const broker = new Aedes({
     authenticate(client, username, password, done) {
       const user = username === undefined ? undefined : users.get(username);
       if (!user || !samePassword(user.password, password)) {
+        const detail = user ? 'wrong password' : `no user ${JSON.stringify(username ?? '')}`;
+        refused(client.id, username ?? '', 'broker_login', '', detail);
         return done(authError(BAD_CREDENTIALS, 'bad user name or password'), false);
       }
       const id = boundClientId(user, client.id, isVehicle);
-      if (id === undefined)
+      if (id === undefined) {
+        refused(client.id, user.username, 'broker_login', '', `client id ${client.id} is a vehicle's`);
         return done(authError(IDENTIFIER_REJECTED, `client id ${client.id} is a vehicle's`), false);
+      }
       // Set before aedes registers the client (and closes any other with the same id).
       (client as { id: string }).id = id;
       roleOf.set(client, user);
@@ -61,8 +87,10 @@ export async function startEmbeddedBroker(options: EmbeddedBrokerOptions): Promi
     },
     authorizePublish(client, packet, done) {
       const user = client ? roleOf.get(client) : undefined;
-      if (!client || !user || !canPublish(user, packet.topic))
+      if (!client || !user || !canPublish(user, packet.topic)) {
+        denied(client, packet.topic, 'publish outside its topics');
         return done(authError(NOT_AUTHORIZED, `publish to ${packet.topic} denied`));
+      }
       if (packet.qos === 0) return done(null);
       acks.relay(client, packet).then(
         () => {
@@ -77,6 +105,7 @@ export async function startEmbeddedBroker(options: EmbeddedBrokerOptions): Promi
     authorizeSubscribe(client, subscription, done) {
       const user = roleOf.get(client);
       if (user && canSubscribe(user, subscription.topic)) return done(null, subscription);
+      denied(client, subscription.topic, 'subscribe outside its topics');
       done(authError(NOT_AUTHORIZED, `subscribe to ${subscription.topic} denied`), null);
     },
   });

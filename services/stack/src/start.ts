@@ -12,6 +12,7 @@ import { FAULT_WORDS, faultKind, parseFleetText, type Sample, safetyCaution } fr
 import type { Logger } from '@thermargin/shared/log';
 import { brokerUsers, INGESTER_USER, loadDemoState } from './demo-state.ts';
 import { historyFeed, liveFeed } from './feed.ts';
+import { brokerRefusals } from './broker-refusals.ts';
 import { analysisCaughtUp } from './catch-up-report.ts';
 import { roughDuration } from './progress-bar.ts';
 import { readStackConfig } from './stack-config.ts';
@@ -91,8 +92,14 @@ async function main(): Promise<void> {
   );
 
   let broker: EmbeddedBroker | undefined;
+  const refusals = brokerRefusals(new Set(scenario.fleet.vehicles.map((v) => v.id)));
   if (!cfg.env.INGEST_MQTT_URL)
-    broker = await startEmbeddedBroker({ users, port: cfg.broker_port, host: '127.0.0.1' });
+    broker = await startEmbeddedBroker({
+      users,
+      port: cfg.broker_port,
+      host: '127.0.0.1',
+      onRefused: refusals.onRefused,
+    });
   const env: Record<string, string | undefined> = {
     STORE_KIND: 'sqlite',
     STORE_SQLITE_PATH: join(data, 'samples.db'),
@@ -123,6 +130,7 @@ async function main(): Promise<void> {
   // The API's pieces, built as `startApi` builds them; the ingester writes to the same sample store.
   const pieces = wireApi(apiCfg, { clock: Date.now, log: serviceLog });
   const store = pieces.samples;
+  refusals.writeTo(store);
   const known = new Set(scenario.fleet.vehicles.map((v) => v.id));
   const ingester = createIngester(ingestCfg, {
     store,
@@ -142,6 +150,7 @@ async function main(): Promise<void> {
       stop.abort();
       await feeding.catch(() => {});
       await ingester.stop();
+      await refusals.close();
       await api.close();
       await broker?.close();
       log('stopped; data kept in ' + data);

@@ -1,5 +1,5 @@
 import { join } from 'node:path';
-import { type EmbeddedBroker, startEmbeddedBroker } from '@thermargin/broker';
+import { type BrokerRefusal, type EmbeddedBroker, startEmbeddedBroker } from '@thermargin/broker';
 import { ENV } from '@thermargin/ingester/config';
 import { sampleTopic } from '@thermargin/shared';
 import { createSqliteStore } from '@thermargin/store';
@@ -22,8 +22,9 @@ const IDS = ['bus-01', 'bus-02'];
 const T0 = Date.UTC(2025, 6, 1);
 const dir = tempDir('embedded');
 let broker: EmbeddedBroker;
+const refusals: BrokerRefusal[] = [];
 beforeAll(async () => {
-  broker = await startEmbeddedBroker({ users: fleetUsers(IDS) });
+  broker = await startEmbeddedBroker({ users: fleetUsers(IDS), onRefused: (r) => refusals.push(r) });
 });
 afterAll(async () => {
   await broker?.close();
@@ -38,6 +39,13 @@ describe('embedded broker (aedes, MQTT 3.1.1) with the same auth and ACL', () =>
         { reconnectPeriod: 0 },
       ),
     ).rejects.toThrow();
+    // The tool is told, with the client id and the reason, not only the broker's log.
+    expect(refusals.at(-1)).toMatchObject({
+      username: 'bus-01',
+      reason: 'broker_login',
+      detail: 'wrong password',
+    });
+    expect(refusals.at(-1)!.client_id).not.toBe('');
   });
 
   it("carries a stream to the ingester (protocol 4, plain subscription) exactly once; another vehicle's topic is refused", async () => {
@@ -58,6 +66,11 @@ describe('embedded broker (aedes, MQTT 3.1.1) with the same auth and ACL', () =>
     intruder.publish(sampleTopic('bus-02'), JSON.stringify(sample), { qos: 1 });
     await new Promise((r) => setTimeout(r, 300));
     intruder.end(true);
+    expect(refusals.at(-1)).toMatchObject({
+      username: 'bus-01',
+      reason: 'broker_denied',
+      topic: sampleTopic('bus-02'),
+    });
 
     const stream = fleetStream(IDS, 1000);
     await publishStream(broker.url, stream, 50, undefined, 4);
