@@ -327,7 +327,7 @@ describe('dashboard in a real browser against the running API', () => {
     expect(await page.locator('dt', { hasText: /^Analysed since \d{4}-\d\d-\d\d/ }).count()).toBe(1);
     expect(await text(page, '[data-fig="since-start"]')).toMatch(/^[\d,]+ trips · [\d,]+ samples$/);
     // Screening codes read as words.
-    expect(await page.locator('[data-table="rejected"] thead').innerText()).not.toMatch(/_/);
+    expect(await text(page, '[data-table="rejected"] thead')).not.toMatch(/_/);
     await screenshot(page, '6-refused-data');
     await page.close();
   });
