@@ -256,7 +256,7 @@ export const sizingResponseSchema = z.object({
   computed_at: z.string(),
   /** Stored trips whose samples are gone (retention): in the trip figures, not the sample ones. */
   trips_without_samples: z.number().int(),
-  /** Exactly what `thermargin sizing` writes for the same fleet file and samples. */
+  /** Exactly the figures `thermargin sizing` writes for the same fleet file and samples (its caution and design note are the fields beside this one). */
   sizing: sizingResultSchema,
   safety_caution: z.string(),
   /** Field figures support, and never replace, validation testing and engineering sign-off. */
