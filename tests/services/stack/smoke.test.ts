@@ -7,7 +7,11 @@ describe('npm start on the embedded defaults', () => {
     const stack = await runStack(SMOKE_DEMO);
     try {
       const fleet = await analysed(stack);
-      expect(stack.log()).toMatch(/history back-filled in \d+ s/);
+      expect(stack.log()).toMatch(/history back-filled in \d+ (s|min): [\d,]+ samples stored/);
+      // The start-up output says when the analysis has caught up, with its totals.
+      await expect
+        .poll(() => stack.log(), { timeout: 300_000, interval: 1000 })
+        .toMatch(/analysis \[#+\] 100 % [\d,]+ trips of \d+ vehicles in \d+ (s|min)\nanalysis caught up in/);
       expectDemoFindings(fleet);
       // Every third vehicle's logger sends frames: the fan-fault bus and the truck among 6.
       const frames = await stack.get<FramesResponse>('/api/intake/frames');
