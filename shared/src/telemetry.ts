@@ -114,3 +114,18 @@ export const REJECT_REASONS = [
   'broker_denied', // the broker refused a publish or subscribe outside the client's topics
 ] as const;
 export type RejectReason = (typeof REJECT_REASONS)[number];
+
+/**
+ * A connection or publish a broker refused, as the tool records it: from the embedded broker's hooks
+ * or read from Mosquitto's log.
+ */
+export interface BrokerRefusal {
+  time_ms: number;
+  /** '' when the broker did not name one (Mosquitto names none for a refused login). */
+  client_id: string;
+  /** The user name given, '' when unknown. */
+  username: string;
+  reason: 'broker_login' | 'broker_denied';
+  topic: string;
+  detail: string;
+}

@@ -1,10 +1,12 @@
 import { timingSafeEqual } from 'node:crypto';
 import { type AddressInfo, createServer } from 'node:net';
 import { Aedes } from 'aedes';
+import type { BrokerRefusal } from '@thermargin/shared';
 import { type BrokerUser, boundClientId, canPublish, canSubscribe } from './acl.ts';
 import { StoredAcks, VOID_TOPIC } from './stored-ack.ts';
 
 export * from './acl.ts';
+export type { BrokerRefusal } from '@thermargin/shared';
 
 /**
  * The embedded broker for a zero-setup single machine: aedes with the same authentication, ACL and
@@ -28,17 +30,6 @@ export interface EmbeddedBrokerOptions {
   host?: string;
   /** Told of each refusal, so the tool can count it (per client id and reason) and show it. */
   onRefused?: (r: BrokerRefusal) => void;
-}
-
-/** A connection, publish or subscribe the broker refused. */
-export interface BrokerRefusal {
-  time_ms: number;
-  client_id: string;
-  /** The user name given, '' without one. */
-  username: string;
-  reason: 'broker_login' | 'broker_denied';
-  topic: string;
-  detail: string;
 }
 
 const IDENTIFIER_REJECTED = 2;

@@ -34,6 +34,7 @@ export const ENV = {
   SPOOL_MAX_BYTES: 'INGEST_SPOOL_MAX_BYTES',
   METRICS_PORT: 'INGEST_METRICS_PORT',
   METRICS_HOST: 'INGEST_METRICS_HOST',
+  BROKER_LOG: 'INGEST_BROKER_LOG',
 } as const;
 
 export interface IngesterConfig {
@@ -62,6 +63,11 @@ export interface IngesterConfig {
   /** -1: no metrics server; 0: any free port. */
   metrics_port: number;
   metrics_host: string;
+  /**
+   * Mosquitto's log file, followed for the logins and publishes it refused (recorded as refused
+   * messages); '' when not followed. One replica only, or each refusal is counted once per replica.
+   */
+  broker_log: string;
   store: StoreConfig;
 }
 
@@ -91,6 +97,7 @@ export function readIngesterConfig(env: Env = process.env): IngesterConfig {
     spool_max_bytes: int(ENV.SPOOL_MAX_BYTES, 1024 ** 3, 1),
     metrics_port: int(ENV.METRICS_PORT, 9464, -1),
     metrics_host: str(ENV.METRICS_HOST, '127.0.0.1'),
+    broker_log: env[ENV.BROKER_LOG] ?? '',
     store,
   };
   if (config.mqtt.protocol === 4 && config.mqtt.share_group) {

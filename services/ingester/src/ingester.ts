@@ -8,10 +8,12 @@ import {
 import type { Logger } from '@thermargin/shared/log';
 import type { SampleStore } from '@thermargin/store';
 import mqtt, { type IClientOptions, type MqttClient } from 'mqtt';
+import { brokerRefusals } from './broker-refusals.ts';
 import type { IngesterConfig } from './config.ts';
 import { DecodePool } from './decode-pool.ts';
 import { type Decoded, safeDecode } from './decode.ts';
 import { IngestMetrics, serverPort, startMetricsServer } from './metrics.ts';
+import { followMosquittoLog } from './mosquitto-log.ts';
 import { PIPELINE_DEFAULTS, Pipeline } from './pipeline.ts';
 import { Spool } from './spool.ts';
 import { type VehicleMapSpec, vehicleReadings } from './vehicle-readings.ts';
@@ -101,6 +103,9 @@ export function createIngester(config: IngesterConfig, deps: IngesterDeps): Inge
   const clients: MqttClient[] = [];
   let stopping = false;
   let server: Server | undefined;
+  let brokerLog:
+    | { refusals: ReturnType<typeof brokerRefusals>; follower: ReturnType<typeof followMosquittoLog> }
+    | undefined;
 
   function connectOne(index: number): Promise<void> {
     const m = config.mqtt;
@@ -189,6 +194,11 @@ export function createIngester(config: IngesterConfig, deps: IngesterDeps): Inge
     async start() {
       if (config.metrics_port >= 0)
         server = await startMetricsServer(metrics, config.metrics_port, config.metrics_host);
+      if (config.broker_log) {
+        const refusals = brokerRefusals(deps.known_vehicles);
+        refusals.writeTo(deps.store);
+        brokerLog = { refusals, follower: followMosquittoLog(config.broker_log, refusals.onRefused) };
+      }
       await Promise.all(Array.from({ length: config.mqtt.connections }, (_, i) => connectOne(i)));
       log('ingester_started', {
         filter: filters.join(' '),
@@ -203,6 +213,8 @@ export function createIngester(config: IngesterConfig, deps: IngesterDeps): Inge
       pipeline.close();
       await pool?.close();
       await Promise.all(clients.map(endClient));
+      await brokerLog?.follower.close();
+      await brokerLog?.refusals.close();
       if (server) await new Promise<void>((resolve) => server!.close(() => resolve()));
       log('ingester_stopped', { acked: metrics.messages_acked, spool_segments: spool.segments });
     },

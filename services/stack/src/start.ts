@@ -1,6 +1,7 @@
 import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { startEmbeddedBroker, type EmbeddedBroker } from '@thermargin/broker';
+import { brokerRefusals } from '@thermargin/ingester/broker-refusals';
 import { createIngester, readIngesterConfig } from '@thermargin/ingester';
 import { vehicleMapSpecs } from '@thermargin/ingester/vehicle-readings';
 import { readApiConfig } from '@thermargin/api/config';
@@ -12,7 +13,6 @@ import { FAULT_WORDS, faultKind, parseFleetText, type Sample, safetyCaution } fr
 import type { Logger } from '@thermargin/shared/log';
 import { brokerUsers, INGESTER_USER, loadDemoState } from './demo-state.ts';
 import { historyFeed, liveFeed } from './feed.ts';
-import { brokerRefusals } from './broker-refusals.ts';
 import { analysisCaughtUp } from './catch-up-report.ts';
 import { roughDuration } from './progress-bar.ts';
 import { readStackConfig } from './stack-config.ts';

@@ -126,5 +126,11 @@ describe('embedded broker (aedes, MQTT 3.1.1) with the same auth and ACL', () =>
     await expect(
       connectAs(broker.url, 'ingester', { clientId: 'bus-01', protocolVersion: 4, reconnectPeriod: 0 }),
     ).rejects.toThrow(/identifier rejected|client id/i);
+    expect(refusals.at(-1)).toMatchObject({
+      client_id: 'bus-01',
+      username: 'ingester',
+      reason: 'broker_login',
+      detail: "client id bus-01 is a vehicle's",
+    });
   });
 });

@@ -63,6 +63,20 @@ describe('docker-compose.yml', () => {
     }
     expect(ids.size).toBe(2); // distinct persistent sessions in one share group
   });
+
+  it("lets one ingester read Mosquitto's log file, where the broker says what it refused", () => {
+    const conf = readFileSync('config/mosquitto/mosquitto.conf', 'utf8');
+    const file = /^log_dest file (\/mosquitto\/log\/\S+)$/m.exec(conf)?.[1];
+    expect(file).toBeDefined();
+    for (const type of ['notice', 'debug']) expect(conf).toMatch(new RegExp(`^log_type ${type}$`, 'm'));
+    expect(compose.services.mosquitto!.volumes).toContain('mosquitto-log:/mosquitto/log');
+    // One follower: every replica following it would count each refusal once per replica.
+    const followers = ingesters.filter(([, s]) => readIngesterConfig(s.environment!).broker_log);
+    expect(followers).toHaveLength(1);
+    const [, follower] = followers[0]!;
+    const mount = follower.volumes!.find((v) => v.startsWith('mosquitto-log:'))!.split(':')[1]!;
+    expect(readIngesterConfig(follower.environment!).broker_log).toBe(file!.replace('/mosquitto/log', mount));
+  });
 });
 
 describe('readIngesterConfig', () => {

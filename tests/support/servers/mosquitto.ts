@@ -1,5 +1,5 @@
 import { execFileSync } from 'node:child_process';
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { connect } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -17,6 +17,8 @@ export interface MosquittoServer {
   port: number;
   /** The ingesters' listener. */
   ingester_url: string;
+  /** The broker's own log (the shipped config's file), where it says what it refused. */
+  log_file: string;
   dir: string;
   process: ServerProcess;
   close(): Promise<void>;
@@ -52,7 +54,8 @@ async function startOnFreshPort(users: readonly BrokerUser[]): Promise<Mosquitto
     .replace(/^listener 1884$/m, `listener ${ingesterPort} 127.0.0.1`)
     .replaceAll('/mosquitto/config/', `${dir}/`)
     .replaceAll('/mosquitto/data/', `${dir}/`)
-    .replace(/^log_dest stdout$/m, 'log_dest stderr');
+    .replaceAll('/mosquitto/log/', `${dir}/log/`);
+  mkdirSync(join(dir, 'log'));
   // Started as root, Mosquitto switches to its own user, which cannot read this private temp dir. The
   // tests publish faster than a vehicle: no cap on QoS 1 messages in flight per client.
   const runAsRoot = process.getuid?.() === 0;
@@ -76,6 +79,7 @@ async function startOnFreshPort(users: readonly BrokerUser[]): Promise<Mosquitto
     url: `mqtt://127.0.0.1:${port}`,
     port,
     ingester_url: `mqtt://127.0.0.1:${ingesterPort}`,
+    log_file: join(dir, 'log/mosquitto.log'),
     dir,
     process: proc,
     async close() {
