@@ -11,11 +11,16 @@ function newest(dir: string): number {
   return t;
 }
 
-/** Builds the dashboard with Vite when web/dist is missing or older than web/src, so `npm start` needs no build step. */
+/**
+ * Builds the dashboard with Vite when web/dist is missing or older than web/src or web/index.html, so
+ * `npm start` needs no build step.
+ */
 export function ensureWebBuilt(root: string, log: (line: string) => void): void {
-  if (!existsSync(join(root, 'web/index.html'))) return;
+  const page = join(root, 'web/index.html');
+  if (!existsSync(page)) return;
   const built = join(root, 'web/dist/index.html');
-  if (existsSync(built) && statSync(built).mtimeMs >= newest(join(root, 'web/src'))) return;
+  const source = Math.max(newest(join(root, 'web/src')), statSync(page).mtimeMs);
+  if (existsSync(built) && statSync(built).mtimeMs >= source) return;
   log('building the dashboard (vite build web) …');
   const vite = join(root, 'node_modules/vite/bin/vite.js');
   const r = spawnSync(process.execPath, [vite, 'build', join(root, 'web'), '--logLevel', 'warn'], {
