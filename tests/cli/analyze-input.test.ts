@@ -140,7 +140,7 @@ describe('thermargin analyze on bad input', () => {
   });
 
   it('answers --help of every command with its own usage and exit 0', () => {
-    for (const command of ['analyze', 'sizing', 'reanalyze']) {
+    for (const command of ['analyze', 'sizing', 'draft-map', 'reanalyze']) {
       const r = runCli([command, '--help']);
       expect(r.code, command).toBe(0);
       expect(r.stdout.startsWith(`thermargin ${command} `), command).toBe(true);
@@ -154,6 +154,13 @@ describe('thermargin analyze on bad input', () => {
     const [reason, blank, usage] = r.stderr.split('\n');
     expect(reason).toBe('thermargin analyze: --format: must be one of json, csv, text');
     expect([blank, usage]).toEqual(['', 'usage:']);
+    const d = runCli(['draft-map', '--rows', '0']);
+    expect(d.code).toBe(2);
+    expect(d.stderr.split('\n').slice(0, 3)).toEqual([
+      'thermargin draft-map: --data: required; --rows: must be an integer ≥ 1',
+      '',
+      'usage:',
+    ]);
   });
 
   it('answers an unknown command or option with usage and exit 2', () => {

@@ -11,6 +11,7 @@ import { type Draft, draftFramesMap, draftTableMap, type PgnSeen } from '@therma
 import { listDataFiles } from '../import/data-files.ts';
 import { splitCsvLine } from '../import/csv-reader.ts';
 import { MAX_LINE_USAGE, maxLineBytes } from '../fleet-data-args.ts';
+import { UsageError } from '../usage-error.ts';
 
 export const DRAFT_MAP_USAGE = `thermargin draft-map --data FILE [--out MAP.json] [--rows N] [--max-line-bytes N]
   Reads a logger's file and proposes a mapping file for --map: for a table, its delimiter, decimal mark,
@@ -91,13 +92,12 @@ export async function draftMapCommand(argv: string[], log: (line: string) => voi
   if (!values.data) problems.push({ where: '--data', rule: 'required' });
   if (!(Number.isInteger(rows) && rows >= 1))
     problems.push({ where: '--rows', rule: 'must be an integer ≥ 1' });
-  if (problems.length) throw new InputError(problems, `usage:\n${DRAFT_MAP_USAGE}\n`);
+  if (problems.length) throw new UsageError(problems);
   const { files } = listDataFiles(values.data!);
   if (files.length !== 1)
-    throw new InputError(
-      [{ where: values.data!, rule: 'give one file (a folder holds several)' }],
-      `usage:\n${DRAFT_MAP_USAGE}\n`,
-    );
+    throw new UsageError([
+      { where: '--data', rule: `${values.data} holds ${files.length} data files: give one of them` },
+    ]);
   const file = files[0]!;
   const draft =
     file.kind === 'candump' ? draftFrames(file.path, maxLine) : draftTable(file.path, rows, maxLine);
