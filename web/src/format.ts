@@ -44,9 +44,9 @@ const REFUSAL_WORD: Record<RejectReason, string> = {
   vehicle_mismatch: 'vehicle ≠ topic',
   topic: 'not a vehicle topic',
   oversize: 'too large',
-  frame_layout: 'frames unreadable',
-  dlc_mismatch: 'frame length wrong',
-  clock_back: 'clock went back',
+  frame_layout: 'CAN frames unreadable',
+  dlc_mismatch: 'frame length wrong for its PGN',
+  clock_back: 'logger clock went back',
   broker_login: 'broker: wrong login',
   broker_denied: 'broker: topic not allowed',
 };

@@ -1,6 +1,6 @@
 import type { FittedFigure } from '@thermargin/shared';
 import type { SizingResultView } from '@thermargin/shared/sizing-api';
-import { num } from '../format.ts';
+import { BAND_WORD, num } from '../format.ts';
 import { href } from '../state/place.ts';
 import { TableHead } from './TableHead.tsx';
 
@@ -38,8 +38,8 @@ export function AirsideTable({ s }: { s: SizingResultView }) {
           <TableHead
             text={['Vehicle']}
             figures={[
-              'Exponent, ram band',
-              'Exponent, fan band',
+              `Exponent, ${BAND_WORD.ram}`,
+              `Exponent, ${BAND_WORD.fan}`,
               'Ram face-velocity ratio',
               'Fan face velocity',
               'Windows / trips',

@@ -164,7 +164,7 @@ function Letters({ d, filter, all }: { d: DeadLettersResponse; filter: LetterFil
 
 /** Per vehicle sending CAN frames: what its frames held (counts over every frames message stored). */
 function Frames({ f }: { f: FramesResponse }) {
-  if (!f.vehicles.length) return <Empty>No vehicle sends CAN frames: all intake is samples.</Empty>;
+  if (!f.vehicles.length) return <Empty>No vehicle sends CAN frames: every vehicle sends samples.</Empty>;
   const pct = (n: number, of: number) => (of ? ` (${((100 * n) / of).toFixed(1)} %)` : '');
   return (
     <div class="table-wrap">

@@ -166,8 +166,8 @@ ${barChart(
   '%/month',
   r.vehicles.map((v) => v.id),
   [
-    { name: 'ram band', values: ram },
-    { name: 'fan band', values: fan },
+    { name: 'ram air', values: ram },
+    { name: 'fan at standstill', values: fan },
   ],
 )}
 ${table(['vehicle', 'band', 'intervals fitted', 'loss %/month', 'loss %/1000 km', 'clean k', 'inspect at k ÷ clean', 'days to inspection', 'km to inspection', 'allowance', 'not fouling'], rows)}
@@ -216,7 +216,7 @@ ${barChart(
   dt.rows.map((x) => x.powertrain),
   [{ name: 'required area', values: dt.rows.map((x) => x.required_area_m2) }],
 )}
-${table(['drivetrain', 'efficiency', 'energy in kW', 'heat to coolant kW', 'limit °C', 'ITD K', 'required m²', '× engine'], dRows)}`;
+${table(['drivetrain', 'efficiency', 'energy in kW', 'heat to coolant kW', 'limit °C', 'ITD K', 'required m²', 'area against combustion'], dRows)}`;
 }
 
 function whatIf(r: SizingResult): string {
@@ -268,7 +268,7 @@ function airside(r: SizingResult): string {
   });
   return `<h2>Air side learned per vehicle</h2>
 <p>How k follows face velocity (k ∝ v_face^n) and how face velocity follows road speed and fan duty, fitted per vehicle to the variation of k within its trips (95 % interval in brackets), else the fleet file's figure or the default. Defaults: exponent ${d.velocity_exponent}, ram face-velocity ratio ${d.ram_face_ratio}, fan face velocity ${d.fan_face_velocity_ms} m/s. Only the ratio of ram to fan face velocity shows in k, so the fan face velocity stays the fleet file's or the default.</p>
-${table(['vehicle', 'exponent, ram band', 'exponent, fan band', 'ram face-velocity ratio', 'fan face velocity m/s', 'windows / trips', 'notes'], rows)}`;
+${table(['vehicle', 'exponent, ram air', 'exponent, fan at standstill', 'ram face-velocity ratio', 'fan face velocity m/s', 'windows / trips', 'notes'], rows)}`;
 }
 
 function method(r: SizingResult): string {
