@@ -17,9 +17,9 @@ export interface WebStackOptions {
   seed?: number;
   /** Vehicles whose samples are written only by `release()` (a live change to watch). */
   hold_back?: string[];
-  /** Refused messages to put in the store's dead letters (the data-quality screen's input). */
+  /** Refused messages to put in the store's dead letters (the refused-data screen's input). */
   dead_letters?: Omit<DeadLetter, 'received_ms' | 'topic' | 'excerpt' | 'payload_bytes'>[];
-  /** Frame tallies to put in the store (the intake screen's frames table). */
+  /** Frame tallies to put in the store (the refused-data screen's frames table). */
   frame_tallies?: FrameTally[];
 }
 
