@@ -31,6 +31,8 @@ export class ServerProcess {
     private readonly log_path: string,
     private readonly port: number,
     private readonly ready: () => Promise<void>,
+    /** Run as this user and group (a server that refuses to run as root, e.g. PostgreSQL). */
+    private readonly user?: { uid: number; gid: number },
   ) {}
 
   get running(): boolean {
@@ -45,7 +47,7 @@ export class ServerProcess {
   async start(): Promise<void> {
     if (this.child) return;
     const log = createWriteStream(this.log_path, { flags: 'a' });
-    const child = spawn(this.command, this.args, { stdio: ['ignore', 'pipe', 'pipe'] });
+    const child = spawn(this.command, this.args, { stdio: ['ignore', 'pipe', 'pipe'], ...this.user });
     child.stdout?.pipe(log);
     child.stderr?.pipe(log);
     this.child = child;
