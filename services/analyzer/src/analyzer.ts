@@ -1,7 +1,7 @@
 import type { MaintenanceEntry, Status, TripResult } from '@thermargin/shared';
 import type { Logger } from '@thermargin/shared/log';
 import { isStorageError, type LateMark, type SampleStore, storeFault } from '@thermargin/store';
-import type { AnalysisStore } from '@thermargin/store/sqlite-analysis-store';
+import type { AnalysisStore } from '@thermargin/store/analysis';
 import { tripGoingOn } from '@thermargin/core/trip/split';
 import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
 import { type AnalysisProgress, assessAndCommit, noProgress } from '@thermargin/usecases/commit';
@@ -14,7 +14,7 @@ export interface AnalyzerDeps {
   /** The fleet file's vehicles by id; called on every run, so a reload takes effect at the next one. */
   fleet: () => ReadonlyMap<string, VehicleModel>;
   /** Maintenance entries recorded beside the fleet file (the API's), per vehicle. */
-  extraMaintenance?: (vehicle: string) => MaintenanceEntry[];
+  extraMaintenance?: (vehicle: string) => Promise<MaintenanceEntry[]>;
   /** ms since epoch; injected so tests control "no samples for 5 minutes". */
   clock?: () => number;
   log?: Logger;
@@ -79,7 +79,7 @@ export function createAnalyzer(deps: AnalyzerDeps, options: Partial<AnalyzerOpti
   const o = { ...ANALYZER_DEFAULTS, ...options };
   const clock = deps.clock ?? Date.now;
   const log = deps.log ?? (() => {});
-  const extra = deps.extraMaintenance ?? (() => []);
+  const extra = deps.extraMaintenance ?? (async () => []);
   const stats: AnalyzerStats = {
     running: false,
     polling: false,
@@ -97,7 +97,7 @@ export function createAnalyzer(deps: AnalyzerDeps, options: Partial<AnalyzerOpti
   let stopped = false;
 
   async function commit(model: VehicleModel, input: Parameters<typeof assessAndCommit>[3]) {
-    const out = await assessAndCommit(deps.results, model, extra(model.id), input, clock());
+    const out = await assessAndCommit(deps.results, model, await extra(model.id), input, clock());
     if (input.trips.length) deps.onTrips?.(model.id, input.trips);
     if (out.status !== out.status_before) deps.onStatus?.(model.id, out.status_before, out.status);
   }
@@ -114,7 +114,7 @@ export function createAnalyzer(deps: AnalyzerDeps, options: Partial<AnalyzerOpti
     for (const span of spans) {
       const model = fleet.get(span.vehicle);
       if (!model || (scope.vehicle !== undefined && span.vehicle !== scope.vehicle)) continue;
-      const prev = deps.results.readAnalysis(span.vehicle);
+      const prev = await deps.results.readAnalysis(span.vehicle);
       const mark = late.get(span.vehicle);
       // Late samples behind the watermark reopen the span from the trip they touch.
       const reopen = mark && prev && mark.from_ms < prev.analysed_to_ms ? mark.from_ms : undefined;

@@ -8,7 +8,7 @@ import {
   type RouteSpec,
 } from '@thermargin/shared/api-routes';
 import { isStorageError, storeFault } from '@thermargin/store';
-import type { Actor } from '@thermargin/store/sqlite-workflow';
+import type { Actor } from '@thermargin/store/workflow';
 import { getConnInfo } from '@hono/node-server/conninfo';
 import { type Context, Hono, type MiddlewareHandler } from 'hono';
 import { bodyLimit } from 'hono/body-limit';
@@ -164,7 +164,7 @@ export function createApi(deps: ApiDeps): Hono {
     let actor: Actor | undefined;
     if (auth !== undefined) {
       const m = /^Bearer\s+(\S+)$/i.exec(auth);
-      const t = m ? deps.tokens.verify(m[1]!) : undefined;
+      const t = m ? await deps.tokens.verify(m[1]!) : undefined;
       if (!t) {
         backoff.failed(address);
         throw new HttpError(401, 'unauthorized', 'the bearer token is not valid');

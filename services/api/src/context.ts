@@ -33,7 +33,9 @@ export class ApiContext {
     const model = this.model(id);
     const data = await this.reader.vehicle(id);
     const latest = (await this.reader.latest()).get(id);
-    const open = alertViews(id, data?.result, this.deps.workflow.alertActions(id)).filter(isOpenAlert).length;
+    const open = alertViews(id, data?.result, await this.deps.workflow.alertActions(id)).filter(
+      isOpenAlert,
+    ).length;
     return vehicleSummary(model, data, latest?.time_ms, open, this.clock());
   }
 }

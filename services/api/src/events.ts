@@ -59,7 +59,7 @@ export class EventHub {
 
   async poll(): Promise<void> {
     const { results } = this.x.deps;
-    for (const [vehicle, v] of results.versions()) {
+    for (const [vehicle, v] of await results.versions()) {
       if (this.versions.get(vehicle) === v) continue;
       this.versions.set(vehicle, v);
       const d = await this.x.reader.vehicle(vehicle);
@@ -133,7 +133,7 @@ export function eventRoutes(hub: EventHub, tokens: TokenRegistry): Handlers<'eve
             });
             clearTimeout(timer);
             wake = undefined;
-            revoked ||= !tokens.isListed(token.sha256);
+            revoked ||= !(await tokens.isListed(token.sha256));
             if (!queue.length && !stream.aborted && !revoked) await stream.write(': keep-alive\n\n');
           }
           if (revoked && !stream.aborted)

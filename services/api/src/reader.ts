@@ -1,6 +1,6 @@
 import { type Sample, withoutWindows } from '@thermargin/shared';
 import type { SampleStore, VehicleSpan } from '@thermargin/store';
-import type { AnalysisStore } from '@thermargin/store/sqlite-analysis-store';
+import type { AnalysisStore } from '@thermargin/store/analysis';
 import type { StoredAssessment, VehicleData } from './views.ts';
 
 /** A value recomputed at most every `ttl_ms`, one computation at a time. */
@@ -49,7 +49,7 @@ export class ResultReader {
     if (hit && hit.version === version) return hit;
     const [result, analysis] = [
       await this.results.readVehicleResult(vehicle),
-      this.results.readAnalysis(vehicle),
+      await this.results.readAnalysis(vehicle),
     ];
     if (!result || !analysis) return undefined;
     const data: VehicleData = {
@@ -65,13 +65,13 @@ export class ResultReader {
   }
 
   async vehicle(id: string): Promise<VehicleData | undefined> {
-    const v = this.results.version(id);
+    const v = await this.results.version(id);
     return v === undefined ? undefined : this.load(id, v);
   }
 
   async all(): Promise<Map<string, VehicleData>> {
     const out = new Map<string, VehicleData>();
-    for (const [id, v] of this.results.versions()) {
+    for (const [id, v] of await this.results.versions()) {
       const d = await this.load(id, v);
       if (d) out.set(id, d);
     }

@@ -6,7 +6,7 @@ import type {
   RouteQuery,
   RouteResponse,
 } from '@thermargin/shared/api-routes';
-import type { Actor } from '@thermargin/store/sqlite-workflow';
+import type { Actor } from '@thermargin/store/workflow';
 import type { Context } from 'hono';
 
 /** What a handler gets: path parameters, query and body validated by its route's schemas, and who asks. */

@@ -11,6 +11,7 @@ import {
   type VehicleResponse,
 } from '@thermargin/shared';
 import { storeFault } from '@thermargin/store';
+import type { AlertAction } from '@thermargin/store/workflow';
 import type { Context } from 'hono';
 import { utcDay } from '@thermargin/core/health/due';
 import { tripGoingOn } from '@thermargin/core/trip/split';
@@ -56,7 +57,7 @@ async function status(x: ApiContext): Promise<StatusResponse> {
     [error, fault] = [f.reason, f.kind];
   }
   const spans = up ? await x.reader.spans() : [];
-  const analyses = deps.results.readAnalyses();
+  const analyses = await deps.results.readAnalyses();
   const wm = new Map(analyses.map((a) => [a.vehicle, a.analysed_to_ms]));
   const last = spans.reduce((m, s) => Math.max(m, s.last_ms), Number.NEGATIVE_INFINITY);
   const letters = up ? (await deps.samples.countDeadLetters()).reduce((n, l) => n + l.count, 0) : 0;
@@ -108,6 +109,7 @@ function fleetPages(x: ApiContext): (c: Context) => Promise<Answer<FleetResponse
   return async (c) => {
     const all = await x.reader.all();
     const latest = await x.reader.latest();
+    const revision = await deps.workflow.revision();
     const fleetNow = deps.fleet.current().input;
     // The day counts too: an inspection date passes into overdue by it.
     const now = x.clock();
@@ -117,11 +119,11 @@ function fleetPages(x: ApiContext): (c: Context) => Promise<Answer<FleetResponse
       kept.key === key &&
       kept.latest === latest &&
       kept.fleet === fleetNow &&
-      kept.revision === deps.workflow.revision()
+      kept.revision === revision
     )
       return kept.page.respond(c);
-    const actions = new Map<string, ReturnType<typeof deps.workflow.allAlertActions>>();
-    for (const a of deps.workflow.allAlertActions())
+    const actions = new Map<string, AlertAction[]>();
+    for (const a of await deps.workflow.allAlertActions())
       actions.set(a.vehicle, [...(actions.get(a.vehicle) ?? []), a]);
     const counts = { ok: 0, watch: 0, inspect: 0, unassessed: 0 };
     const vehicles = [...deps.fleet.current().models.values()].map((m) => {
@@ -137,7 +139,7 @@ function fleetPages(x: ApiContext): (c: Context) => Promise<Answer<FleetResponse
       vehicles,
       safety_caution: safetyCaution(fleetNow.vehicles.map((v) => v.powertrain)),
     });
-    kept = { key, latest, fleet: fleetNow, revision: deps.workflow.revision(), page };
+    kept = { key, latest, fleet: fleetNow, revision, page };
     return page.respond(c);
   };
 }
@@ -160,11 +162,11 @@ function vehiclePages(x: ApiContext): (c: Context, id: string) => Promise<Answer
       fleetGen++;
     }
     const now = x.clock();
-    const key = `${data?.version}:${deps.workflow.revision()}:${latest?.time_ms}:${fleetGen}@${utcDay(now)}`;
+    const key = `${data?.version}:${await deps.workflow.revision()}:${latest?.time_ms}:${fleetGen}@${utcDay(now)}`;
     const hit = pages.get(id);
     if (hit?.key === key) return hit.page.respond(c);
     const config = fleetAt.vehicles.find((v) => v.id === id)!;
-    const alerts = alertViews(id, data?.result, deps.workflow.alertActions(id));
+    const alerts = alertViews(id, data?.result, await deps.workflow.alertActions(id));
     const page = JsonPage.of<VehicleResponse>({
       id,
       config,
@@ -174,7 +176,7 @@ function vehiclePages(x: ApiContext): (c: Context, id: string) => Promise<Answer
       candidates: data?.assessment.candidates ?? [],
       series: data?.assessment.series ?? null,
       alerts,
-      maintenance: maintenanceViews(model, deps.workflow.maintenance(id)),
+      maintenance: maintenanceViews(model, await deps.workflow.maintenance(id)),
       trips: data?.newest_first.slice(0, VEHICLE_RECENT_TRIPS) ?? [],
       trips_total: data?.result.trips.length ?? 0,
       safety_caution: safetyCaution([config.powertrain]),
@@ -219,7 +221,7 @@ async function rejected(x: ApiContext): Promise<RejectedResponse> {
     r.ingest[l.reason] = (r.ingest[l.reason] ?? 0) + l.count;
     r.total += l.count;
   }
-  for (const a of x.deps.results.readAnalyses()) {
+  for (const a of await x.deps.results.readAnalyses()) {
     for (const [reason, n] of Object.entries(a.rejected)) {
       const r = row(a.vehicle);
       r.cleaning[reason] = n;

@@ -5,7 +5,7 @@ import type {
   MaintenanceResponse,
 } from '@thermargin/shared';
 import { InputError } from '@thermargin/shared';
-import type { Actor } from '@thermargin/store/sqlite-workflow';
+import type { Actor } from '@thermargin/store/workflow';
 import { assessAndCommit } from '@thermargin/usecases/commit';
 import type { LoadedFleet } from '@thermargin/usecases/fleet-file';
 import type { ApiContext } from './context.ts';
@@ -37,15 +37,15 @@ export function writeRoutes(x: ApiContext): Handlers<WriteRoute> {
     replaceFleet: async ({ body, actor }) =>
       swapFleet(x, () => deps.fleet.replace(`${JSON.stringify(body, null, 2)}\n`), actor, 'fleet.replace'),
     tokens: async () => ({
-      tokens: deps.tokens.list().map(({ name, role, source }) => ({ name, role, source })),
+      tokens: (await deps.tokens.list()).map(({ name, role, source }) => ({ name, role, source })),
     }),
     createToken: async ({ body, actor }) => {
-      if (deps.tokens.list().some((t) => t.name === body.name))
+      if ((await deps.tokens.list()).some((t) => t.name === body.name))
         throw new HttpError(409, 'conflict', `a token named ${body.name} exists`);
       return {
         name: body.name,
         role: body.role,
-        token: deps.tokens.add(body.name, body.role, actor, x.clock()),
+        token: await deps.tokens.add(body.name, body.role, actor, x.clock()),
       };
     },
     revokeToken: async ({ params, actor }) => {
@@ -56,10 +56,10 @@ export function writeRoutes(x: ApiContext): Handlers<WriteRoute> {
           'conflict',
           `${name} is configured in the token file or env: remove it there`,
         );
-      if (!deps.tokens.revoke(name, actor, x.clock())) throw notFound(`token ${name}`);
+      if (!(await deps.tokens.revoke(name, actor, x.clock()))) throw notFound(`token ${name}`);
       return { removed: name };
     },
-    audit: async ({ query }) => ({ entries: deps.workflow.readAudit(query.limit) }),
+    audit: async ({ query }) => ({ entries: await deps.workflow.readAudit(query.limit) }),
   };
 }
 
@@ -74,15 +74,16 @@ async function alertAction(
 ): Promise<AlertView> {
   const { workflow } = x.deps;
   const data = await x.data(id);
-  const find = () => alertViews(id, data.result, workflow.alertActions(id)).find((a) => a.id === alertId);
-  const alert = find();
+  const find = async () =>
+    alertViews(id, data.result, await workflow.alertActions(id)).find((a) => a.id === alertId);
+  const alert = await find();
   if (!alert) throw notFound(`alert ${alertId} of vehicle ${id}`);
   if (alert.state === 'closed') throw new HttpError(409, 'conflict', `alert ${alert.id} is already closed`);
-  workflow.recordAlertAction(
+  await workflow.recordAlertAction(
     { vehicle: id, alert: alert.id, action, by: actor.by, at_ms: x.clock(), note },
     actor,
   );
-  return find()!;
+  return (await find())!;
 }
 
 /** Records a maintenance entry and re-assesses the vehicle's stored trips with it. */
@@ -94,9 +95,9 @@ async function logMaintenance(
 ): Promise<MaintenanceResponse> {
   const { deps } = x;
   const model = x.model(id);
-  const rec = deps.workflow.addMaintenance(id, { ...body, by: actor.by }, actor, x.clock());
-  if (deps.results.version(id) !== undefined) {
-    const extra = deps.workflow.maintenance(id).map((m) => m.entry);
+  const rec = await deps.workflow.addMaintenance(id, { ...body, by: actor.by }, actor, x.clock());
+  if ((await deps.results.version(id)) !== undefined) {
+    const extra = (await deps.workflow.maintenance(id)).map((m) => m.entry);
     await assessAndCommit(deps.results, model, extra, { trips: [] }, x.clock());
   }
   const entry = maintenanceViews(model, [rec]).find((m) => m.id === `api-${rec.id}`)!;
@@ -113,12 +114,12 @@ function changedVehicles(a: LoadedFleet, b: LoadedFleet): string[] {
 }
 
 /** Loads a new fleet (an invalid one is a 400 and changes nothing), re-analyses what changed, audits it. */
-function swapFleet(
+async function swapFleet(
   x: ApiContext,
   load: () => LoadedFleet,
   actor: Actor,
   action: string,
-): FleetReloadResponse {
+): Promise<FleetReloadResponse> {
   const { deps } = x;
   const before = deps.fleet.current();
   let after: LoadedFleet;
@@ -134,6 +135,6 @@ function swapFleet(
     deps.analyzer
       ?.reanalyze({ vehicle })
       .catch((e) => deps.log?.('reanalyze_failed', { vehicle, error: String(e) }));
-  deps.workflow.audit(actor, action, 'fleet', `changed: ${changed.join(', ') || 'none'}`, x.clock());
+  await deps.workflow.audit(actor, action, 'fleet', `changed: ${changed.join(', ') || 'none'}`, x.clock());
   return { vehicles: after.models.size, changed };
 }

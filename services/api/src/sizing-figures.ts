@@ -44,13 +44,13 @@ export class SizingCache {
     private readonly clock: () => number,
   ) {}
 
-  private key(): string {
+  private async key(): Promise<string> {
     const input = this.deps.fleet.current().input;
     if (input !== this.fleetAt) {
       this.fleetAt = input;
       this.fleetGen++;
     }
-    const versions = [...this.deps.results.versions()].sort(([a], [b]) => a.localeCompare(b));
+    const versions = [...(await this.deps.results.versions())].sort(([a], [b]) => a.localeCompare(b));
     return `${this.fleetGen}|${versions.map(([v, n]) => `${v}:${n}`).join(',')}`;
   }
 
@@ -70,7 +70,7 @@ export class SizingCache {
   private async computeFigures(): Promise<SizingFigures> {
     const models = this.deps.fleet.current().models;
     const vehicles = [...models.values()];
-    const versions = this.deps.results.versions();
+    const versions = await this.deps.results.versions();
     for (const id of this.parts.keys()) if (!models.has(id)) this.parts.delete(id);
     const parts: VehicleSizingInput[] = [];
     for (const v of vehicles) parts.push(await this.part(v, versions.get(v.id)));
@@ -90,8 +90,8 @@ export class SizingCache {
   }
 
   /** The figures with the default options: those `thermargin sizing` writes without options. */
-  get(): Promise<SizingFigures> {
-    const key = this.key();
+  async get(): Promise<SizingFigures> {
+    const key = await this.key();
     if (this.figures?.key !== key) {
       const value = this.computeFigures();
       value.catch(() => {
@@ -112,7 +112,7 @@ export class SizingCache {
     const same = (x: WhatIfScenario) =>
       x.ambient_rise_k === s.ambient_rise_k && x.limit_drop_k === s.limit_drop_k;
     if (figures.sizing.options.what_if.some(same)) return figures.sizing;
-    const key = this.key();
+    const key = await this.key();
     if (key !== this.whatIfKey) {
       this.whatIfKey = key;
       this.whatIfs.clear();

@@ -1,7 +1,7 @@
 import { createHash, randomBytes, timingSafeEqual } from 'node:crypto';
 import { readFileSync } from 'node:fs';
 import { API_ROLES, type ApiRole, isValidId } from '@thermargin/shared';
-import type { Actor, WorkflowStore } from '@thermargin/store/sqlite-workflow';
+import type { Actor, WorkflowStore } from '@thermargin/store/workflow';
 
 export interface TokenEntry {
   name: string;
@@ -57,18 +57,21 @@ export class TokenRegistry {
     private readonly workflow: WorkflowStore,
   ) {}
 
-  list(): TokenEntry[] {
-    const added = this.workflow
-      .tokens()
-      .map((t) => ({ name: t.name, role: t.role, sha256: t.sha256, source: 'api' as const }));
+  async list(): Promise<TokenEntry[]> {
+    const added = (await this.workflow.tokens()).map((t) => ({
+      name: t.name,
+      role: t.role,
+      sha256: t.sha256,
+      source: 'api' as const,
+    }));
     return [...this.configured, ...added];
   }
 
   /** The entry whose hash matches; every entry is compared in constant time (no early exit). */
-  verify(secret: string): TokenEntry | undefined {
+  async verify(secret: string): Promise<TokenEntry | undefined> {
     const digest = createHash('sha256').update(secret, 'utf8').digest();
     let found: TokenEntry | undefined;
-    for (const t of this.list()) {
+    for (const t of await this.list()) {
       const h = Buffer.from(t.sha256, 'hex');
       if (h.length === digest.length && timingSafeEqual(h, digest) && !found) found = t;
     }
@@ -76,15 +79,15 @@ export class TokenRegistry {
   }
 
   /** A new random secret for `name` (shown once). */
-  add(name: string, role: ApiRole, actor: Actor, now_ms: number): string {
+  async add(name: string, role: ApiRole, actor: Actor, now_ms: number): Promise<string> {
     const secret = `tm_${randomBytes(24).toString('base64url')}`;
-    this.workflow.addToken({ name, role, sha256: sha256Hex(secret), created_ms: now_ms }, actor);
+    await this.workflow.addToken({ name, role, sha256: sha256Hex(secret), created_ms: now_ms }, actor);
     return secret;
   }
 
   /** Removes an API-added token and tells everyone holding it; false when there is none of that name. */
-  revoke(name: string, actor: Actor, now_ms: number): boolean {
-    if (!this.workflow.removeToken(name, actor, now_ms)) return false;
+  async revoke(name: string, actor: Actor, now_ms: number): Promise<boolean> {
+    if (!(await this.workflow.removeToken(name, actor, now_ms))) return false;
     for (const f of this.onRevoke.get(name) ?? []) f();
     this.onRevoke.delete(name);
     return true;
@@ -99,8 +102,8 @@ export class TokenRegistry {
   }
 
   /** Whether the token with this hash is still listed (a revocation by another API process). */
-  isListed(sha256: string): boolean {
-    return this.list().some((t) => t.sha256 === sha256);
+  async isListed(sha256: string): Promise<boolean> {
+    return (await this.list()).some((t) => t.sha256 === sha256);
   }
 
   isConfigured(name: string): boolean {

@@ -7,8 +7,8 @@ import {
   type VehicleResult,
   type VehicleSummary,
 } from '@thermargin/shared';
-import type { StoredAnalysis } from '@thermargin/store/sqlite-analysis-store';
-import type { AlertAction, RecordedMaintenance } from '@thermargin/store/sqlite-workflow';
+import type { StoredAnalysis } from '@thermargin/store/analysis';
+import type { AlertAction, RecordedMaintenance } from '@thermargin/store/workflow';
 import type { VehicleAssessment } from '@thermargin/core/health/assess';
 import { tripIdFromTime } from '@thermargin/core/trip/split';
 import { overdueDays } from '@thermargin/core/health/due';

@@ -1,12 +1,10 @@
 import { type Analyzer, createAnalyzer } from '@thermargin/analyzer/analyzer';
 import type { Logger } from '@thermargin/shared/log';
 import { openSampleStore, type SampleStore } from '@thermargin/store';
-import {
-  type AnalysisStore,
-  createAnalysisStore,
-  openResultsDb,
-} from '@thermargin/store/sqlite-analysis-store';
-import { createWorkflowStore, type WorkflowStore } from '@thermargin/store/sqlite-workflow';
+import type { AnalysisStore } from '@thermargin/store/analysis';
+import { createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis-store';
+import { createWorkflowStore } from '@thermargin/store/sqlite-workflow';
+import type { WorkflowStore } from '@thermargin/store/workflow';
 import type { ApiConfig } from './config.ts';
 import type { FleetSource } from './deps.ts';
 import { fileFleetSource } from './fleet-source.ts';
@@ -53,7 +51,7 @@ export function wireApi(config: ApiConfig, o: { clock: () => number; log: Logger
         samples,
         results: analyzerResults,
         fleet: () => fleet.current().models,
-        extraMaintenance: (v) => wf.maintenance(v).map((m) => m.entry),
+        extraMaintenance: async (v) => (await wf.maintenance(v)).map((m) => m.entry),
         clock: o.clock,
         log: o.log,
       },

@@ -1,9 +1,8 @@
-import type { TripResult, VehicleResult } from '@thermargin/shared';
 import type Database from 'better-sqlite3';
+import type { AnalysisStore, StoredAnalysis } from './analysis.ts';
 import { SQLITE_DEFAULTS } from './sqlite.ts';
 import { openSqliteFile } from './sqlite-open.ts';
 import { createResultTables } from './sqlite-result-tables.ts';
-import type { ResultsStore } from './store.ts';
 
 /** Opens the results database (WAL, busy timeout): one connection per process role (analyzer, API). */
 export function openResultsDb(path: string): Database.Database {
@@ -12,47 +11,7 @@ export function openResultsDb(path: string): Database.Database {
   return openSqliteFile(path, SQLITE_DEFAULTS);
 }
 
-/** Per vehicle: how far the analyzer got, and what the health module gave beyond the VehicleResult. */
-export interface StoredAnalysis {
-  vehicle: string;
-  /** ms: every sample with time < this has been analysed (the watermark). */
-  analysed_to_ms: number;
-  /** ms: end of the last analysed trip (the next trip's soak-offset context); null before any trip. */
-  previous_end_ms: number | null;
-  /** The last analysed trip's id, start and the end of the trip before it, so a trip that resumes
-   *  after the watermark is re-read whole. */
-  last_trip: { trip: string; start_ms: number; previous_end_ms: number | null } | null;
-  /** Cleaning rejections of the analysed samples, by reason (cumulative). */
-  rejected: Record<string, number>;
-  /** The health module's chart series, notes and candidates (JSON as the core gave them). */
-  assessment: unknown;
-  /** Bumped on every commit: readers cache by it. */
-  version: number;
-  updated_ms: number;
-}
-
-export interface AnalysisCommit {
-  vehicle: string;
-  /** Trip results to write (replacing same vehicle + trip). */
-  trips: readonly TripResult[];
-  /** Trip results of this vehicle starting at or after this time are removed first (re-analysis). */
-  delete_from_ms?: number;
-  result: VehicleResult;
-  analysis: Omit<StoredAnalysis, 'vehicle' | 'version' | 'updated_ms'>;
-  now_ms: number;
-}
-
-export interface AnalysisStore extends ResultsStore {
-  readAnalysis(vehicle: string): StoredAnalysis | undefined;
-  readAnalyses(): StoredAnalysis[];
-  /** vehicle → version, cheap: for cache checks. */
-  versions(): Map<string, number>;
-  version(vehicle: string): number | undefined;
-  /** Runs `work` in one write transaction (BEGIN IMMEDIATE): read-modify-write without a lost update. */
-  exclusive<T>(work: () => Promise<T>): Promise<T>;
-  /** Writes results, vehicle summary and watermark atomically (inside `exclusive` or in its own). */
-  commit(c: AnalysisCommit): Promise<void>;
-}
+export type { AnalysisCommit, AnalysisStore, StoredAnalysis } from './analysis.ts';
 
 /**
  * Results in SQLite (the trip_results / vehicle_results tables of sqlite-result-tables.ts, through its
@@ -85,6 +44,7 @@ export function createAnalysisStore(db: Database.Database): AnalysisStore {
     updated_ms: r.updated_ms,
   });
 
+  // One connection, one writer at a time: BEGIN IMMEDIATE holds every vehicle.
   async function exclusive<T>(work: () => Promise<T>): Promise<T> {
     if (db.inTransaction) return work();
     db.exec('BEGIN IMMEDIATE');
@@ -100,20 +60,20 @@ export function createAnalysisStore(db: Database.Database): AnalysisStore {
 
   return {
     ...results,
-    readAnalysis(vehicle) {
+    async readAnalysis(vehicle) {
       const r = selectOne.get(vehicle) as Row | undefined;
       return r && fromRow(r);
     },
-    readAnalyses() {
+    async readAnalyses() {
       return (selectAll.all() as Row[]).map(fromRow);
     },
-    versions() {
+    async versions() {
       return new Map(selectVersions.all() as [string, number][]);
     },
-    version(vehicle) {
+    async version(vehicle) {
       return selectVersion.get(vehicle) as number | undefined;
     },
-    exclusive,
+    exclusive: (_vehicle, work) => exclusive(work),
     commit(c) {
       return exclusive(async () => {
         if (c.delete_from_ms !== undefined)

@@ -1,59 +1,16 @@
-import type { ApiRole, AuditEntry, MaintenanceEntry } from '@thermargin/shared';
+import type { AuditEntry, MaintenanceEntry } from '@thermargin/shared';
 import type Database from 'better-sqlite3';
+import {
+  type Actor,
+  type AlertAction,
+  maintenanceDetail,
+  type RecordedMaintenance,
+  type StoredToken,
+  type WorkflowStore,
+} from './workflow.ts';
 
-/** What an alert action records. */
-export interface AlertAction {
-  vehicle: string;
-  alert: string;
-  action: 'acknowledge' | 'close';
-  by: string;
-  at_ms: number;
-  note: string;
-}
-
-/** A maintenance entry added through the API (beside the fleet file's own). */
-export interface RecordedMaintenance {
-  id: number;
-  vehicle: string;
-  entry: MaintenanceEntry;
-  recorded_ms: number;
-}
-
-/** A token added through the API: only its hash is kept. */
-export interface StoredToken {
-  name: string;
-  role: ApiRole;
-  sha256: string;
-  created_ms: number;
-}
-
-export interface Actor {
-  by: string;
-  role: ApiRole;
-}
-
-/**
- * What the API persists beyond the analyzer's results: alert acknowledgements and closures, maintenance
- * entries, tokens, and an audit log of every write. Each write and its audit row share one transaction.
- * Every value is a bound parameter.
- */
-export interface WorkflowStore {
-  alertActions(vehicle: string): AlertAction[];
-  /** Every vehicle's alert actions (fleet summary: open alert counts). */
-  allAlertActions(): AlertAction[];
-  recordAlertAction(a: AlertAction, actor: Actor): void;
-  maintenance(vehicle: string): RecordedMaintenance[];
-  addMaintenance(vehicle: string, entry: MaintenanceEntry, actor: Actor, at_ms: number): RecordedMaintenance;
-  tokens(): StoredToken[];
-  addToken(t: StoredToken, actor: Actor): void;
-  /** True when a token of that name was removed. */
-  removeToken(name: string, actor: Actor, at_ms: number): boolean;
-  /** Records a write that has no table of its own (e.g. a fleet-file reload). */
-  audit(actor: Actor, action: string, target: string, detail: string, at_ms: number): void;
-  readAudit(limit: number): AuditEntry[];
-  /** Grows with every write (the newest audit row's id): readers cache by it. */
-  revision(): number;
-}
+/** The workflow records in the results database (one transaction per write with its audit row). */
+export type { Actor, AlertAction, RecordedMaintenance, StoredToken, WorkflowStore } from './workflow.ts';
 
 export function createWorkflowStore(db: Database.Database): WorkflowStore {
   db.exec(`
@@ -104,40 +61,41 @@ export function createWorkflowStore(db: Database.Database): WorkflowStore {
     recorded_ms: r.recorded_ms,
   });
 
+  const recordAlertAction = db.transaction((a: AlertAction, actor: Actor) => {
+    q.addAction.run({ ...a, at_ms: Math.round(a.at_ms) });
+    audit(actor, `alert.${a.action}`, `${a.vehicle}/${a.alert}`, a.note, a.at_ms);
+  });
+  const addMaintenance = db.transaction(
+    (vehicle: string, entry: MaintenanceEntry, actor: Actor, at_ms: number): RecordedMaintenance => {
+      const r = q.addMaintenance.run(vehicle, JSON.stringify(entry), Math.round(at_ms));
+      audit(actor, 'maintenance.add', vehicle, maintenanceDetail(entry), at_ms);
+      return { id: Number(r.lastInsertRowid), vehicle, entry, recorded_ms: Math.round(at_ms) };
+    },
+  );
+  const addToken = db.transaction((t: StoredToken, actor: Actor) => {
+    q.addToken.run({ ...t, created_ms: Math.round(t.created_ms) });
+    audit(actor, 'token.add', t.name, `role ${t.role}`, t.created_ms);
+  });
+  const removeToken = db.transaction((name: string, actor: Actor, at_ms: number) => {
+    const removed = q.removeToken.run(name).changes > 0;
+    if (removed) audit(actor, 'token.remove', name, '', at_ms);
+    return removed;
+  });
+
   return {
-    alertActions: (vehicle) => q.actions.all(vehicle) as AlertAction[],
-    allAlertActions: () => q.allActions.all() as AlertAction[],
-    recordAlertAction: db.transaction((a: AlertAction, actor: Actor) => {
-      q.addAction.run({ ...a, at_ms: Math.round(a.at_ms) });
-      audit(actor, `alert.${a.action}`, `${a.vehicle}/${a.alert}`, a.note, a.at_ms);
-    }),
-    maintenance: (vehicle) => (q.maintenance.all(vehicle) as MRow[]).map(mFromRow),
-    addMaintenance: db.transaction(
-      (vehicle: string, entry: MaintenanceEntry, actor: Actor, at_ms: number) => {
-        const r = q.addMaintenance.run(vehicle, JSON.stringify(entry), Math.round(at_ms));
-        audit(
-          actor,
-          'maintenance.add',
-          vehicle,
-          `${entry.date} ${entry.action}${entry.note ? `: ${entry.note}` : ''}`,
-          at_ms,
-        );
-        return { id: Number(r.lastInsertRowid), vehicle, entry, recorded_ms: Math.round(at_ms) };
-      },
-    ),
-    tokens: () => q.tokens.all() as StoredToken[],
-    addToken: db.transaction((t: StoredToken, actor: Actor) => {
-      q.addToken.run({ ...t, created_ms: Math.round(t.created_ms) });
-      audit(actor, 'token.add', t.name, `role ${t.role}`, t.created_ms);
-    }),
-    removeToken: db.transaction((name: string, actor: Actor, at_ms: number) => {
-      const removed = q.removeToken.run(name).changes > 0;
-      if (removed) audit(actor, 'token.remove', name, '', at_ms);
-      return removed;
-    }),
-    audit,
-    revision: () => q.revision.get() as number,
-    readAudit: (limit) =>
+    alertActions: async (vehicle) => q.actions.all(vehicle) as AlertAction[],
+    allAlertActions: async () => q.allActions.all() as AlertAction[],
+    recordAlertAction: async (a, actor) => recordAlertAction(a, actor),
+    maintenance: async (vehicle) => (q.maintenance.all(vehicle) as MRow[]).map(mFromRow),
+    addMaintenance: async (vehicle, entry, actor, at_ms) => addMaintenance(vehicle, entry, actor, at_ms),
+    tokens: async () => q.tokens.all() as StoredToken[],
+    addToken: async (t, actor) => addToken(t, actor),
+    removeToken: async (name, actor, at_ms) => removeToken(name, actor, at_ms),
+    audit: async (actor, action, target, detail, at_ms) => {
+      audit(actor, action, target, detail, at_ms);
+    },
+    revision: async () => q.revision.get() as number,
+    readAudit: async (limit) =>
       (q.readAudit.all(limit) as (Omit<AuditEntry, 'at'> & { at_ms: number })[]).map(({ at_ms, ...r }) => ({
         ...r,
         at: new Date(at_ms).toISOString(),

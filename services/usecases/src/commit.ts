@@ -1,5 +1,5 @@
 import type { MaintenanceEntry, Status, TripResult } from '@thermargin/shared';
-import type { AnalysisStore, StoredAnalysis } from '@thermargin/store/sqlite-analysis-store';
+import type { AnalysisStore, StoredAnalysis } from '@thermargin/store/analysis';
 import { vehicleResult, withMaintenance } from '@thermargin/core/vehicle-result';
 import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
 
@@ -46,8 +46,8 @@ export function assessAndCommit(
   input: AssessInput,
   now_ms: number,
 ): Promise<AssessOutcome> {
-  return results.exclusive(async () => {
-    const prev = results.readAnalysis(model.id);
+  return results.exclusive(model.id, async () => {
+    const prev = await results.readAnalysis(model.id);
     const before = await results.readVehicleResult(model.id);
     const replaced = new Set(input.trips.map((t) => t.trip));
     const cut = input.delete_from_ms ?? Number.POSITIVE_INFINITY;

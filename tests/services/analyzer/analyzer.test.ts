@@ -64,14 +64,14 @@ describe('analyzer: store → core → results', () => {
     const want = offline(models.get(id)!, all);
     const got = await results.readVehicleResult(id);
     expect(got).toEqual(want);
-    expect(results.readAnalysis(id)!.analysed_to_ms).toBe(lastTime + 1);
+    expect((await results.readAnalysis(id))!.analysed_to_ms).toBe(lastTime + 1);
   });
 
   it('is idempotent: another run changes nothing; a re-analysis gives the same result', async () => {
     const before = await results.readVehicleResult(id);
-    const v0 = results.version(id);
+    const v0 = await results.version(id);
     await analyzer().runOnce();
-    expect(results.version(id)).toBe(v0);
+    expect(await results.version(id)).toBe(v0);
     await analyzer().reanalyze({ vehicle: id });
     expect(await results.readVehicleResult(id)).toEqual(before);
     const since = Date.parse(before!.trips[3]!.start) + 60_000; // inside trip 3: that trip is redone whole
@@ -100,7 +100,7 @@ describe('analyzer: store → core → results', () => {
       samples: store,
       results,
       fleet: () => models,
-      extraMaintenance: () => [entry],
+      extraMaintenance: async () => [entry],
       clock: () => now,
     });
     await a.reassess(id);

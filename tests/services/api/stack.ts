@@ -64,7 +64,7 @@ export async function startApiStack(
     samples,
     results: anResults,
     fleet: () => source.current().models,
-    extraMaintenance: (v) => anWorkflow.maintenance(v).map((m) => m.entry),
+    extraMaintenance: async (v) => (await anWorkflow.maintenance(v)).map((m) => m.entry),
     clock: now,
   });
   const tokens = parseTokenList(

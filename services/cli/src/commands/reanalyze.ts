@@ -38,7 +38,7 @@ export async function reanalyzeCommand(argv: string[], log: (line: string) => vo
     samples,
     results,
     fleet: () => fleet.models,
-    extraMaintenance: (v) => workflow.maintenance(v).map((m) => m.entry),
+    extraMaintenance: async (v) => (await workflow.maintenance(v)).map((m) => m.entry),
   });
   try {
     const t0 = performance.now();
