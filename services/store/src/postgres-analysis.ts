@@ -1,0 +1,122 @@
+import type { TripResult, VehicleResult } from '@thermargin/shared';
+import type { AnalysisStore, StoredAnalysis } from './analysis.ts';
+import type { PostgresDb } from './postgres-db.ts';
+
+/** Advisory lock class of a vehicle's results (the second key is the vehicle's hash). */
+const VEHICLE_LOCK = 0x7468_6d02;
+
+type Row = { vehicle: string; analysed_to_ms: number; version: number; updated_ms: number; doc: object };
+const fromRow = (r: Row): StoredAnalysis => ({
+  ...(r.doc as Omit<StoredAnalysis, 'vehicle' | 'analysed_to_ms' | 'version' | 'updated_ms'>),
+  vehicle: r.vehicle,
+  analysed_to_ms: r.analysed_to_ms,
+  version: r.version,
+  updated_ms: r.updated_ms,
+});
+
+/** Vehicle ids and trip ids sort by code point, as SQLite's binary collation does, whatever the database's locale. */
+const BY_ID = 'COLLATE "C"';
+
+/**
+ * Results and analysis state in PostgreSQL: the same documents as the SQLite adapter (JSON text kept
+ * as written, so a result reads back exactly), one transaction per commit, and `exclusive` holding a
+ * transaction-scoped advisory lock on the one vehicle, so writers of different vehicles (several
+ * analyzers, an API re-assessing after a maintenance entry) run side by side.
+ */
+export function createPostgresAnalysisStore(db: PostgresDb): AnalysisStore {
+  async function putTripResults(vehicle: string, trips: readonly TripResult[]): Promise<void> {
+    if (trips.length === 0) return;
+    await db.query(
+      `INSERT INTO trip_results (vehicle, trip, start_ms, doc)
+       SELECT $1, t.trip, t.start_ms, t.doc FROM unnest($2::text[], $3::bigint[], $4::json[]) AS t(trip, start_ms, doc)
+       ON CONFLICT (vehicle, trip) DO UPDATE SET start_ms = excluded.start_ms, doc = excluded.doc`,
+      [
+        vehicle,
+        trips.map((t) => t.trip),
+        trips.map((t) => Date.parse(t.start)),
+        trips.map((t) => JSON.stringify(t)),
+      ],
+    );
+  }
+  const readTripResults = async (vehicle: string) =>
+    (
+      await db.rows<{ doc: TripResult }>(
+        `SELECT doc FROM trip_results WHERE vehicle = $1 ORDER BY start_ms, trip ${BY_ID}`,
+        [vehicle],
+      )
+    ).map((r) => r.doc);
+  const putVehicleResult = async (result: VehicleResult) => {
+    await db.query(
+      `INSERT INTO vehicle_results (vehicle, doc) VALUES ($1, $2)
+       ON CONFLICT (vehicle) DO UPDATE SET doc = excluded.doc`,
+      [result.id, JSON.stringify({ ...result, trips: [] })],
+    );
+  };
+
+  return {
+    putTripResults,
+    readTripResults,
+    putVehicleResult,
+    async readVehicleResult(vehicle) {
+      const [row] = await db.rows<{ doc: VehicleResult }>(
+        'SELECT doc FROM vehicle_results WHERE vehicle = $1',
+        [vehicle],
+      );
+      return row && { ...row.doc, trips: await readTripResults(vehicle) };
+    },
+    async readVehicleResults() {
+      // One statement, so summaries and trips come from one snapshot.
+      const rows = await db.rows<{ doc: VehicleResult; trips: TripResult[] }>(
+        `SELECT v.doc, COALESCE((SELECT json_agg(t.doc ORDER BY t.start_ms, t.trip ${BY_ID})
+           FROM trip_results t WHERE t.vehicle = v.vehicle), '[]') AS trips
+         FROM vehicle_results v ORDER BY v.vehicle ${BY_ID}`,
+      );
+      return rows.map((r) => ({ ...r.doc, trips: r.trips }));
+    },
+    async readAnalysis(vehicle) {
+      const [row] = await db.rows<Row>('SELECT * FROM vehicle_analysis WHERE vehicle = $1', [vehicle]);
+      return row && fromRow(row);
+    },
+    async readAnalyses() {
+      return (await db.rows<Row>(`SELECT * FROM vehicle_analysis ORDER BY vehicle ${BY_ID}`)).map(fromRow);
+    },
+    async versions() {
+      const rows = await db.rows<{ vehicle: string; version: number }>(
+        'SELECT vehicle, version FROM vehicle_analysis',
+      );
+      return new Map(rows.map((r) => [r.vehicle, r.version]));
+    },
+    async version(vehicle) {
+      const [row] = await db.rows<{ version: number }>(
+        'SELECT version FROM vehicle_analysis WHERE vehicle = $1',
+        [vehicle],
+      );
+      return row?.version;
+    },
+    exclusive(vehicle, work) {
+      return db.transaction(async () => {
+        await db.query('SELECT pg_advisory_xact_lock($1, hashtext($2))', [VEHICLE_LOCK, vehicle]);
+        return work();
+      });
+    },
+    commit(c) {
+      return db.transaction(async () => {
+        if (c.delete_from_ms !== undefined)
+          await db.query('DELETE FROM trip_results WHERE vehicle = $1 AND start_ms >= $2', [
+            c.vehicle,
+            Math.round(c.delete_from_ms),
+          ]);
+        await putTripResults(c.vehicle, c.trips);
+        await putVehicleResult(c.result);
+        const { analysed_to_ms, ...rest } = c.analysis;
+        await db.query(
+          `INSERT INTO vehicle_analysis (vehicle, analysed_to_ms, version, updated_ms, doc) VALUES ($1, $2, 1, $3, $4)
+           ON CONFLICT (vehicle) DO UPDATE SET analysed_to_ms = excluded.analysed_to_ms,
+             version = vehicle_analysis.version + 1, updated_ms = excluded.updated_ms, doc = excluded.doc`,
+          [c.vehicle, Math.round(analysed_to_ms), Math.round(c.now_ms), JSON.stringify(rest)],
+        );
+      });
+    },
+    close: () => db.close(),
+  };
+}
