@@ -22,6 +22,8 @@ export interface LogEvents {
   spool_writable: Record<string, never>;
   metrics: { port: number | undefined };
   shutdown: { signal: string };
+  // results database
+  postgres_idle_connection_lost: { error: string };
   // analyzer
   analyzer_error: { error: string };
   // API

@@ -3,8 +3,8 @@ import { type Env, envReader } from '@thermargin/shared/env';
 import { type DeploymentConfig, readDeploymentConfig } from '@thermargin/usecases/config';
 import { RATE_LIMIT_DEFAULTS } from './rate-limit.ts';
 
-/** The API's environment variables (plus the deployment's FLEET_FILE, STORE_*, RESULTS_SQLITE_PATH and
- *  the analyzer's ANALYZER_POLL_MS). */
+/** The API's environment variables (plus the deployment's FLEET_FILE, STORE_*, RESULTS_* and the
+ *  analyzer's ANALYZER_POLL_MS). */
 export const API_ENV = {
   PORT: 'API_PORT',
   HOST: 'API_HOST',

@@ -31,7 +31,7 @@ export async function startApi(options: StartApiOptions = {}): Promise<RunningAp
   const config = readApiConfig(options.env ?? process.env);
   const clock = options.clock ?? Date.now;
   const log = options.log ?? stderrLog;
-  return serveApi(wireApi(config, { clock, log }), config, { ...options, clock, log });
+  return serveApi(await wireApi(config, { clock, log }), config, { ...options, clock, log });
 }
 
 /** Serves the API over `pieces` on the configured host and port; closing it closes the pieces too. */

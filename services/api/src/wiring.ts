@@ -2,8 +2,7 @@ import { type Analyzer, createAnalyzer } from '@thermargin/analyzer/analyzer';
 import type { Logger } from '@thermargin/shared/log';
 import { openSampleStore, type SampleStore } from '@thermargin/store';
 import type { AnalysisStore } from '@thermargin/store/analysis';
-import { createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis-store';
-import { createWorkflowStore } from '@thermargin/store/sqlite-workflow';
+import { openResults, type ResultsBackend } from '@thermargin/store/results-backend';
 import type { WorkflowStore } from '@thermargin/store/workflow';
 import type { ApiConfig } from './config.ts';
 import type { FleetSource } from './deps.ts';
@@ -29,29 +28,35 @@ export interface ApiPieces {
  * analyzer gets its own connection to the results database, so its transactions never interleave with
  * the API's writes.
  */
-export function wireApi(config: ApiConfig, o: { clock: () => number; log: Logger }): ApiPieces {
+export async function wireApi(
+  config: ApiConfig,
+  o: { clock: () => number; log: Logger },
+): Promise<ApiPieces> {
   const { deployment } = config;
   const fleet = fileFleetSource(deployment.fleet_file);
-  const samples = openSampleStore(deployment.samples);
-  const apiDb = openResultsDb(deployment.results_path);
-  const results = createAnalysisStore(apiDb);
-  const workflow = createWorkflowStore(apiDb);
   const configured = [
     ...parseTokenList(config.tokens, 'env'),
     ...(config.tokens_file ? readTokenFile(config.tokens_file) : []),
   ];
+  const samples = openSampleStore(deployment.samples);
+  const opened: ResultsBackend[] = [];
+  try {
+    opened.push(await openResults(deployment.results, o.log));
+    if (config.run_analyzer) opened.push(await openResults(deployment.results, o.log));
+  } catch (e) {
+    for (const r of opened) await r.close();
+    await samples.close();
+    throw e;
+  }
+  const [own, forAnalyzer] = opened as [ResultsBackend, ResultsBackend | undefined];
   let analyzer: Analyzer | undefined;
-  let analyzerResults: AnalysisStore | undefined;
-  if (config.run_analyzer) {
-    const db = openResultsDb(deployment.results_path);
-    analyzerResults = createAnalysisStore(db);
-    const wf = createWorkflowStore(db);
+  if (forAnalyzer) {
     analyzer = createAnalyzer(
       {
         samples,
-        results: analyzerResults,
+        results: forAnalyzer.analysis,
         fleet: () => fleet.current().models,
-        extraMaintenance: async (v) => (await wf.maintenance(v)).map((m) => m.entry),
+        extraMaintenance: async (v) => (await forAnalyzer.workflow.maintenance(v)).map((m) => m.entry),
         clock: o.clock,
         log: o.log,
       },
@@ -61,15 +66,15 @@ export function wireApi(config: ApiConfig, o: { clock: () => number; log: Logger
   }
   return {
     samples,
-    results,
-    workflow,
+    results: own.analysis,
+    workflow: own.workflow,
     fleet,
-    tokens: new TokenRegistry(configured, workflow),
+    tokens: new TokenRegistry(configured, own.workflow),
     analyzer,
     async close() {
       await analyzer?.stop();
-      await analyzerResults?.close();
-      await results.close();
+      await forAnalyzer?.close();
+      await own.close();
       await samples.close();
     },
   };

@@ -6,8 +6,8 @@ import { type DeploymentConfig, DEPLOYMENT_ENV, deploymentConfig } from '@therma
 
 const WHAT_TO_SET =
   `set ${STORE_ENV.KIND} with ${STORE_ENV.SQLITE_PATH} (sqlite) or ${STORE_ENV.INFLUX_URL} and its ` +
-  `${STORE_ENV.INFLUX_BUCKET}/${STORE_ENV.INFLUX_TOKEN} (influx), and ${STORE_ENV.RESULTS_PATH}, ` +
-  'as for the API and the analyzer';
+  `${STORE_ENV.INFLUX_BUCKET}/${STORE_ENV.INFLUX_TOKEN} (influx), and ${STORE_ENV.RESULTS_SQLITE_PATH} ` +
+  `(or ${STORE_ENV.RESULTS_KIND}=postgres with ${STORE_ENV.RESULTS_POSTGRES_URL}), as for the API and the analyzer`;
 
 /**
  * The deployment a command reads from, refused unless its stores exist: a read never creates an empty
@@ -21,7 +21,10 @@ export function storedDeployment(option: string, env: Env, fleetPath?: string): 
   } catch (e) {
     throw new InputError([{ where: option, rule: (e as Error).message }], 'nothing to read');
   }
-  const files: [string, string][] = [[config.results_path, `results database (${STORE_ENV.RESULTS_PATH})`]];
+  // A PostgreSQL results database is a server: opening it creates nothing, so only files are checked.
+  const files: [string, string][] = [];
+  if (config.results.kind === 'sqlite')
+    files.push([config.results.path, `results database (${STORE_ENV.RESULTS_SQLITE_PATH})`]);
   if (config.samples.kind === 'sqlite')
     files.unshift([config.samples.path, `sample store (${STORE_ENV.SQLITE_PATH})`]);
   const missing = files

@@ -4,7 +4,7 @@ import type { Env } from '@thermargin/shared/env';
 
 /**
  * The variables of `npm start` itself. Everything else goes to the services unchanged, so the same
- * INGEST_*, STORE_*, FLEET_FILE, RESULTS_SQLITE_PATH and API_* variables point the stack at an external
+ * INGEST_*, STORE_*, FLEET_FILE, RESULTS_* and API_* variables point the stack at an external
  * Mosquitto and InfluxDB (see the services' READMEs). Each default is defined here once.
  */
 export const STACK_ENV = {

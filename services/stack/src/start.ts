@@ -128,7 +128,7 @@ async function main(): Promise<void> {
   const ingestCfg = readIngesterConfig(env);
   const apiCfg = readApiConfig(env);
   // The API's pieces, built as `startApi` builds them; the ingester writes to the same sample store.
-  const pieces = wireApi(apiCfg, { clock: Date.now, log: serviceLog });
+  const pieces = await wireApi(apiCfg, { clock: Date.now, log: serviceLog });
   const store = pieces.samples;
   refusals.writeTo(store);
   const known = new Set(scenario.fleet.vehicles.map((v) => v.id));

@@ -1,4 +1,5 @@
 import { AsyncLocalStorage } from 'node:async_hooks';
+import type { Logger } from '@thermargin/shared/log';
 import pg from 'pg';
 import { migrate } from './postgres-migrations.ts';
 
@@ -41,7 +42,7 @@ export class PostgresDb {
 
   private constructor(
     readonly options: Required<PostgresOptions>,
-    private readonly log: (event: string, detail: Record<string, unknown>) => void,
+    private readonly log: Logger,
   ) {
     this.pool = new pg.Pool({
       connectionString: options.url,
@@ -56,10 +57,7 @@ export class PostgresDb {
   }
 
   /** Connects, applies the migrations this version needs, and returns the pool. */
-  static async open(
-    options: PostgresOptions,
-    log: (event: string, detail: Record<string, unknown>) => void = () => {},
-  ): Promise<PostgresDb> {
+  static async open(options: PostgresOptions, log: Logger = () => {}): Promise<PostgresDb> {
     const db = new PostgresDb({ ...POSTGRES_DEFAULTS, ...options }, log);
     try {
       await migrate(db.pool);

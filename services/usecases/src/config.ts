@@ -1,15 +1,20 @@
 import type { Env } from '@thermargin/shared/env';
-import { readResultsPath, readStoreConfig, type StoreConfig } from '@thermargin/store/config';
+import {
+  type ResultsConfig,
+  readResultsConfig,
+  readStoreConfig,
+  type StoreConfig,
+} from '@thermargin/store/config';
 
-/** The fleet file's variable; the stores' are STORE_* and RESULTS_SQLITE_PATH (services/store). */
+/** The fleet file's variable; the stores' are STORE_* and RESULTS_* (services/store). */
 export const DEPLOYMENT_ENV = { FLEET_FILE: 'FLEET_FILE' } as const;
 
 /** What a deployment works on: the fleet file, the sample store and the results database. */
 export interface DeploymentConfig {
   fleet_file: string;
   samples: StoreConfig;
-  /** SQLite file of results, watermarks and the API's records (beside InfluxDB in an Influx deployment). */
-  results_path: string;
+  /** Results, watermarks and the API's records: a SQLite file (beside the samples) or PostgreSQL. */
+  results: ResultsConfig;
 }
 
 /**
@@ -20,7 +25,7 @@ export function readDeploymentConfig(env: Env, problems: string[]): DeploymentCo
   const fleet_file = env[DEPLOYMENT_ENV.FLEET_FILE] || env.INGEST_FLEET_FILE || '';
   if (!fleet_file) problems.push(`${DEPLOYMENT_ENV.FLEET_FILE} is required`);
   const samples = readStoreConfig(env, problems);
-  return { fleet_file, samples, results_path: readResultsPath(env, samples) };
+  return { fleet_file, samples, results: readResultsConfig(env, samples, problems) };
 }
 
 /** readDeploymentConfig, or an Error naming every bad variable. */

@@ -1,7 +1,7 @@
 import { setImmediate as nextTurn } from 'node:timers/promises';
 import type { TripResult } from '@thermargin/shared';
 import { openSampleStore, type ResultsStore, type SampleStore } from '@thermargin/store';
-import { createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis-store';
+import { openResults } from '@thermargin/store/results-backend';
 import { tripPieces } from '@thermargin/core/analyze';
 import type { Duty } from '@thermargin/core/sizing/drivetrain-compare';
 import type { SizingInput } from '@thermargin/core/sizing/fleet-sizing';
@@ -98,17 +98,20 @@ export function assembleSizingInput(
 
 /** sizingInputFromStore over the stores a configuration names (the CLI's `sizing --from-store`), closed after. */
 export async function sizingInputFromConfig(
-  config: Pick<DeploymentConfig, 'samples' | 'results_path'>,
+  config: Pick<DeploymentConfig, 'samples' | 'results'>,
   vehicles: readonly VehicleModel[],
   o: SizingOptions,
   duty?: Partial<Duty>,
 ): Promise<StoreSizingInput> {
   const samples = openSampleStore(config.samples);
-  const results = createAnalysisStore(openResultsDb(config.results_path));
   try {
-    return await sizingInputFromStore(samples, results, vehicles, o, duty);
+    const results = await openResults(config.results);
+    try {
+      return await sizingInputFromStore(samples, results.analysis, vehicles, o, duty);
+    } finally {
+      await results.close();
+    }
   } finally {
     await samples.close();
-    await results.close();
   }
 }

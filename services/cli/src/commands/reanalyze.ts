@@ -1,14 +1,13 @@
 import { parseArgs } from 'node:util';
 import { UsageError } from '../usage-error.ts';
 import { openSampleStore } from '@thermargin/store';
-import { createAnalysisStore, openResultsDb } from '@thermargin/store/sqlite-analysis-store';
-import { createWorkflowStore } from '@thermargin/store/sqlite-workflow';
+import { openResults } from '@thermargin/store/results-backend';
 import { createAnalyzer } from '@thermargin/analyzer/analyzer';
 import { storedDeployment } from '../stored-deployment.ts';
 import { loadFleetFile } from '@thermargin/usecases/fleet-file';
 
 export const REANALYZE_USAGE = `thermargin reanalyze [--vehicle ID] [--since DATE]
-  recomputes stored results after a fleet-file or policy change (reads FLEET_FILE, STORE_*, RESULTS_SQLITE_PATH)
+  recomputes stored results after a fleet-file or policy change (reads FLEET_FILE, STORE_*, RESULTS_*)
   --vehicle  only this vehicle (default: every vehicle with samples)
   --since    from this date on, YYYY-MM-DD or ISO 8601 UTC (default: all samples)`;
 
@@ -31,14 +30,15 @@ export async function reanalyzeCommand(argv: string[], log: (line: string) => vo
   if (values.vehicle !== undefined && !fleet.models.has(values.vehicle))
     throw new UsageError([{ where: '--vehicle', rule: `${values.vehicle} is not in the fleet file` }]);
   const samples = openSampleStore(config.samples);
-  const db = openResultsDb(config.results_path);
-  const results = createAnalysisStore(db);
-  const workflow = createWorkflowStore(db);
+  const results = await openResults(config.results).catch(async (e) => {
+    await samples.close();
+    throw e;
+  });
   const analyzer = createAnalyzer({
     samples,
-    results,
+    results: results.analysis,
     fleet: () => fleet.models,
-    extraMaintenance: async (v) => (await workflow.maintenance(v)).map((m) => m.entry),
+    extraMaintenance: async (v) => (await results.workflow.maintenance(v)).map((m) => m.entry),
   });
   try {
     const t0 = performance.now();

@@ -20,7 +20,7 @@ export const SIZING_USAGE = `thermargin sizing --fleet FLEET.json (--data PATH |
   --data       a data file or a folder of them, as for analyze (CSV tables, candump -l logs)
   --map        mapping file (JSON) for a logger's own names, units and J1939 parameters, as for analyze
   --from-store instead of --data: the analysed trips and their samples from the stores (reads STORE_*,
-               RESULTS_SQLITE_PATH, and FLEET_FILE when --fleet is not given; as the API's /api/sizing)
+               RESULTS_*, and FLEET_FILE when --fleet is not given; as the API's /api/sizing)
   --out        write the sizing result (JSON) here instead of to standard output
   --html       also write a self-contained HTML report for a design review
   --what-if R,D  replay with every ambient raised R K and the coolant limit lowered D K (repeatable;
@@ -170,11 +170,13 @@ async function readStore(
   duty: Partial<Duty> | undefined,
 ): Promise<SizingRead> {
   // Loaded here: the stores' modules would slow every `sizing --data` run's start-up.
-  const [{ storedDeployment }, { loadFleetFile }, { sizingInputFromConfig }] = await Promise.all([
-    import('../stored-deployment.ts'),
-    import('@thermargin/usecases/fleet-file'),
-    import('@thermargin/usecases/sizing-input'),
-  ]);
+  const [{ storedDeployment }, { loadFleetFile }, { sizingInputFromConfig }, { describeResults }] =
+    await Promise.all([
+      import('../stored-deployment.ts'),
+      import('@thermargin/usecases/fleet-file'),
+      import('@thermargin/usecases/sizing-input'),
+      import('@thermargin/store/config'),
+    ]);
   const config = storedDeployment('--from-store', process.env, fleetPath);
   const vehicles = [...loadFleetFile(config.fleet_file).models.values()];
   const read = await sizingInputFromConfig(config, vehicles, options, duty).catch((e) => {
@@ -184,7 +186,7 @@ async function readStore(
   return {
     input: read.input,
     fleet: config.fleet_file,
-    data: `${config.samples.kind} sample store, results ${config.results_path}`,
+    data: `${config.samples.kind} sample store, results ${describeResults(config.results)}`,
     from: `the stores${missing ? ` (${missing} trips without samples: trip figures only)` : ''}`,
   };
 }
