@@ -198,7 +198,8 @@ export const API_ROUTES = {
     role: 'viewer',
     summary:
       'Server-sent events: trip (new trip result), status (status change), sample (newest sample per vehicle); ' +
-      'revoked (the token was revoked: the stream ends)',
+      'revoked (the token was revoked: the stream ends). With PostgreSQL results each trip event has an id; ' +
+      'a client reconnecting with Last-Event-ID (to any API replica) first gets the trips it missed',
     response: null,
   },
   sizing: {

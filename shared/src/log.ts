@@ -24,8 +24,14 @@ export interface LogEvents {
   shutdown: { signal: string };
   // results database
   postgres_idle_connection_lost: { error: string };
+  postgres_listen_lost: { error: string };
   // analyzer
+  analyzer_started: { results: string; replica: string };
   analyzer_error: { error: string };
+  analyzer_lease_lost: { vehicle: string; error: string };
+  fleet_reloaded: { vehicles: number };
+  fleet_reload_failed: { error: string };
+  health: { port: number };
   // API
   api_error: { path: string; error: string };
   api_store_unavailable: { path: string; kind?: StoreFaultKind; error: string };

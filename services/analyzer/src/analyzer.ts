@@ -1,7 +1,14 @@
 import type { MaintenanceEntry, Status, TripResult } from '@thermargin/shared';
 import type { Logger } from '@thermargin/shared/log';
-import { isStorageError, type LateMark, type SampleStore, storeFault } from '@thermargin/store';
-import type { AnalysisStore } from '@thermargin/store/analysis';
+import {
+  isStorageError,
+  type LateMark,
+  type SampleStore,
+  storeFault,
+  type VehicleSpan,
+} from '@thermargin/store';
+import type { AnalysisCommit, AnalysisStore, StoredAnalysis } from '@thermargin/store/analysis';
+import { LeaseLostError, type VehicleLeases, WatermarkMovedError } from '@thermargin/store/leases';
 import { tripGoingOn } from '@thermargin/core/trip/split';
 import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
 import { type AnalysisProgress, assessAndCommit, noProgress } from '@thermargin/usecases/commit';
@@ -21,6 +28,15 @@ export interface AnalyzerDeps {
   /** Told of each trip analysed and each status change (the API's live events). */
   onTrips?: (vehicle: string, trips: readonly TripResult[]) => void;
   onStatus?: (vehicle: string, from: Status | null, to: Status) => void;
+  /** Leases shared with other analyzer replicas (PostgreSQL results); absent: this is the only one. */
+  leases?: VehicleLeases;
+}
+
+/** A vehicle this analyzer may work on now. */
+interface HeldVehicle {
+  /** What its commit carries (undefined without leases), given the watermark the work began from. */
+  fence(from_ms: number | null): AnalysisCommit['fence'];
+  release(): Promise<void>;
 }
 
 export interface AnalyzerStats {
@@ -39,6 +55,8 @@ export interface AnalyzerStats {
   backlog_vehicles: number;
   /** Samples that arrived after their time had been analysed; the trips they touch were analysed again. */
   late_samples: number;
+  /** Vehicles passed over because another replica held their lease (cumulative). */
+  vehicles_held_elsewhere: number;
 }
 
 export interface RunScope {
@@ -91,6 +109,7 @@ export function createAnalyzer(deps: AnalyzerDeps, options: Partial<AnalyzerOpti
     samples_analysed: 0,
     backlog_vehicles: 0,
     late_samples: 0,
+    vehicles_held_elsewhere: 0,
   };
   let chain: Promise<void> = Promise.resolve();
   let timer: NodeJS.Timeout | undefined;
@@ -102,6 +121,10 @@ export function createAnalyzer(deps: AnalyzerDeps, options: Partial<AnalyzerOpti
     if (out.status !== out.status_before) deps.onStatus?.(model.id, out.status_before, out.status);
   }
 
+  /** Where this replica starts its pass over the vehicles: replicas starting apart take different
+   *  vehicles first instead of queueing for the same lease. */
+  const offset = deps.leases ? hashOf(deps.leases.holder) : 0;
+
   async function pass(scope: RunScope): Promise<void> {
     const fleet = deps.fleet();
     // Read before the samples: a late write after this leaves a mark for the next pass.
@@ -109,52 +132,111 @@ export function createAnalyzer(deps: AnalyzerDeps, options: Partial<AnalyzerOpti
       (m) => scope.vehicle === undefined || m.vehicle === scope.vehicle,
     );
     const late = earliestLate(marks);
-    const spans = await deps.samples.listVehicles();
+    /** The earliest late time behind the watermark: the span reopens from the trip it touches. */
+    const reopens = (prev: StoredAnalysis | undefined, vehicle: string) => {
+      const mark = late.get(vehicle);
+      return mark && prev && mark.from_ms < prev.analysed_to_ms ? mark.from_ms : undefined;
+    };
+    const spans = rotate(await deps.samples.listVehicles(), offset);
+    // Vehicles whose marks this pass dealt with: analysed under this replica's lease, found done, or
+    // not in the fleet. Another replica's vehicles keep their marks for it.
+    const dealt = new Set(marks.filter((m) => !fleet.has(m.vehicle)).map((m) => m.vehicle));
     let backlog = 0;
     for (const span of spans) {
       const model = fleet.get(span.vehicle);
       if (!model || (scope.vehicle !== undefined && span.vehicle !== scope.vehicle)) continue;
-      const prev = await deps.results.readAnalysis(span.vehicle);
-      const mark = late.get(span.vehicle);
-      // Late samples behind the watermark reopen the span from the trip they touch.
-      const reopen = mark && prev && mark.from_ms < prev.analysed_to_ms ? mark.from_ms : undefined;
-      if (reopen !== undefined) stats.late_samples += mark!.count;
-      const since_ms = scope.since_ms ?? reopen;
-      const redo = since_ms !== undefined;
-      let start: AnalysisProgress = prev ?? { ...noProgress(), analysed_to_ms: span.first_ms };
-      let delete_from_ms: number | undefined;
-      if (redo) {
-        const since = Math.max(since_ms, span.first_ms);
-        const stored = (await deps.results.readTripResults(span.vehicle)).filter(
-          (t) => Date.parse(t.start) < since,
-        );
-        // A trip ending within the trip gap before `since` may take the new samples in: redone too.
-        const touched = stored.find((t) => Date.parse(t.end) >= since - o.trip_gap_s * 1000);
-        delete_from_ms = touched ? Date.parse(touched.start) : since;
-        const before = stored.filter((t) => Date.parse(t.start) < delete_from_ms!).at(-1);
-        start = {
-          analysed_to_ms: delete_from_ms,
-          previous_end_ms: before ? Date.parse(before.end) : null,
-          last_trip: null,
-          rejected: since <= span.first_ms ? {} : { ...(prev?.rejected ?? {}) },
-        };
-      } else if (prev && prev.analysed_to_ms > span.last_ms) continue;
-      const got = await catchUpVehicle(deps.samples, model, span, start, clock(), o);
-      stats.samples_analysed += got.samples;
-      stats.trips_analysed += got.trips.length;
-      if (got.trips.length || redo) {
-        await commit(model, {
-          trips: got.trips,
-          state: got.state,
-          ...(delete_from_ms === undefined ? {} : { delete_from_ms }),
-        });
+      const seen = await deps.results.readAnalysis(span.vehicle);
+      if (scope.since_ms === undefined && reopens(seen, span.vehicle) === undefined && done(seen, span)) {
+        dealt.add(span.vehicle);
+        continue;
       }
-      if (got.state.analysed_to_ms <= span.last_ms && !tripGoingOn(span.last_ms, clock(), o.trip_gap_s))
-        backlog++;
+      const held = await holdVehicle(span.vehicle);
+      if (!held) {
+        stats.vehicles_held_elsewhere++;
+        continue; // another replica is on it
+      }
+      try {
+        // Read again under the lease: another replica may have committed since.
+        const prev = deps.leases ? await deps.results.readAnalysis(span.vehicle) : seen;
+        const reopen = reopens(prev, span.vehicle);
+        if (reopen !== undefined) stats.late_samples += late.get(span.vehicle)!.count;
+        const since_ms = scope.since_ms ?? reopen;
+        if (since_ms !== undefined || !done(prev, span))
+          if (await analyseVehicle(model, span, prev, since_ms, held)) backlog++;
+        dealt.add(span.vehicle);
+      } catch (e) {
+        if (!(e instanceof LeaseLostError || e instanceof WatermarkMovedError)) throw e;
+        log('analyzer_lease_lost', { vehicle: span.vehicle, error: e.message });
+      } finally {
+        await held.release();
+      }
     }
     stats.backlog_vehicles = backlog;
-    // Every mark read is dealt with: reopened, ahead of its watermark (read above), or not in the fleet.
-    await deps.samples.clearLateMarks(marks);
+    await deps.samples.clearLateMarks(marks.filter((m) => dealt.has(m.vehicle)));
+  }
+
+  /** Analysed past the span's last sample. */
+  const done = (prev: StoredAnalysis | undefined, span: VehicleSpan) =>
+    prev !== undefined && prev.analysed_to_ms > span.last_ms;
+
+  /** The vehicle's lease kept renewed until released; null when another replica holds it. */
+  async function holdVehicle(vehicle: string): Promise<HeldVehicle | null> {
+    const leases = deps.leases;
+    if (!leases) return { fence: () => undefined, release: async () => {} };
+    const lease = await leases.acquire(vehicle);
+    if (!lease) return null;
+    const timer = setInterval(() => {
+      leases.renew(lease).catch(() => {}); // a failed renewal shows as a refused commit
+    }, leases.ttl_ms / 3);
+    return {
+      fence: (from_ms) => ({ lease, from_ms }),
+      release: async () => {
+        clearInterval(timer);
+        await leases.release(lease).catch(() => {}); // expires by itself
+      },
+    };
+  }
+
+  /** Catches one vehicle up (or redoes it from `since_ms`) and commits; true when it is left behind. */
+  async function analyseVehicle(
+    model: VehicleModel,
+    span: VehicleSpan,
+    prev: StoredAnalysis | undefined,
+    since_ms: number | undefined,
+    held: HeldVehicle,
+  ): Promise<boolean> {
+    const redo = since_ms !== undefined;
+    let start: AnalysisProgress = prev ?? { ...noProgress(), analysed_to_ms: span.first_ms };
+    let delete_from_ms: number | undefined;
+    if (redo) {
+      const since = Math.max(since_ms, span.first_ms);
+      const stored = (await deps.results.readTripResults(span.vehicle)).filter(
+        (t) => Date.parse(t.start) < since,
+      );
+      // A trip ending within the trip gap before `since` may take the new samples in: redone too.
+      const touched = stored.find((t) => Date.parse(t.end) >= since - o.trip_gap_s * 1000);
+      delete_from_ms = touched ? Date.parse(touched.start) : since;
+      const before = stored.filter((t) => Date.parse(t.start) < delete_from_ms!).at(-1);
+      start = {
+        analysed_to_ms: delete_from_ms,
+        previous_end_ms: before ? Date.parse(before.end) : null,
+        last_trip: null,
+        rejected: since <= span.first_ms ? {} : { ...(prev?.rejected ?? {}) },
+      };
+    }
+    const got = await catchUpVehicle(deps.samples, model, span, start, clock(), o);
+    stats.samples_analysed += got.samples;
+    stats.trips_analysed += got.trips.length;
+    if (got.trips.length || redo) {
+      const fence = held.fence(prev?.analysed_to_ms ?? null);
+      await commit(model, {
+        trips: got.trips,
+        state: got.state,
+        ...(delete_from_ms === undefined ? {} : { delete_from_ms }),
+        ...(fence ? { fence } : {}),
+      });
+    }
+    return got.state.analysed_to_ms <= span.last_ms && !tripGoingOn(span.last_ms, clock(), o.trip_gap_s);
   }
 
   function enqueue(work: () => Promise<void>): Promise<void> {
@@ -211,4 +293,17 @@ export function createAnalyzer(deps: AnalyzerDeps, options: Partial<AnalyzerOpti
       await chain;
     },
   };
+}
+
+/** `list` started at `offset` (mod its length) and wrapped around. */
+function rotate<T>(list: readonly T[], offset: number): T[] {
+  const k = list.length ? offset % list.length : 0;
+  return [...list.slice(k), ...list.slice(0, k)];
+}
+
+/** A small non-negative hash of a name (FNV-1a). */
+function hashOf(name: string): number {
+  let h = 0x811c9dc5;
+  for (let i = 0; i < name.length; i++) h = Math.imul(h ^ name.charCodeAt(i), 0x01000193);
+  return h >>> 0;
 }

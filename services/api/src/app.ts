@@ -95,7 +95,7 @@ export function createApi(deps: ApiDeps): Hono {
     ...readRoutes(x),
     ...traceRoutes(x),
     ...writeRoutes(x),
-    ...eventRoutes(hub, deps.tokens),
+    ...eventRoutes(hub, deps.tokens, deps.changes),
     ...sizingRoutes(x),
     ...meRoutes(),
     ...intakeRoutes(x),

@@ -3,6 +3,7 @@ import type { AnalyzerStats } from '@thermargin/analyzer/analyzer';
 import type { LoadedFleet } from '@thermargin/usecases/fleet-file';
 import type { SampleStore } from '@thermargin/store';
 import type { AnalysisStore } from '@thermargin/store/analysis';
+import type { ResultChanges } from '@thermargin/store/changes';
 import type { WorkflowStore } from '@thermargin/store/workflow';
 import type { AuthBackoffOptions } from './auth-backoff.ts';
 import type { RateLimitOptions } from './rate-limit.ts';
@@ -21,6 +22,8 @@ export interface ApiDeps {
   samples: SampleStore;
   results: AnalysisStore;
   workflow: WorkflowStore;
+  /** Numbered result commits and their notifications (PostgreSQL): live trip events, resumable. */
+  changes?: ResultChanges;
   fleet: FleetSource;
   tokens: TokenRegistry;
   /** An analyzer in the same process: its stats go to /api/status, fleet changes re-analyse through it. */

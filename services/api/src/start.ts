@@ -45,6 +45,7 @@ export async function serveApi(
     samples: pieces.samples,
     results: pieces.results,
     workflow: pieces.workflow,
+    ...(pieces.changes ? { changes: pieces.changes } : {}),
     fleet: pieces.fleet,
     tokens: pieces.tokens,
     ...(analyzer ? { analyzer } : {}),

@@ -2,6 +2,7 @@ import { type Analyzer, createAnalyzer } from '@thermargin/analyzer/analyzer';
 import type { Logger } from '@thermargin/shared/log';
 import { openSampleStore, type SampleStore } from '@thermargin/store';
 import type { AnalysisStore } from '@thermargin/store/analysis';
+import type { ResultChanges } from '@thermargin/store/changes';
 import { openResults, type ResultsBackend } from '@thermargin/store/results-backend';
 import type { WorkflowStore } from '@thermargin/store/workflow';
 import type { ApiConfig } from './config.ts';
@@ -14,6 +15,8 @@ export interface ApiPieces {
   samples: SampleStore;
   results: AnalysisStore;
   workflow: WorkflowStore;
+  /** Numbered result commits and their notifications (PostgreSQL); undefined on SQLite. */
+  changes: ResultChanges | undefined;
   fleet: FleetSource;
   tokens: TokenRegistry;
   /** The in-process analyzer (API_RUN_ANALYZER=1), already polling. */
@@ -41,8 +44,8 @@ export async function wireApi(
   const samples = openSampleStore(deployment.samples);
   const opened: ResultsBackend[] = [];
   try {
-    opened.push(await openResults(deployment.results, o.log));
-    if (config.run_analyzer) opened.push(await openResults(deployment.results, o.log));
+    opened.push(await openResults(deployment.results, { log: o.log }));
+    if (config.run_analyzer) opened.push(await openResults(deployment.results, { log: o.log }));
   } catch (e) {
     for (const r of opened) await r.close();
     await samples.close();
@@ -57,6 +60,7 @@ export async function wireApi(
         results: forAnalyzer.analysis,
         fleet: () => fleet.current().models,
         extraMaintenance: async (v) => (await forAnalyzer.workflow.maintenance(v)).map((m) => m.entry),
+        ...(forAnalyzer.leases ? { leases: forAnalyzer.leases } : {}),
         clock: o.clock,
         log: o.log,
       },
@@ -68,6 +72,7 @@ export async function wireApi(
     samples,
     results: own.analysis,
     workflow: own.workflow,
+    changes: own.changes,
     fleet,
     tokens: new TokenRegistry(configured, own.workflow),
     analyzer,

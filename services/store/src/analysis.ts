@@ -1,4 +1,5 @@
 import type { TripResult, VehicleResult } from '@thermargin/shared';
+import type { Lease } from './leases.ts';
 import type { ResultsStore } from './store.ts';
 
 /** Per vehicle: how far the analyzer got, and what the health module gave beyond the VehicleResult. */
@@ -29,6 +30,12 @@ export interface AnalysisCommit {
   result: VehicleResult;
   analysis: Omit<StoredAnalysis, 'vehicle' | 'version' | 'updated_ms'>;
   now_ms: number;
+  /**
+   * An analyzer replica's commit: refused (LeaseLostError, WatermarkMovedError; nothing written) unless
+   * `lease` is still held and the stored watermark is still `from_ms` (null: none stored), and recorded
+   * in the analysis log. Ignored by SQLite, which has one analyzer.
+   */
+  fence?: { lease: Lease; from_ms: number | null };
 }
 
 /**

@@ -31,6 +31,22 @@ export const MIGRATIONS: readonly { version: number; name: string; sql: string }
         id bigserial PRIMARY KEY, at_ms bigint NOT NULL, by_name text NOT NULL, role text NOT NULL,
         action text NOT NULL, target text NOT NULL, detail text NOT NULL);`,
   },
+  {
+    version: 2,
+    name: 'analyzer replicas: vehicle leases, analysis log, change ids for live events',
+    sql: `
+      CREATE TABLE vehicle_leases (
+        vehicle text PRIMARY KEY, holder text NOT NULL, epoch bigint NOT NULL,
+        acquired_at timestamptz NOT NULL, expires_at timestamptz NOT NULL);
+      CREATE TABLE analysis_log (
+        id bigserial PRIMARY KEY, vehicle text NOT NULL, holder text NOT NULL, epoch bigint NOT NULL,
+        began_at timestamptz NOT NULL, committed_at timestamptz NOT NULL,
+        from_ms bigint, to_ms bigint NOT NULL, trips_written integer NOT NULL, redo boolean NOT NULL);
+      CREATE INDEX analysis_log_by_vehicle ON analysis_log (vehicle, id);
+      CREATE SEQUENCE result_change;
+      ALTER TABLE trip_results ADD COLUMN change_id bigint NOT NULL DEFAULT 0;
+      CREATE INDEX trip_results_by_change ON trip_results (change_id);`,
+  },
 ];
 
 /** Advisory lock key of the migration step (any constant no other lock uses). */

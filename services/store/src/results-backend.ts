@@ -1,8 +1,12 @@
 import type { Logger } from '@thermargin/shared/log';
 import type { AnalysisStore } from './analysis.ts';
+import type { ResultChanges } from './changes.ts';
 import type { ResultsConfig } from './config.ts';
+import type { VehicleLeases } from './leases.ts';
 import { createPostgresAnalysisStore } from './postgres-analysis.ts';
+import { createPostgresChanges } from './postgres-changes.ts';
 import { PostgresDb } from './postgres-db.ts';
+import { createPostgresLeases, LEASE_DEFAULTS, replicaName } from './postgres-leases.ts';
 import { createPostgresWorkflowStore } from './postgres-workflow.ts';
 import { createAnalysisStore, openResultsDb } from './sqlite-analysis-store.ts';
 import { createWorkflowStore } from './sqlite-workflow.ts';
@@ -13,22 +17,50 @@ export interface ResultsBackend {
   readonly kind: ResultsConfig['kind'];
   readonly analysis: AnalysisStore;
   readonly workflow: WorkflowStore;
+  /** Leases for analyzer replicas (PostgreSQL); undefined where one analyzer is the only writer (SQLite). */
+  readonly leases: VehicleLeases | undefined;
+  /** Numbered commits and their notifications (PostgreSQL); undefined on SQLite, read by polling. */
+  readonly changes: ResultChanges | undefined;
   close(): Promise<void>;
 }
 
+export interface OpenResultsOptions {
+  log?: Logger;
+  /** This process's name in the lease table (default: host, pid and a random part). */
+  holder?: string;
+  /** ms: lease lifetime (LEASE_DEFAULTS.ttl_ms). */
+  lease_ttl_ms?: number;
+}
+
 /** Opens the results database a configuration names; PostgreSQL is migrated to this version's schema first. */
-export async function openResults(config: ResultsConfig, log?: Logger): Promise<ResultsBackend> {
+export async function openResults(
+  config: ResultsConfig,
+  o: OpenResultsOptions = {},
+): Promise<ResultsBackend> {
   if (config.kind === 'sqlite') {
     const db = openResultsDb(config.path);
     const analysis = createAnalysisStore(db);
-    return { kind: 'sqlite', analysis, workflow: createWorkflowStore(db), close: () => analysis.close() };
+    return {
+      kind: 'sqlite',
+      analysis,
+      workflow: createWorkflowStore(db),
+      leases: undefined,
+      changes: undefined,
+      close: () => analysis.close(),
+    };
   }
   const { kind: _, ...options } = config;
-  const db = await PostgresDb.open(options, log);
+  const db = await PostgresDb.open(options, o.log);
+  const changes = createPostgresChanges(db, o.log);
   return {
     kind: 'postgres',
     analysis: createPostgresAnalysisStore(db),
     workflow: createPostgresWorkflowStore(db),
-    close: () => db.close(),
+    leases: createPostgresLeases(db, o.holder ?? replicaName(), o.lease_ttl_ms ?? LEASE_DEFAULTS.ttl_ms),
+    changes,
+    async close() {
+      await changes.close();
+      await db.close();
+    },
   };
 }

@@ -1,5 +1,5 @@
 import type { MaintenanceEntry, Status, TripResult } from '@thermargin/shared';
-import type { AnalysisStore, StoredAnalysis } from '@thermargin/store/analysis';
+import type { AnalysisCommit, AnalysisStore, StoredAnalysis } from '@thermargin/store/analysis';
 import { vehicleResult, withMaintenance } from '@thermargin/core/vehicle-result';
 import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
 
@@ -24,6 +24,8 @@ export interface AssessInput {
   delete_from_ms?: number;
   /** The watermark and context to store; undefined keeps the stored one (a re-assessment). */
   state?: AnalysisProgress;
+  /** An analyzer replica's lease and the watermark it began from (see AnalysisCommit). */
+  fence?: AnalysisCommit['fence'];
 }
 
 export interface AssessOutcome {
@@ -62,6 +64,7 @@ export function assessAndCommit(
       vehicle: model.id,
       trips: result.trips,
       ...(input.delete_from_ms === undefined ? {} : { delete_from_ms: input.delete_from_ms }),
+      ...(input.fence ? { fence: input.fence } : {}),
       result,
       analysis: {
         analysed_to_ms: state.analysed_to_ms,
