@@ -1,14 +1,13 @@
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { type RunningApi, startApi } from '@thermargin/api/start';
-import type { Sample } from '@thermargin/shared';
 import { createScenario } from '@thermargin/simulator';
-import { createSqliteStore } from '@thermargin/store';
 import { openResults } from '@thermargin/store/results-backend';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { runCli } from '../../support/run-cli.ts';
 import { type PostgresServer, startPostgres } from '../../support/servers/postgres.ts';
+import { writeScenarioFiles } from '../../support/write-samples.ts';
 import { TOKENS } from './stack.ts';
 
 /**
@@ -24,17 +23,9 @@ const env: Record<'sqlite' | 'postgres', Record<string, string>> = { sqlite: {},
 const apis: Partial<Record<'sqlite' | 'postgres', RunningApi>> = {};
 
 beforeAll(async () => {
-  const samplesPath = join(dir, 'samples.db');
-  const samples = createSqliteStore({ path: samplesPath, synchronous: 'normal' });
-  for (const id of ids) {
-    const all: Sample[] = [...scenario.vehicleSamples(id)];
-    for (let i = 0; i < all.length; i += 20_000) await samples.writeSamples(all.slice(i, i + 20_000));
-  }
-  await samples.close();
-  const fleetFile = join(dir, 'fleet.json');
-  writeFileSync(fleetFile, JSON.stringify(scenario.fleet));
+  const { samples_path, fleet_file } = await writeScenarioFiles(dir, scenario);
   server = await startPostgres();
-  const common = { STORE_KIND: 'sqlite', STORE_SQLITE_PATH: samplesPath, FLEET_FILE: fleetFile };
+  const common = { STORE_KIND: 'sqlite', STORE_SQLITE_PATH: samples_path, FLEET_FILE: fleet_file };
   env.sqlite = { ...common, RESULTS_KIND: 'sqlite', RESULTS_SQLITE_PATH: join(dir, 'results.db') };
   env.postgres = {
     ...common,

@@ -1,4 +1,4 @@
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { analyzeVehicle } from '@thermargin/core/analyze';
@@ -6,7 +6,6 @@ import { vehicleResult } from '@thermargin/core/vehicle-result';
 import { resolveFleet } from '@thermargin/core/vehicle/resolve';
 import { columnsFromSamples, type Sample, type TripResult } from '@thermargin/shared';
 import { createScenario } from '@thermargin/simulator';
-import { createSqliteStore } from '@thermargin/store';
 import { openResults, type ResultsBackend } from '@thermargin/store/results-backend';
 import pg from 'pg';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -14,6 +13,7 @@ import { freePort, waitFor } from '../../support/servers/free-port.ts';
 import { type PostgresServer, startPostgres } from '../../support/servers/postgres.ts';
 import { ServiceProcess } from '../../support/service-process.ts';
 import { SseClient } from '../../support/sse-client.ts';
+import { writeScenarioFiles } from '../../support/write-samples.ts';
 
 /**
  * Two analyzers and two APIs as real processes on one PostgreSQL, a fleet's backlog waiting in the
@@ -56,22 +56,14 @@ async function sql<R extends pg.QueryResultRow>(text: string, params: unknown[] 
 }
 
 beforeAll(async () => {
-  const samplesPath = join(dir, 'samples.db');
-  const store = createSqliteStore({ path: samplesPath, synchronous: 'normal' });
-  for (const id of ids) {
-    const all: Sample[] = [...scenario.vehicleSamples(id)];
-    for (let i = 0; i < all.length; i += 20_000) await store.writeSamples(all.slice(i, i + 20_000));
-  }
-  await store.close();
-  const fleetFile = join(dir, 'fleet.json');
-  writeFileSync(fleetFile, JSON.stringify(scenario.fleet));
+  const { samples_path, fleet_file } = await writeScenarioFiles(dir, scenario);
   server = await startPostgres();
   url = await server.createDatabase('replicas');
   results = await openResults({ kind: 'postgres', url });
   const common = {
     STORE_KIND: 'sqlite',
-    STORE_SQLITE_PATH: samplesPath,
-    FLEET_FILE: fleetFile,
+    STORE_SQLITE_PATH: samples_path,
+    FLEET_FILE: fleet_file,
     RESULTS_KIND: 'postgres',
     RESULTS_POSTGRES_URL: url,
   };
