@@ -13,7 +13,7 @@ import { interpolate, readCompose, readEnvFile, referencedVariables, ROOT } from
 /**
  * No container runtime runs here, so docker-compose.yml, the Dockerfile and .env.example are checked
  * as files: what they name exists, every variable a service is given is one that service reads, each
- * service's configuration parses, and the README's deployment table matches the services.
+ * service's configuration parses, and docs/deployment.md's table matches the services.
  * (tests/deploy/topology.test.ts starts the same services as processes on real servers.)
  */
 const compose = readCompose();
@@ -160,11 +160,11 @@ describe('docker-compose.yml', () => {
       expect(services[name]!.volumes).toContain('./examples/fleet.json:/fleet/fleet.json:ro');
   });
 
-  it('is what the README describes: every service its deployment table names', () => {
-    const readme = readFileSync(join(ROOT, 'README.md'), 'utf8');
-    const section = readme.slice(
-      readme.indexOf('## Deployment'),
-      readme.indexOf('\n## ', readme.indexOf('## Deployment') + 3),
+  it('is what docs/deployment.md describes: every service its table names', () => {
+    const doc = readFileSync(join(ROOT, 'docs/deployment.md'), 'utf8');
+    const section = doc.slice(
+      doc.indexOf('## The compose file'),
+      doc.indexOf('\n## ', doc.indexOf('## The compose file') + 3),
     );
     const named = [...section.matchAll(/^\| ((?:`[a-z0-9-]+`(?:, )?)+) \|/gm)].flatMap((m) =>
       [...m[1]!.matchAll(/`([a-z0-9-]+)`/g)].map((x) => x[1]!),
