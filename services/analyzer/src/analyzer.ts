@@ -4,6 +4,7 @@ import {
   isStorageError,
   type LateMark,
   type SampleStore,
+  storeEngine,
   storeFault,
   type VehicleSpan,
 } from '@thermargin/store';
@@ -247,7 +248,9 @@ export function createAnalyzer(deps: AnalyzerDeps, options: Partial<AnalyzerOpti
         stats.last_error = null;
       } catch (e) {
         // A store that refuses (disk full, read-only, locked) is said so, as every part says it.
-        stats.last_error = isStorageError(e) ? `store: ${storeFault(e).reason}` : (e as Error).message;
+        stats.last_error = isStorageError(e)
+          ? `${storeNamed(e)}: ${storeFault(e).reason}`
+          : (e as Error).message;
         log('analyzer_error', { error: stats.last_error });
         throw e;
       } finally {
@@ -299,6 +302,12 @@ export function createAnalyzer(deps: AnalyzerDeps, options: Partial<AnalyzerOpti
 function rotate<T>(list: readonly T[], offset: number): T[] {
   const k = list.length ? offset % list.length : 0;
   return [...list.slice(k), ...list.slice(0, k)];
+}
+
+/** The store an error came from, as far as its code tells: its database, else just "store". */
+function storeNamed(e: unknown): string {
+  const engine = storeEngine(e);
+  return engine ? `store (${engine})` : 'store';
 }
 
 /** A small non-negative hash of a name (FNV-1a). */

@@ -121,12 +121,14 @@ export function createApi(deps: ApiDeps): Hono {
       if (e.status === 503) deps.log?.('api_store_unavailable', { path: c.req.path, error: e.message });
       return c.json(errorBody(e), e.status);
     }
-    // The results store (SQLite) failing a write: disk full, read-only, locked — said as it is.
+    // The results store failing: disk full, read-only, locked, not answering — said as it is.
     if (isStorageError(e)) {
       const f = storeFault(e);
       deps.log?.('api_store_unavailable', { path: c.req.path, kind: f.kind, error: f.reason });
       return c.json(
-        errorBody(new HttpError(503, 'store_unavailable', `results store (sqlite): ${f.reason}`)),
+        errorBody(
+          new HttpError(503, 'store_unavailable', `results store (${deps.results.kind}): ${f.reason}`),
+        ),
         503,
       );
     }

@@ -44,6 +44,8 @@ export interface AnalysisCommit {
  * and PostgreSQL (postgres-analysis.ts); tests/services/store/results-contract.ts holds both to it.
  */
 export interface AnalysisStore extends ResultsStore {
+  /** The database it is kept in, for messages about it. */
+  readonly kind: 'sqlite' | 'postgres';
   readAnalysis(vehicle: string): Promise<StoredAnalysis | undefined>;
   readAnalyses(): Promise<StoredAnalysis[]>;
   /** vehicle → version, cheap: for cache checks. */

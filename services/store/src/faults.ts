@@ -9,11 +9,27 @@ export interface StoreFault {
   reason: string;
 }
 
-/** Whether `e` came from the storage itself (a SQLite result code, a file-system errno, a check of ours). */
+/** PostgreSQL SQLSTATEs of the server or its storage, not of the statement: connection (08), resources
+ *  (53), operator intervention such as a shutdown (57), system (58), read-only, lock not available,
+ *  a transaction cut off for idling (25P03). */
+const POSTGRES_STORAGE = /^(08|53|57|58)[0-9A-Z]{3}$|^25006$|^55P03$|^25P03$/;
+
+/** Whether `e` came from the storage itself (a SQLite result code, a PostgreSQL server state, a
+ *  file-system errno, a check of ours) rather than from a mistake in what was asked of it. */
 export function isStorageError(e: unknown): boolean {
   if (e instanceof StoreFaultError) return true;
   const code = (e as { code?: unknown })?.code;
-  return typeof code === 'string' && /^SQLITE_|^E[A-Z]+$/.test(code);
+  return typeof code === 'string' && (/^SQLITE_|^E[A-Z]+$/.test(code) || POSTGRES_STORAGE.test(code));
+}
+
+/** The database an error came from, by its code: SQLite's result codes, PostgreSQL's SQLSTATEs
+ *  (its errors carry a severity); undefined for a file-system error or one without a code. */
+export function storeEngine(e: unknown): 'sqlite' | 'postgres' | undefined {
+  const err = e as { code?: unknown; severity?: unknown };
+  if (typeof err?.code !== 'string') return undefined;
+  if (err.code.startsWith('SQLITE_')) return 'sqlite';
+  if (/^[0-9A-Z]{5}$/.test(err.code) && typeof err.severity === 'string') return 'postgres';
+  return undefined;
 }
 
 /** What a storage error means: its kind and its words (the error's own code and message kept). */
@@ -25,7 +41,9 @@ export function storeFault(e: unknown): StoreFault {
   // An error that wraps the storage's own (an HTTP 503 made of it): what the storage said.
   if (e instanceof Error && e.cause !== undefined && isStorageError(e.cause)) return storeFault(e.cause);
   const kind = faultKind(code);
-  const own = !code || message.startsWith(code) ? message : `${code}: ${message}`;
+  // PostgreSQL's SQLSTATE is said as such: a bare "53100" means nothing to a reader.
+  const said = storeEngine(e) === 'postgres' ? `SQLSTATE ${code}` : code;
+  const own = !code || message.startsWith(code) ? message : `${said}: ${message}`;
   return { kind, reason: `${FAULT_WORDS[kind]} (${own})` };
 }
 

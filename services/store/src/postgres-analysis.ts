@@ -94,6 +94,7 @@ export function createPostgresAnalysisStore(db: PostgresDb): AnalysisStore {
   };
 
   return {
+    kind: 'postgres',
     putTripResults,
     readTripResults,
     putVehicleResult,

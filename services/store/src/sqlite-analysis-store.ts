@@ -59,6 +59,7 @@ export function createAnalysisStore(db: Database.Database): AnalysisStore {
   }
 
   return {
+    kind: 'sqlite',
     ...results,
     async readAnalysis(vehicle) {
       const r = selectOne.get(vehicle) as Row | undefined;

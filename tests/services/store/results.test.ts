@@ -1,6 +1,7 @@
 import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { isStorageError, storeEngine, storeFault } from '@thermargin/store';
 import { MIGRATIONS, migrate } from '@thermargin/store/postgres-migrations';
 import { openResults } from '@thermargin/store/results-backend';
 import pg from 'pg';
@@ -26,6 +27,31 @@ afterAll(async () => {
 resultsContract('postgres (real PostgreSQL 15)', async () => {
   const url = await server.createDatabase(`results_${n++}`);
   return { connect: () => openResults({ kind: 'postgres', url }), concurrent: true };
+});
+
+describe('postgres faults', () => {
+  it('a read-only database is said as such, naming PostgreSQL', async () => {
+    const name = `faults_${n++}`;
+    const url = await server.createDatabase(name);
+    const admin = new pg.Client({ connectionString: url });
+    await admin.connect();
+    try {
+      // What an operator's switch (or a hot standby) does to every new transaction.
+      await admin.query(`ALTER DATABASE ${name} SET default_transaction_read_only = on`);
+    } finally {
+      await admin.end();
+    }
+    const e = await openResults({ kind: 'postgres', url }).then(
+      (r) => r.close(),
+      (x: unknown) => x,
+    );
+    expect(isStorageError(e)).toBe(true);
+    expect(storeEngine(e)).toBe('postgres');
+    expect(storeFault(e)).toEqual({
+      kind: 'read_only',
+      reason: 'read-only (SQLSTATE 25006: cannot execute CREATE TABLE in a read-only transaction)',
+    });
+  });
 });
 
 describe('postgres migrations', () => {
