@@ -12,12 +12,25 @@ export interface PostgresOptions {
   connect_timeout_ms?: number;
   /** ms: a statement running longer is cancelled by the server. */
   statement_timeout_ms?: number;
+  /**
+   * ms: a transaction left waiting on this process longer is ended by the server, which releases its
+   * locks. A process that stalls (paused, swapping, cut off) mid-transaction would otherwise hold the
+   * vehicle's lock, its lease row and the change counter's lock for as long as it stalls, and every
+   * other replica would wait on it; with this no longer than the lease, a stalled replica's vehicles
+   * are taken over within the lease time, as a dead one's are.
+   */
+  idle_in_transaction_timeout_ms?: number;
+  /** How this process's sessions show in pg_stat_activity (a replica: its name in the lease table). */
+  application_name?: string;
 }
 
 export const POSTGRES_DEFAULTS = {
   max_connections: 8,
   connect_timeout_ms: 5000,
   statement_timeout_ms: 60_000,
+  /** As LEASE_DEFAULTS.ttl_ms. */
+  idle_in_transaction_timeout_ms: 30_000,
+  application_name: 'thermargin',
 };
 
 type Params = readonly unknown[];
@@ -38,7 +51,8 @@ const types = {
  */
 export class PostgresDb {
   readonly pool: pg.Pool;
-  private readonly tx = new AsyncLocalStorage<pg.PoolClient>();
+  /** The open transaction's connection, and the error that ended its session if the server did. */
+  private readonly tx = new AsyncLocalStorage<{ client: pg.PoolClient; lost?: Error }>();
 
   private constructor(
     readonly options: Required<PostgresOptions>,
@@ -49,7 +63,8 @@ export class PostgresDb {
       max: options.max_connections,
       connectionTimeoutMillis: options.connect_timeout_ms,
       statement_timeout: options.statement_timeout_ms,
-      application_name: 'thermargin',
+      idle_in_transaction_session_timeout: options.idle_in_transaction_timeout_ms,
+      application_name: options.application_name,
       types,
     });
     // A server restart kills idle connections; the pool drops them and opens new ones on demand.
@@ -72,7 +87,9 @@ export class PostgresDb {
     sql: string,
     params: Params = [],
   ): Promise<pg.QueryResult<R>> {
-    return (this.tx.getStore() ?? this.pool).query<R>(sql, params as unknown[]);
+    const tx = this.tx.getStore();
+    if (tx?.lost) throw tx.lost;
+    return (tx?.client ?? this.pool).query<R>(sql, params as unknown[]);
   }
 
   async rows<R extends pg.QueryResultRow = Record<string, unknown>>(
@@ -90,10 +107,19 @@ export class PostgresDb {
   async transaction<T>(work: () => Promise<T>): Promise<T> {
     if (this.inTransaction) return work();
     const client = await this.pool.connect();
+    const tx: { client: pg.PoolClient; lost?: Error } = { client };
     let broken: Error | undefined;
+    // The server ending the session between statements (idle-in-transaction timeout, shutdown) is an
+    // 'error' event on a connection the pool no longer watches: without a listener it would end the
+    // process; the transaction's next statement fails with it instead (its SQLSTATE kept).
+    const lost = (e: Error) => {
+      tx.lost ??= e;
+    };
+    client.on('error', lost);
     try {
       await client.query('BEGIN');
-      const out = await this.tx.run(client, work);
+      const out = await this.tx.run(tx, work);
+      if (tx.lost) throw tx.lost;
       await client.query('COMMIT');
       return out;
     } catch (e) {
@@ -102,7 +128,8 @@ export class PostgresDb {
       });
       throw e;
     } finally {
-      client.release(broken);
+      client.off('error', lost);
+      client.release(broken ?? tx.lost);
     }
   }
 

@@ -50,13 +50,19 @@ export async function openResults(
     };
   }
   const { kind: _, ...options } = config;
-  const db = await PostgresDb.open(options, o.log);
+  const ttl_ms = o.lease_ttl_ms ?? LEASE_DEFAULTS.ttl_ms;
+  const holder = o.holder ?? replicaName();
+  const db = await PostgresDb.open(
+    // A transaction stalled longer than a lease is ended by the server (see PostgresDb).
+    { idle_in_transaction_timeout_ms: ttl_ms, application_name: `thermargin ${holder}`, ...options },
+    o.log,
+  );
   const changes = createPostgresChanges(db, o.log);
   return {
     kind: 'postgres',
     analysis: createPostgresAnalysisStore(db),
     workflow: createPostgresWorkflowStore(db),
-    leases: createPostgresLeases(db, o.holder ?? replicaName(), o.lease_ttl_ms ?? LEASE_DEFAULTS.ttl_ms),
+    leases: createPostgresLeases(db, holder, ttl_ms),
     changes,
     async close() {
       await changes.close();

@@ -120,17 +120,21 @@ describe('replicas on PostgreSQL under faults', () => {
       },
       120_000,
     );
-    // Frozen (SIGSTOP) as soon as it holds a lease on work not yet committed: a pause longer than the
-    // lease, as a stalled machine would make.
+    // Frozen (SIGSTOP) in the middle of a commit on a lease, a pause longer than the lease, as a
+    // stalled machine would make: its open transaction holds the vehicle's lock, the lease row and the
+    // change counter's lock until the server ends it after the lease time
+    // (idle_in_transaction_session_timeout); without that analyzer-2 would wait on it for ever.
     await waitFor(
-      'analyzer-1 holding a lease on uncommitted work',
+      'analyzer-1 mid-commit on a lease',
       async () => {
         if (!analyzer1!.running) throw new Error(analyzer1!.log());
         process.kill(analyzer1!.pid!, 'SIGSTOP');
         const [held] = await sql<{ vehicle: string; epoch: number; expires_at: Date }>(
           `SELECT l.vehicle, l.epoch::int, l.expires_at FROM vehicle_leases l WHERE l.holder = 'analyzer-1'
              AND l.expires_at > clock_timestamp() AND NOT EXISTS (SELECT 1 FROM analysis_log a
-               WHERE a.vehicle = l.vehicle AND a.holder = l.holder AND a.epoch = l.epoch)`,
+               WHERE a.vehicle = l.vehicle AND a.holder = l.holder AND a.epoch = l.epoch)
+             AND EXISTS (SELECT 1 FROM pg_stat_activity WHERE application_name = 'thermargin analyzer-1'
+               AND state = 'idle in transaction')`,
         );
         if (held) killedLease = held;
         else process.kill(analyzer1!.pid!, 'SIGCONT');

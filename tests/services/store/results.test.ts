@@ -54,6 +54,48 @@ describe('postgres faults', () => {
   });
 });
 
+describe('postgres replicas that stall', () => {
+  it("a transaction stalled past the lease time is ended by the server: its vehicle's lock is free again", async () => {
+    const url = await server.createDatabase(`stall_${n++}`);
+    const stalled = await openResults({ kind: 'postgres', url }, { lease_ttl_ms: 500 });
+    const other = await openResults({ kind: 'postgres', url });
+    try {
+      let resume!: () => void;
+      const paused = new Promise<void>((r) => {
+        resume = r;
+      });
+      let holding!: () => void;
+      const held = new Promise<void>((r) => {
+        holding = r;
+      });
+      // A replica that takes the vehicle's lock, then stops answering (as a paused process does) until
+      // the other replica has had its turn: without the server's timeout, neither would ever go on.
+      const first = stalled.analysis.exclusive('bus-01', async () => {
+        holding();
+        await paused;
+        await stalled.analysis.readAnalysis('bus-01');
+      });
+      first.catch(() => {});
+      await held;
+      await other.analysis.exclusive('bus-01', async () => {
+        await other.analysis.readAnalysis('bus-01');
+      });
+      resume();
+      const e = await first.then(
+        () => undefined,
+        (x: unknown) => x,
+      );
+      expect(isStorageError(e)).toBe(true);
+      expect(storeFault(e).reason).toMatch(/idle-in-transaction timeout/);
+      // The pool gave the dead connection up: the stalled replica's next call works.
+      expect(await stalled.analysis.readAnalysis('bus-01')).toBeUndefined();
+    } finally {
+      await stalled.close();
+      await other.close();
+    }
+  });
+});
+
 describe('postgres migrations', () => {
   it('apply each step once, also when replicas start together, and refuse a newer schema', async () => {
     const url = await server.createDatabase(`migrations_${n++}`);
