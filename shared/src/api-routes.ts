@@ -198,8 +198,8 @@ export const API_ROUTES = {
     role: 'viewer',
     summary:
       'Server-sent events: trip (new trip result), status (status change), sample (newest sample per vehicle); ' +
-      'revoked (the token was revoked: the stream ends). With PostgreSQL results each trip event has an id; ' +
-      'a client reconnecting with Last-Event-ID (to any API replica) first gets the trips it missed',
+      'revoked (the token was revoked: the stream ends). With PostgreSQL results each trip and status event has an id; ' +
+      'a client reconnecting with Last-Event-ID (to any API replica) first gets the trips and status changes it missed',
     response: null,
   },
   sizing: {

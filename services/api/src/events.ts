@@ -1,6 +1,6 @@
 import { type ApiEvent, type Status, withoutWindows } from '@thermargin/shared';
 import { streamSSE } from 'hono/streaming';
-import type { ResultChanges, TripChange } from '@thermargin/store/changes';
+import type { ResultChange, ResultChanges } from '@thermargin/store/changes';
 import type { ApiContext } from './context.ts';
 import type { Handlers } from './route.ts';
 import type { TokenEntry, TokenRegistry } from './tokens.ts';
@@ -8,20 +8,21 @@ import type { TokenEntry, TokenRegistry } from './tokens.ts';
 /** An event with, where results are numbered (PostgreSQL), the change and place a client resumes after. */
 export type HubEvent = ApiEvent & { change?: { id: number; index: number } };
 
-const tripEvent = (c: TripChange): HubEvent => ({
-  event: 'trip',
-  data: { vehicle: c.vehicle, trip: withoutWindows(c.trip) },
-  change: { id: c.id, index: c.index },
-});
+const changeEvent = (c: ResultChange): HubEvent => {
+  const change = { id: c.id, index: c.index };
+  return c.kind === 'trip'
+    ? { event: 'trip', data: { vehicle: c.vehicle, trip: withoutWindows(c.trip) }, change }
+    : { event: 'status', data: { vehicle: c.vehicle, from: c.from, to: c.to, time: c.time }, change };
+};
 type Listener = (e: HubEvent) => void;
 
 /**
  * Live events for every subscriber, found by polling (works whether the analyzer runs in this process
- * or another): results whose version moved give `status` events; the sample store's newest sample per
- * vehicle gives `sample` events. `trip` events: on PostgreSQL from the numbered changes (every commit by
- * any analyzer, woken at once by its notification, each event carrying its change id); on SQLite from
- * trips not seen before (or with a changed end). Polls only while someone listens; the first poll only
- * takes stock.
+ * or another): the sample store's newest sample per vehicle gives `sample` events. `trip` and `status`
+ * events: on PostgreSQL from the numbered changes (every commit by any analyzer, woken at once by its
+ * notification, each event carrying its change id); on SQLite from results whose version moved (trips
+ * not seen before or with a changed end, a status other than the one seen). Polls only while someone
+ * listens; the first poll only takes stock.
  */
 export class EventHub {
   private readonly listeners = new Set<Listener>();
@@ -95,45 +96,48 @@ export class EventHub {
     if (this.primed) for (const l of this.listeners) l(e);
   }
 
-  /** Trip events of the changes after lastChange, in order. */
+  /** Trip and status events of the changes after lastChange, in order. */
   private async pollChanges(changes: ResultChanges): Promise<void> {
     if (!this.primed) {
       this.lastChange = await changes.latest();
       return;
     }
     for (;;) {
-      const list = await changes.tripsSince(this.lastChange);
+      const list = await changes.since(this.lastChange);
       for (const c of list) {
-        this.emit(tripEvent(c));
+        this.emit(changeEvent(c));
         this.lastChange = c.id;
       }
       if (list.length === 0) return;
     }
   }
 
-  async poll(): Promise<void> {
-    const { results, changes } = this.x.deps;
-    if (changes) await this.pollChanges(changes);
-    for (const [vehicle, v] of await results.versions()) {
+  /** Trip and status events of the results whose version moved (SQLite: no numbered changes). */
+  private async pollVersions(): Promise<void> {
+    for (const [vehicle, v] of await this.x.deps.results.versions()) {
       if (this.versions.get(vehicle) === v) continue;
       this.versions.set(vehicle, v);
       const d = await this.x.reader.vehicle(vehicle);
       if (!d) continue;
-      if (!changes) {
-        const seen = this.trips.get(vehicle) ?? new Map<string, string>();
-        for (const t of d.result.trips) {
-          if (seen.get(t.trip) !== t.end)
-            this.emit({ event: 'trip', data: { vehicle, trip: withoutWindows(t) } });
-          seen.set(t.trip, t.end);
-        }
-        this.trips.set(vehicle, seen);
+      const seen = this.trips.get(vehicle) ?? new Map<string, string>();
+      for (const t of d.result.trips) {
+        if (seen.get(t.trip) !== t.end)
+          this.emit({ event: 'trip', data: { vehicle, trip: withoutWindows(t) } });
+        seen.set(t.trip, t.end);
       }
+      this.trips.set(vehicle, seen);
       const to = d.result.status ?? 'ok';
       const from = this.statuses.get(vehicle) ?? null;
       if (from !== to)
         this.emit({ event: 'status', data: { vehicle, from, to, time: d.result.trips.at(-1)?.end ?? '' } });
       this.statuses.set(vehicle, to);
     }
+  }
+
+  async poll(): Promise<void> {
+    const { changes } = this.x.deps;
+    if (changes) await this.pollChanges(changes);
+    else await this.pollVersions();
     for (const s of (await this.x.reader.latest()).values()) {
       if (this.samples.get(s.vehicle) === s.time_ms) continue;
       this.samples.set(s.vehicle, s.time_ms);
@@ -159,7 +163,8 @@ export class EventHub {
 /** s, 15: a comment line this often keeps proxies from closing an idle stream. */
 const KEEPALIVE_MS = 15_000;
 
-/** The trips a client missed: after trip `index` of change `id` up to change `upTo`, in order. */
+/** The trips and status changes a client missed: after place `index` of change `id` up to change
+ *  `upTo`, in order. */
 async function missed(
   changes: ResultChanges,
   after: { id: number; index: number },
@@ -167,15 +172,15 @@ async function missed(
 ): Promise<HubEvent[]> {
   const out: HubEvent[] = [];
   for (let from = after.id - 1; from < upTo; ) {
-    const list = (await changes.tripsSince(from)).filter((c) => c.id <= upTo);
+    const list = (await changes.since(from)).filter((c) => c.id <= upTo);
     if (list.length === 0) break;
-    for (const c of list) if (c.id > after.id || c.index > after.index) out.push(tripEvent(c));
+    for (const c of list) if (c.id > after.id || c.index > after.index) out.push(changeEvent(c));
     from = list.at(-1)!.id;
   }
   return out;
 }
 
-/** `<change>-<index>`, the id of a trip event. */
+/** `<change>-<index>`, the id of a trip or status event. */
 const RESUME_ID = /^(\d+)-(\d+)$/;
 
 export function eventRoutes(

@@ -1,13 +1,30 @@
-import type { TripResult } from '@thermargin/shared';
+import type { Status, TripResult } from '@thermargin/shared';
 
-/** A trip result as written by one commit, numbered by that commit's change id. */
-export interface TripChange {
+/** What one commit changed, numbered by that commit's change id. */
+interface Change {
   id: number;
-  /** Its place among the trips of its change (trips in start order): with `id`, what a client resumes after. */
+  /** Its place in its change (the trips in start order, then the status): with `id`, what a client
+   *  resumes after. */
   index: number;
   vehicle: string;
+}
+
+/** A trip result as written by one commit. */
+export interface TripChange extends Change {
+  kind: 'trip';
   trip: TripResult;
 }
+
+/** A vehicle's status as one commit changed it (`from` null: its first). */
+export interface StatusChange extends Change {
+  kind: 'status';
+  from: Status | null;
+  to: Status;
+  /** ISO time: the end of its newest trip (the status's time). */
+  time: string;
+}
+
+export type ResultChange = TripChange | StatusChange;
 
 /**
  * Every commit of results, by any process on any machine, numbered in the order it became visible
@@ -17,8 +34,9 @@ export interface TripChange {
 export interface ResultChanges {
   /** The newest committed change id (0 when none). */
   latest(): Promise<number>;
-  /** Trip results written by the changes after `after`, oldest first: at most `limit` whole changes. */
-  tripsSince(after: number, limit?: number): Promise<TripChange[]>;
+  /** Trip results and status changes of the commits after `after`, oldest first: at most `limit`
+   *  whole changes. */
+  since(after: number, limit?: number): Promise<ResultChange[]>;
   /** Calls `listener` after each commit anywhere, and once after a lost connection is back (changes
    *  may have come meanwhile). Returns the unsubscribe. */
   subscribe(listener: () => void): () => void;

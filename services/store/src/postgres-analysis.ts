@@ -1,4 +1,4 @@
-import type { TripResult, VehicleResult } from '@thermargin/shared';
+import type { Status, TripResult, VehicleResult } from '@thermargin/shared';
 import type { AnalysisCommit, AnalysisStore, StoredAnalysis } from './analysis.ts';
 import { LeaseLostError, WatermarkMovedError } from './leases.ts';
 import type { PostgresDb } from './postgres-db.ts';
@@ -73,6 +73,20 @@ export function createPostgresAnalysisStore(db: PostgresDb): AnalysisStore {
     const found = stored?.analysed_to_ms ?? null;
     if (found !== from_ms) throw new WatermarkMovedError(c.vehicle, from_ms, found);
     return held.acquired_at;
+  }
+  /** Numbers a change of the vehicle's status with the commit's change (before its summary is replaced). */
+  async function putStatus(result: VehicleResult, change_id: number): Promise<void> {
+    const [was] = await db.rows<{ status: Status | null }>(
+      "SELECT doc->>'status' AS status FROM vehicle_results WHERE vehicle = $1",
+      [result.id],
+    );
+    const from = was ? (was.status ?? 'ok') : null;
+    const to = result.status ?? 'ok';
+    if (from === to) return;
+    await db.query(
+      'INSERT INTO status_changes (change_id, vehicle, from_status, to_status, at) VALUES ($1, $2, $3, $4, $5)',
+      [change_id, result.id, from, to, result.trips.at(-1)?.end ?? ''],
+    );
   }
   const putTripResults = (vehicle: string, trips: readonly TripResult[]) =>
     db.transaction(async () => {
@@ -150,6 +164,7 @@ export function createPostgresAnalysisStore(db: PostgresDb): AnalysisStore {
             Math.round(c.delete_from_ms),
           ]);
         const written = await putTrips(c.vehicle, c.trips, change);
+        await putStatus(c.result, change);
         await putVehicleResult(c.result);
         const { analysed_to_ms, ...rest } = c.analysis;
         await db.query(

@@ -1,15 +1,25 @@
-import type { TripResult } from '@thermargin/shared';
+import type { Status, TripResult } from '@thermargin/shared';
 import type { Logger } from '@thermargin/shared/log';
 import pg from 'pg';
-import type { ResultChanges } from './changes.ts';
+import type { ResultChange, ResultChanges } from './changes.ts';
 import { RESULTS_CHANNEL } from './postgres-analysis.ts';
 import type { PostgresDb } from './postgres-db.ts';
+
+type Row = {
+  id: number;
+  vehicle: string;
+  doc: TripResult | null;
+  from_status: Status | null;
+  to_status: Status | null;
+  at: string | null;
+};
 
 /** ms: wait before connecting the listener again after it lost the server. */
 const RECONNECT_MS = 1000;
 
 /**
- * Change ids of trip_results (postgres-analysis.ts numbers them in visibility order) and the commit
+ * Change ids of trip_results and status_changes (postgres-analysis.ts numbers them in visibility
+ * order) and the commit
  * notifications, received with LISTEN on one connection of its own, opened on the first subscriber and
  * reopened after a server restart.
  */
@@ -54,21 +64,34 @@ export function createPostgresChanges(db: PostgresDb, log: Logger = () => {}): R
   return {
     async latest() {
       const [row] = await db.rows<{ id: number }>(
-        'SELECT COALESCE(MAX(change_id), 0)::bigint AS id FROM trip_results',
+        `SELECT GREATEST((SELECT MAX(change_id) FROM trip_results),
+           (SELECT MAX(change_id) FROM status_changes), 0)::bigint AS id`,
       );
       return row!.id;
     },
-    async tripsSince(after, limit = 1000) {
-      const rows = await db.rows<{ id: number; vehicle: string; doc: TripResult }>(
-        `SELECT change_id AS id, vehicle, doc FROM trip_results WHERE change_id IN (
-           SELECT DISTINCT change_id FROM trip_results WHERE change_id > $1 ORDER BY change_id LIMIT $2)
-         ORDER BY change_id, start_ms, trip COLLATE "C"`,
+    async since(after, limit = 1000) {
+      // Each change's trips in start order, then its status change, if any.
+      const rows = await db.rows<Row>(
+        `WITH ids AS (
+           SELECT change_id FROM trip_results WHERE change_id > $1
+           UNION SELECT change_id FROM status_changes WHERE change_id > $1
+           ORDER BY change_id LIMIT $2)
+         SELECT change_id AS id, vehicle, doc, NULL AS from_status, NULL AS to_status, NULL AS at,
+           start_ms, trip COLLATE "C" AS trip
+         FROM trip_results WHERE change_id IN (SELECT change_id FROM ids)
+         UNION ALL
+         SELECT change_id, vehicle, NULL, from_status, to_status, at, NULL, NULL
+         FROM status_changes WHERE change_id IN (SELECT change_id FROM ids)
+         ORDER BY id, start_ms NULLS LAST, trip`,
         [after, limit],
       );
       let index = 0;
-      return rows.map((r, i) => {
+      return rows.map((r, i): ResultChange => {
         index = i > 0 && rows[i - 1]!.id === r.id ? index + 1 : 0;
-        return { id: r.id, index, vehicle: r.vehicle, trip: r.doc };
+        const at = { id: r.id, index, vehicle: r.vehicle };
+        return r.doc
+          ? { ...at, kind: 'trip', trip: r.doc }
+          : { ...at, kind: 'status', from: r.from_status, to: r.to_status!, time: r.at! };
       });
     },
     subscribe(listener) {

@@ -47,6 +47,14 @@ export const MIGRATIONS: readonly { version: number; name: string; sql: string }
       ALTER TABLE trip_results ADD COLUMN change_id bigint NOT NULL DEFAULT 0;
       CREATE INDEX trip_results_by_change ON trip_results (change_id);`,
   },
+  {
+    version: 3,
+    name: 'status changes numbered with the commit that made them, for clients that resume',
+    sql: `
+      CREATE TABLE status_changes (
+        change_id bigint PRIMARY KEY, vehicle text NOT NULL, from_status text, to_status text NOT NULL,
+        at text NOT NULL);`,
+  },
 ];
 
 /** Advisory lock key of the migration step (any constant no other lock uses). */

@@ -217,7 +217,7 @@ describe('replicas on PostgreSQL under faults', () => {
     expect(taken.at(-1)!.began_at.getTime()).toBeGreaterThanOrEqual(killedLease!.expires_at.getTime());
   });
 
-  it('every SSE client, moved to the surviving API with Last-Event-ID, has every trip once', async () => {
+  it('every SSE client, moved to the surviving API with Last-Event-ID, has every trip and status once', async () => {
     const want = new Set(ids.flatMap((id) => offline.get(id)!.trips.map((t) => `${id}/${t.trip}`)));
     const tripsOf = (c: SseClient) =>
       c.events
@@ -237,6 +237,16 @@ describe('replicas on PostgreSQL under faults', () => {
       const eventIds = c.events.filter((e) => e.id !== undefined).map((e) => e.id);
       expect(new Set(eventIds).size).toBe(eventIds.length); // no change told twice
     }
+    // Status changes are numbered too: each client's last one per vehicle is the vehicle's status.
+    for (const c of clients)
+      for (const id of ids) {
+        const last = c.events
+          .filter((e) => e.event === 'status')
+          .map((e) => JSON.parse(e.data) as { vehicle: string; to: string })
+          .filter((s) => s.vehicle === id)
+          .at(-1);
+        expect(last?.to, id).toBe(offline.get(id)!.status);
+      }
     // The clients that started on the killed API reconnected.
     expect(clients.filter((c) => c.reconnects > 0).length).toBeGreaterThanOrEqual(2);
   }, 180_000);
