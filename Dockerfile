@@ -17,6 +17,7 @@ COPY services/api/package.json services/api/
 COPY services/broker/package.json services/broker/
 COPY services/cli/package.json services/cli/
 COPY services/ingester/package.json services/ingester/
+COPY services/logger-data/package.json services/logger-data/
 COPY services/simulator/package.json services/simulator/
 COPY services/stack/package.json services/stack/
 COPY services/store/package.json services/store/
