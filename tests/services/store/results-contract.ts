@@ -1,4 +1,9 @@
-import { type TripResult, tripResultSchema, type VehicleResult } from '@thermargin/shared';
+import {
+  type TripResult,
+  tripResultSchema,
+  type VehicleResult,
+  vehicleResultSchema,
+} from '@thermargin/shared';
 import type { AnalysisCommit } from '@thermargin/store/analysis';
 import type { ResultsBackend } from '@thermargin/store/results-backend';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
@@ -133,6 +138,52 @@ export function resultsContract(name: string, open: () => Promise<ResultsDatabas
         ['B-1', 0],
         ['b-2', 1],
       ]);
+    });
+
+    it("keeps the learned air side and each trip's window evidence through a commit, exactly", async () => {
+      const band = (speed: number) => ({
+        speed_kmh: [speed, speed + 0.1],
+        fan_pct: [0, 12.5],
+        itd_k: [41.2, 1 / 3],
+        balance_kw: [52.7, null],
+        meter_kw: [null, 49.9],
+        flow_lpm: [null, 180.25],
+      });
+      const trip = tripResultSchema.parse({
+        ...tripResult('t1', '2025-07-01T06:00:00Z', 41.3),
+        windows: { ram: band(72), fan: band(8) },
+        ambient_correction_k: -0.7,
+        uncorrected: { k_ram_w_m2k: 40.9, k_fan_w_m2k: null, margin_pct: 12.1, limiting_ambient_c: null },
+      });
+      const figure = (value: number, basis: 'fitted' | 'fleet_file' | 'default') => ({
+        value,
+        ci95: basis === 'fitted' ? ([value - 0.1, value + 0.1] as [number, number]) : null,
+        basis,
+      });
+      const learned = vehicleResultSchema.parse({
+        ...summary('v', { trips: [trip] }),
+        airside_fit: {
+          velocity_exponent: figure(0.47, 'fitted'),
+          fan_velocity_exponent: figure(0.6, 'fleet_file'),
+          ram_face_ratio: figure(0.31, 'fitted'),
+          fan_face_velocity_ms: figure(4, 'default'),
+          windows: 212,
+          trips: 18,
+          notes: ['fan exponent: too few fan-band windows'],
+        },
+        unmeasured_heat: { value_kw: 3.2, ci95: [1.9, 4.5], basis: 'fitted', trips: 6, reason: null },
+        ambient_offset: [
+          { from: null, value_k: -0.7, ci95: [-1.1, -0.3], checks: 9, applied: true, reason: null },
+          { from: '2025-06-01', value_k: null, ci95: null, checks: 1, applied: false, reason: 'one check' },
+        ],
+      });
+      await r.analysis.commit({ ...commitOf('v', [trip]), result: learned });
+      expect(await r.analysis.readVehicleResult('v')).toEqual(learned);
+      expect((await r.analysis.readVehicleResults())[0]).toEqual(learned);
+      expect(await r.analysis.readTripResults('v')).toEqual([trip]);
+      const unassessed = summary('u', { status: undefined, unassessed: 'no usable samples' });
+      await r.analysis.putVehicleResult(unassessed);
+      expect((await r.analysis.readVehicleResult('u'))?.unassessed).toBe('no usable samples');
     });
 
     it('commits results, summary and watermark together; every commit bumps the version', async () => {
