@@ -171,6 +171,21 @@ describe('docker-compose.yml', () => {
     );
     expect(named.sort()).toEqual(Object.keys(services).sort());
   });
+
+  it("lets one ingester read Mosquitto's log file, where the broker says what it refused", () => {
+    const conf = readFileSync(join(ROOT, 'config/mosquitto/mosquitto.conf'), 'utf8');
+    const file = /^log_dest file (\/mosquitto\/log\/\S+)$/m.exec(conf)?.[1];
+    expect(file).toBeDefined();
+    for (const type of ['notice', 'debug']) expect(conf).toMatch(new RegExp(`^log_type ${type}$`, 'm'));
+    expect(services.mosquitto!.volumes).toContain('mosquitto-log:/mosquitto/log');
+    // One follower: every replica following it would count each refusal once per replica.
+    const ingesters = Object.keys(services).filter((name) => name.startsWith('ingester'));
+    expect(ingesters.filter((name) => readIngesterConfig(envOf(name)).broker_log)).toEqual(['ingester-1']);
+    const mount = services['ingester-1']!.volumes!.find((v) => v.startsWith('mosquitto-log:'))!.split(
+      ':',
+    )[1]!;
+    expect(readIngesterConfig(envOf('ingester-1')).broker_log).toBe(file!.replace('/mosquitto/log', mount));
+  });
 });
 
 describe('Dockerfile', () => {

@@ -5,7 +5,7 @@ interface AnalyzerView {
   stats: { runs: number; running: boolean; backlog_vehicles: number; trips_analysed: number };
 }
 interface ResultsView {
-  readAnalyses(): { vehicle: string; analysed_to_ms: number }[];
+  readAnalyses(): Promise<readonly { vehicle: string; analysed_to_ms: number }[]>;
   readTripResults(vehicle: string): Promise<readonly unknown[]>;
 }
 
@@ -31,7 +31,7 @@ export async function analysisCaughtUp(
     if (stop.aborted) return;
     const s = analyzer.stats;
     if (s.runs > runs0 + 1 && !s.running && s.backlog_vehicles === 0) break;
-    const marks = results.readAnalyses();
+    const marks = await results.readAnalyses();
     const f = marks.length
       ? marks.reduce(
           (n, a) => n + Math.min(1, Math.max(0, (a.analysed_to_ms - from_ms) / (cut_ms - from_ms))),
@@ -41,7 +41,7 @@ export async function analysisCaughtUp(
     bar.update(f, `${(s.trips_analysed - trips0).toLocaleString('en-US')} trips analysed`);
     await new Promise((r) => setTimeout(r, POLL_MS));
   }
-  const marks = results.readAnalyses();
+  const marks = await results.readAnalyses();
   let trips = 0;
   for (const a of marks) trips += (await results.readTripResults(a.vehicle)).length;
   bar.done(`${trips.toLocaleString('en-US')} trips of ${marks.length} vehicles`);
