@@ -44,7 +44,7 @@ describe('the compose topology as processes', () => {
           const fleet = await get<FleetResponse>('/api/fleet');
           return fleet.vehicles.every((v) => v.trips === want.get(v.id));
         },
-        300_000,
+        540_000,
       );
       // Both ingesters took messages from the shared subscription.
       for (const name of ['ingester-1', 'ingester-2']) {
@@ -62,5 +62,5 @@ describe('the compose topology as processes', () => {
     } finally {
       await t.stop();
     }
-  }, 600_000);
+  }, 900_000);
 });
