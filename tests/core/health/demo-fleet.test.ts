@@ -89,3 +89,25 @@ describe.each([1, 2])('the demo fleet, seed %i', (seed) => {
     }
   });
 });
+
+/**
+ * `npm start`'s smoke-test demo (6 vehicles, 12 days) ends at the wall clock, so which trips it holds,
+ * and which one is cut at the end, follow the time of day: its findings must hold at any end time.
+ * Fixed instants, spread over the day, on three seeds.
+ */
+describe.each([
+  [1, '2026-12-04T14:18:00Z'],
+  [2, '2026-12-04T18:00:00Z'],
+  [3, '2026-12-05T03:40:00Z'],
+])('the 12-day smoke demo, seed %i, ending %s', (seed, end) => {
+  it('names the fouling and the failed fan, and keeps the healthy bus ok', () => {
+    const sc = createScenario({ vehicles: 6, days: 12, seed, end_ms: Date.parse(end) });
+    const [healthy, fouling, fan] = ['bus-01', 'bus-02', 'bus-03'].map((id) => assessDemo(sc, id).result);
+    const line = (r: typeof fan) => `${r!.id} ${r!.cause}/${r!.status}: ${r!.cause_evidence}`;
+    expect(fouling!.cause, line(fouling)).toBe('fouling');
+    expect(['watch', 'inspect'], line(fouling)).toContain(fouling!.status);
+    expect(fan!.cause, line(fan)).toBe('fan');
+    expect(['watch', 'inspect'], line(fan)).toContain(fan!.status);
+    expect(healthy!.status, line(healthy)).toBe('ok');
+  });
+});
