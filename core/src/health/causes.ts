@@ -196,7 +196,10 @@ function fanCandidate(
     score = 0.6;
     text = `fan-band k fell ${pct(step!.fall)} from ${isoDay(step!.since_ms)} on, while the ram-band k moved ${pct(step!.ram_fall!)} over the same trips (${describe(fan)}; ${describe(ram)})`;
   } else if (ram.drop === null || !ramSince) {
-    score = 0.4;
+    // Unconfirmed: with the fan at full duty more often (0.6) it is named when nothing else is, but
+    // ranks below fouling that the ram band's own fall shows (≥ 0.65 while that fall goes on), since a
+    // fouling core saturates the fan as well (a tie would leave it to the list's order).
+    score = 0.3;
     text = `${describe(fan)}; the ram band was not reached since, so fouling, a coolant-side loss or a biased temperature sensor cannot be ruled out`;
   } else if (fan.drop! > 2 * ram.drop + minDrop) {
     score = 0.45;
