@@ -238,7 +238,11 @@ export function eventRoutes(
             clearTimeout(timer);
             wake = undefined;
             if (Date.now() - listedAt >= KEEPALIVE_MS) {
-              revoked ||= !(await tokens.isListed(token.sha256));
+              // A store that cannot say (closing at shutdown, or down) ends the stream, failing
+              // closed: the client resumes from its Last-Event-ID once the API answers again.
+              const listed = await tokens.isListed(token.sha256).catch(() => undefined);
+              if (listed === undefined) break;
+              revoked ||= !listed;
               listedAt = Date.now();
             }
             if (!queue.length && !stream.aborted && !revoked) await stream.write(': keep-alive\n\n');
