@@ -112,7 +112,7 @@ export function flatten(trips: readonly FitTrip[], o: AirsideFitOptions, aux_kw:
 }
 
 /**
- * The fit's model of window i in band b of trip t (field notes: Q = k·A·ITD; k ∝ v_face^n, airside.ts):
+ * The fit's model of window i in band b of trip t (the rating equation Q = k·A·ITD, common practice; k ∝ v_face^n as in airside.ts):
  *   ln(Q_i) − ln(ITD_i) = a_(t,b) + n_b · L_i(ρ),   L_i = ½·ln((ρ²·S_i + D_i) / (ρ²·S_ref,b + D_ref,b))
  * with v_face = v_fan·√(ρ²·S + D), S = (speed/3.6)², D = (duty/100)², ρ = ram_face_ratio / v_fan (fitted
  * as ρ², whose effect on k is linear near zero), and

@@ -26,7 +26,7 @@ export interface AmbientOffset {
 }
 
 /**
- * A steady offset between the coolant and ambient sensors from key-on soak checks (field notes: after a
+ * A steady offset between the coolant and ambient sensors from key-on soak checks (common practice: after a
  * long soak the coolant reads ambient within a couple of kelvin). A soaked loop reads ambient, so the
  * median check is the offset of the ITD whichever sensor carries it: correcting the ambient by it
  * (ambient + offset) gives the ITD k, margin and limiting ambient need. Confirmed when there are

@@ -22,7 +22,7 @@ export function priorReferral(v: Pick<VehicleModel, 'airside' | 'aux_heat_kw'>):
 }
 
 /**
- * W/(m²·K): each window's k referred to the band's reference condition (field notes: Q = k·A·ITD;
+ * W/(m²·K): each window's k referred to the band's reference condition (the rating equation Q = k·A·ITD, common practice;
  * k ∝ v_face^n, airside.ts):
  *   k_ref = Q / (A · (ITD − correction) · (v_face / v_face,ref)^n)
  * with Q the flow meter's heat rejected, or else the heat balance plus the unmeasured heat. A window
