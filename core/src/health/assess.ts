@@ -72,8 +72,9 @@ export function assessVehicle(
   for (const [j, i] of order.entries()) walk.visit(trips[i]!, i, j, times[i]!);
   const lastMargin = order.length ? walk.marginLevel[order[order.length - 1]!]! : null;
   const dueSince = walk.status === 'inspect' ? walk.log.inspectSince : null;
-  const trend = walk.trend();
-  const proj = projection(walk, o);
+  const read = walk.trendRead();
+  const trend = read.trend;
+  const proj = projectMargin(read, walk.thresholds.inspect_enter, o);
   const notes = findingNotes(walk, trips, lastMargin, dueSince, proj);
   const ram = walk.bands.ram.summary();
   const fan = walk.bands.fan.summary();
@@ -143,12 +144,6 @@ function tripHealth(walk: TripWalk, trips: readonly TripResult[], order: readonl
       out[order[q.trip]!]![b === 'ram' ? 'health_ram' : 'health_fan'] = q.health;
   }
   return out;
-}
-
-/** The margin's projection to the inspect threshold over the same margins as its trend. */
-function projection(walk: TripWalk, o: HealthOptions): Projection {
-  const since = walk.margins.since(walk.trendStart_ms());
-  return projectMargin(since.day, since.pct, walk.thresholds.inspect_enter, o);
 }
 
 /** What the finding must say it could not judge, and why there is no date. */

@@ -3,7 +3,7 @@ import { createRng } from '../stats/prng.ts';
 import { quantileSorted } from '../stats/quantile.ts';
 import { theilSen } from '../stats/theil-sen.ts';
 import type { HealthOptions } from './options.ts';
-import { marginTrend } from './trend.ts';
+import type { TrendRead } from './trend.ts';
 
 export interface Projection {
   /** Model the date comes from; null when there was nothing to project. */
@@ -70,12 +70,7 @@ export function fitAsymptotic(t: readonly number[], m: readonly number[]): Model
  * bootstrap of the Kern–Seaton fit when that is the model. A line's interval covers noise, not the
  * levelling off of asymptotic fouling, so it errs early: the safe side for maintenance.
  */
-export function projectMargin(
-  day: readonly number[],
-  margin_pct: readonly number[],
-  threshold_pct: number,
-  o: HealthOptions,
-): Projection {
+export function projectMargin(read: TrendRead, threshold_pct: number, o: HealthOptions): Projection {
   const none = (
     reason: string,
     method: Projection['method'] = null,
@@ -88,7 +83,6 @@ export function projectMargin(
     curve,
     reason,
   });
-  const read = marginTrend(day, margin_pct);
   if (read.trend === null) return none(read.reason);
   if (read.trend.word !== 'falling') return none('margin shows no significant downward trend');
   const { day: t, pct: m } = read;

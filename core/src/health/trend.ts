@@ -1,5 +1,6 @@
 import type { Trend } from '@thermargin/shared';
 import { type TheilSenFit, theilSen } from '../stats/theil-sen.ts';
+import { isoOfDay } from './series.ts';
 
 /** Fewest margins, and fewest days they span, for a trend (and so a projection) to be judged. */
 const MIN_TRIPS = 8;
@@ -59,7 +60,7 @@ export function marginTrend(day: readonly number[], margin_pct: readonly number[
 
 /** The trend in words, e.g. "margin falling 4.1 points per 30 days since 2026-07-14 (23 trips)". */
 export function trendWords(t: MarginTrend): string {
-  const since = new Date(Math.round(t.from_day * 86_400_000)).toISOString().slice(0, 10);
+  const since = isoOfDay(t.from_day)!.slice(0, 10);
   const rate = `${Math.abs(t.pct_per_30d).toFixed(1)} points per 30 days`;
   return t.word === 'steady'
     ? `margin steady since ${since} (${t.trips} trips)`

@@ -12,7 +12,7 @@ import type { HealthOptions } from './options.ts';
 import { rebaselineTimes_ms } from './rebaseline.ts';
 import { StatusMachine } from './status.ts';
 import { latForMargin_c, type MarginThresholds, marginThresholds } from './thresholds.ts';
-import { type MarginTrend, marginTrend, trendWords } from './trend.ts';
+import { type TrendRead, marginTrend, trendWords } from './trend.ts';
 import { ownMargin, TripMargins } from './trip-margins.ts';
 
 /** Top cause if it scores enough, else none. */
@@ -110,7 +110,7 @@ export class TripWalk {
           )
         : null;
     this.log.record(t.end, step, c, this.warning, () => {
-      const tr = this.trend();
+      const tr = this.trendRead().trend;
       return tr && tr.word !== 'steady' ? trendWords(tr) : null;
     });
     this.status = step.status;
@@ -142,10 +142,10 @@ export class TripWalk {
     );
   }
 
-  /** The margin's trend since trendStart_ms, as of the latest trip. */
-  trend(): MarginTrend | null {
+  /** The margin's trend since trendStart_ms, as of the latest trip: the read trend and projection share. */
+  trendRead(): TrendRead {
     const since = this.margins.since(this.trendStart_ms());
-    return marginTrend(since.day, since.pct).trend;
+    return marginTrend(since.day, since.pct);
   }
 
   private judgeCause(ram: BandSummary, fan: BandSummary): Candidate {

@@ -1,6 +1,6 @@
 import type { BandWindowsEvidence } from '@thermargin/shared';
 import { medianCi95Sorted } from '../stats/median-ci.ts';
-import { quantileSorted } from '../stats/quantile.ts';
+import { median, quantileSorted } from '../stats/quantile.ts';
 import { type Airside, bandFactor } from '../radiator/airside.ts';
 import { huberFit } from '../stats/huber.ts';
 import { BAND_NAMES } from './bands.ts';
@@ -96,7 +96,7 @@ function meterMedians(trips: readonly HeatTrip[], o: typeof UNMEASURED_HEAT_DEFA
         const q = e.balance_kw[i];
         if (m !== null && m !== undefined && q !== null && q !== undefined) d.push(m - q);
       }
-      return d.length >= o.min_windows_per_trip ? [quantileSorted(Float64Array.from(d).sort(), 0.5)] : [];
+      return d.length >= o.min_windows_per_trip ? [median(d)] : [];
     }),
   );
   return perBand[0]!.length >= perBand[1]!.length ? perBand[0]! : perBand[1]!;
