@@ -144,15 +144,6 @@ export const frameSignalSchema = z
   .superRefine(unitFitsSignal);
 export type FrameSignal = z.infer<typeof frameSignalSchema>;
 
-/** The standard parameters the frame decoder reads without a definition (see logger-data's parameters.ts). */
-export const STANDARD_FRAME_SIGNALS = [
-  'coolant_in_c',
-  'ambient_c',
-  'speed_kmh',
-  'fan_pct',
-  'power_kw',
-] as const;
-
 export const framesMapSchema = z.strictObject({
   /** s, 1: samples are built at this interval by last value held. */
   interval_s: z.number().positive().max(3600).optional(),

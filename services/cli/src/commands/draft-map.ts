@@ -9,7 +9,7 @@ import { forEachLine } from '@thermargin/logger-data/io/lines';
 import { detectDialect } from '@thermargin/logger-data/table/dialect';
 import { type Draft, draftFramesMap, draftTableMap, type PgnSeen } from '@thermargin/logger-data/table/draft';
 import { listDataFiles } from '../import/data-files.ts';
-import { splitCsvLine } from '../import/csv-reader.ts';
+import { headerNames, splitCsvLine } from '../import/csv-reader.ts';
 import { MAX_LINE_USAGE, maxLineBytes } from '../fleet-data-args.ts';
 import { UsageError } from '../usage-error.ts';
 
@@ -44,11 +44,8 @@ function draftTable(file: string, rows: number, max_line_bytes: number): Draft {
   const [header, ...body] = lines.filter((l) => l.trim() !== '');
   if (header === undefined) throw new InputError([{ where: file, rule: 'empty file (no header row)' }]);
   const dialect = detectDialect(header, body);
-  const names = splitCsvLine(header, dialect.delimiter).map((h) =>
-    h.trim().replace(/^\uFEFF|^\u00EF\u00BB\u00BF/, ''),
-  );
   return draftTableMap(
-    names,
+    headerNames(header, dialect.delimiter),
     body.map((l) => splitCsvLine(l, dialect.delimiter)),
     dialect,
     file,

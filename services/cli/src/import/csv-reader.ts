@@ -1,9 +1,8 @@
-import { closeSync, openSync, readSync } from 'node:fs';
 import { type DataMap, InputError, isValidId, NUMERIC_COLUMNS } from '@thermargin/shared';
 import { detectDialect } from '@thermargin/logger-data/table/dialect';
 import { type TableLayout, tableLayout } from '@thermargin/logger-data/table/layout';
 import { mapValue } from '@thermargin/logger-data/units';
-import { forEachLine } from '@thermargin/logger-data/io/lines';
+import { forEachLine, readHead } from '@thermargin/logger-data/io/lines';
 import { readDecimal } from './decimal.ts';
 import { fastTime_ms } from './iso-time.ts';
 
@@ -29,10 +28,12 @@ function layoutOf(file: string, header: string, head: string, o: CsvOptions): Ta
     ...(o.map?.delimiter ? { delimiter: o.map.delimiter === 'tab' ? '\t' : o.map.delimiter } : {}),
     ...(o.map?.decimal ? { decimal: o.map.decimal } : {}),
   });
-  const names = splitCsvLine(header, dialect.delimiter).map((h) =>
-    h.trim().replace(/^(\uFEFF|\u00EF\u00BB\u00BF)/, ''),
-  );
-  return tableLayout(names, dialect, o.map, file, o.vehicle_id ?? null);
+  return tableLayout(headerNames(header, dialect.delimiter), dialect, o.map, file, o.vehicle_id ?? null);
+}
+
+/** A header line's column names, trimmed and without a byte-order mark (UTF-8 read as UTF-8 or Latin-1). */
+export function headerNames(header: string, delimiter: string): string[] {
+  return splitCsvLine(header, delimiter).map((h) => h.trim().replace(/^(\uFEFF|\u00EF\u00BB\u00BF)/, ''));
 }
 
 /** Splits one delimited line with double-quoted fields (RFC 4180 quoting). */
@@ -209,22 +210,6 @@ function isBlankLine(s: Uint8Array, start: number, end: number): boolean {
   return true;
 }
 
-/** The file's first HEAD_BYTES, to detect its dialect from. */
-function readHead(file: string): string {
-  let fd: number;
-  try {
-    fd = openSync(file, 'r');
-  } catch {
-    throw new InputError([{ where: file, rule: 'cannot open the file' }]);
-  }
-  try {
-    const buf = Buffer.allocUnsafe(HEAD_BYTES);
-    return buf.toString('latin1', 0, readSync(fd, buf, 0, HEAD_BYTES, 0));
-  } finally {
-    closeSync(fd);
-  }
-}
-
 /**
  * Reads one CSV file of the import format (header naming the contract's columns in any order,
  * unknown columns ignored, empty cell = missing), or a logger's own table read through a mapping
@@ -240,7 +225,7 @@ export function readCsvFile(
   onBytes?: (n: number) => void,
   options: CsvOptions = {},
 ): number {
-  const p = new RowParser(file, sink, options, readHead(file));
+  const p = new RowParser(file, sink, options, readHead(file, HEAD_BYTES));
   forEachLine(
     file,
     (s, start, end, _line, quoted) => p.take(s, start, end, quoted),

@@ -1,7 +1,8 @@
-import { closeSync, openSync, readdirSync, readSync, statSync } from 'node:fs';
+import { readdirSync, statSync } from 'node:fs';
 import { basename, dirname, join, relative, sep } from 'node:path';
 import { InputError } from '@thermargin/shared';
 import { looksLikeCandump } from '@thermargin/logger-data/candump';
+import { readHead } from '@thermargin/logger-data/io/lines';
 
 /** A table (CSV or another delimited text) or a SocketCAN `candump -l` log. */
 export interface DataFile {
@@ -16,16 +17,6 @@ const TABLE_NAME = /\.(csv|tsv)$/i;
 const BESIDE_DATA = /\.(json|md|txt|pdf)$/i;
 const HEAD_BYTES = 4096;
 
-function head(path: string): string {
-  const fd = openSync(path, 'r');
-  try {
-    const buf = Buffer.alloc(HEAD_BYTES);
-    return buf.toString('latin1', 0, readSync(fd, buf, 0, HEAD_BYTES, 0));
-  } finally {
-    closeSync(fd);
-  }
-}
-
 /**
  * The data at `path`: the file itself, or every file below the folder in name order that is a candump
  * log (by content) or a table (*.csv, *.tsv). Other files are listed in `skipped`, but for notes,
@@ -38,7 +29,7 @@ export function listDataFiles(path: string): { files: DataFile[]; bytes: number;
   } catch {
     throw new InputError([{ where: path, rule: 'no such file or folder' }], 'data not found');
   }
-  const kindOf = (p: string) => (looksLikeCandump(head(p)) ? 'candump' : 'table');
+  const kindOf = (p: string) => (looksLikeCandump(readHead(p, HEAD_BYTES)) ? 'candump' : 'table');
   if (st.isFile())
     return { files: [{ path, kind: kindOf(path), bytes: st.size }], bytes: st.size, skipped: [] };
   const files: DataFile[] = [];

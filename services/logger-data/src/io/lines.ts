@@ -88,3 +88,19 @@ export function forEachLine(
   if (kept > 0) take(buf, 0, kept, buf.subarray(0, kept).includes(34));
   return line;
 }
+
+/** A file's first `bytes` as Latin-1 text, to tell its kind or dialect from; a file that will not open is named. */
+export function readHead(file: string, bytes: number): string {
+  let fd: number;
+  try {
+    fd = openSync(file, 'r');
+  } catch {
+    throw new InputError([{ where: file, rule: 'cannot open the file' }]);
+  }
+  try {
+    const buf = Buffer.allocUnsafe(bytes);
+    return buf.toString('latin1', 0, readSync(fd, buf, 0, bytes, 0));
+  } finally {
+    closeSync(fd);
+  }
+}
