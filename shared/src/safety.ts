@@ -47,7 +47,7 @@ export function safetyCaution(powertrains: Iterable<Powertrain | string> = POWER
   ].join('\n');
 }
 
-/** The caution covering every powertrain (fleet-wide output, the start-up banner). */
+/** The caution covering every powertrain: the reference text the per-fleet cautions are checked against. */
 export const SAFETY_CAUTION = safetyCaution();
 
 /** Printed beside sizing figures: they come from the field, and a design needs more than that. */

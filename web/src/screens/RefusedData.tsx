@@ -14,6 +14,7 @@ import { useResource } from '../state/resource.ts';
 import { href } from '../state/place.ts';
 import type { Session } from '../state/session.ts';
 import { Figure } from '../components/Figure.tsx';
+import { TableHead } from '../components/TableHead.tsx';
 
 /** The refusal reasons present in the answer, ingest first: the table's columns. */
 function reasons(r: RejectedResponse): { source: 'ingest' | 'cleaning'; reason: string }[] {
@@ -37,23 +38,18 @@ function Rejected({ r, pick }: { r: RejectedResponse; pick: (f: LetterFilter) =>
   return (
     <div class="table-wrap">
       <table class="grid" data-table="rejected">
-        <thead>
-          <tr>
-            <th scope="col">Vehicle</th>
-            {cols.map((c) => (
-              <th key={`${c.source}:${c.reason}`} scope="col" class="num" title={c.reason}>
-                <span class="small muted">
-                  {c.source === 'ingest' ? 'refused at intake' : 'set aside in screening'}
-                </span>
-                <br />
-                {refusalWord(c.reason)}
-              </th>
-            ))}
-            <th scope="col" class="num">
-              Total (messages / samples)
-            </th>
-          </tr>
-        </thead>
+        <TableHead
+          text={['Vehicle']}
+          figures={[
+            'Frames',
+            'Decoded',
+            'Of unknown PGNs',
+            'Values not available',
+            'Error values',
+            'Samples built',
+            'Incomplete',
+          ]}
+        />
         <tbody>
           {rows.map((v) => (
             <tr key={v.vehicle} data-vehicle={v.vehicle || '(unreadable)'}>
