@@ -88,7 +88,7 @@ function FieldK({ s }: { s: SizingResultView }) {
   );
 }
 
-function Fouling({ s }: { s: SizingResultView }) {
+function Fouling({ s, caution }: { s: SizingResultView; caution: string }) {
   const groups = [...s.types, s.fleet];
   return (
     <>
@@ -130,7 +130,7 @@ function Fouling({ s }: { s: SizingResultView }) {
         sensor is named are left out: what they lose is not fouling.
       </p>
       <FoulingNotes s={s} />
-      <Caution powertrains={s.vehicles.map((v) => v.powertrain)} />
+      <Caution text={caution} />
     </>
   );
 }
@@ -261,7 +261,7 @@ function Sheet({ r, session }: { r: SizingResponse; session: Session }) {
       </section>
       <section aria-labelledby="fouling">
         <h2 id="fouling">Fouling rate and cleaning interval</h2>
-        <Fouling s={s} />
+        <Fouling s={s} caution={r.safety_caution} />
       </section>
       <section aria-labelledby="derates">
         <h2 id="derates">Recorded derates</h2>
