@@ -25,13 +25,19 @@ export const AIRSIDE_FIT_DEFAULTS = {
   /** –, 0.15: an exponent is fitted when its 95 % interval is at most ± this (the common-practice
    *  range 0.4–0.8 is ± 0.2 about its middle, so a fit must say more than the range does). */
   max_exponent_half95: 0.15,
-  /** –, 0.01: the ram-to-fan face-velocity ratio is fitted when its 95 % interval moves k at the fan
-   *  band's edge (20 km/h, fan 100 %) by at most ±1 %: the ratio matters only through that mixing, and
-   *  a small ratio is bounded from above long before its logarithm is. */
-  max_ratio_edge_half95: 0.01,
+  /** –, 0.04: the ram-to-fan face-velocity ratio is fitted when its 95 % interval moves k at the fan
+   *  band's edge (20 km/h, fan 100 %) by at most ±4 %: the ratio matters only through that mixing, and
+   *  a small ratio is bounded from above long before its logarithm is. The prior is no surer: the
+   *  defaults' ranges (3–8 m/s of face velocity at highway speed, 1.5–4 m/s from the fan) move k there
+   *  by up to 13 %, and with a fan pulling, ram air adds less than the root-sum-square of airside.ts
+   *  (the fan's pressure falls as the flow rises), which only a fitted ratio takes in. */
+  max_ratio_edge_half95: 0.04,
   /** Bounds the fit may not leave: exponents 0.2–1.2 (the fleet file's range), ratio ×/÷ 4 of the prior. */
   exponent_bounds: [0.2, 1.2] as [number, number],
   max_ratio_over_prior: 4,
+  /** Bounds of the coolant-flow exponent: 0 (k blind to the flow) to 0.8 (the coolant side alone, its
+   *  h ∝ V̇^0.8 by Dittus–Boelter). */
+  flow_exponent_bounds: [0, 0.8] as [number, number],
 } as const;
 
 export type AirsideFitOptions = typeof AIRSIDE_FIT_DEFAULTS;

@@ -130,10 +130,14 @@ export function problem(
   tie: boolean,
 ): RobustProblem {
   const idx = (p: Param) => free.indexOf(p);
-  const lower = free.map((p) => (p === 'rho2' ? 0 : o.exponent_bounds[0]));
-  const upper = free.map((p) =>
-    p === 'rho2' ? priorRho2 * o.max_ratio_over_prior ** 2 : o.exponent_bounds[1],
-  );
+  const bounds: Record<Param, [number, number]> = {
+    n_ram: o.exponent_bounds,
+    n_fan: o.exponent_bounds,
+    rho2: [0, priorRho2 * o.max_ratio_over_prior ** 2],
+    flow: o.flow_exponent_bounds,
+  };
+  const lower = free.map((p) => bounds[p][0]);
+  const upper = free.map((p) => bounds[p][1]);
   const P = free.length;
   return {
     n: D.n,

@@ -104,6 +104,26 @@ describe('per-vehicle air-side fit', () => {
     expect(f.velocity_exponent.basis).toBe('fitted');
   });
 
+  it('a weak coolant-flow dependence is fitted, not taken up by the ratio', () => {
+    // An engine-driven pump metered: the flow rises with crawling speed in the fan band, and k follows
+    // it with exponent 0.1 (air the limiting side). Bounded at 0.2 from below, the flow term was
+    // dropped and the ratio read the flow's rise as ram air (on the forward model, twice the true ratio).
+    const flow = (speed_kmh: number, band: 'ram' | 'fan') => (band === 'ram' ? 350 : 150 + 10 * speed_kmh);
+    const metered = trips(truth, 30, createRng(18)).map((t) => {
+      const pumped = (e: BandWindowsEvidence, band: 'ram' | 'fan') => ({
+        ...e,
+        flow_lpm: e.speed_kmh.map((s) => flow(s, band)),
+        meter_kw: e.meter_kw.map((q, i) => q! * (flow(e.speed_kmh[i]!, band) / 250) ** 0.1),
+      });
+      return { ...t, windows: { ram: pumped(t.windows.ram, 'ram'), fan: pumped(t.windows.fan, 'fan') } };
+    });
+    const f = fitAirside({ ...PRIOR, engine_pump: true }, metered);
+    expect(f.notes.join('\n')).not.toMatch(/coolant-flow exponent/);
+    expect(f.ram_face_ratio.basis).toBe('fitted');
+    expect(f.ram_face_ratio.ci95![0]).toBeLessThanOrEqual(0.32);
+    expect(f.ram_face_ratio.ci95![1]).toBeGreaterThanOrEqual(0.32);
+  });
+
   it('the shape it refers with is rebuilt exactly from the figures it reports', () => {
     for (const seed of [15, 16]) {
       const f = fitAirside(PRIOR, trips(truth, seed === 15 ? 30 : 4, createRng(seed)));
