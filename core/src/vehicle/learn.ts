@@ -15,6 +15,7 @@ import { designMargin } from '../trip/design-point.ts';
 import { ESTIMATOR_DEFAULTS } from '../trip/estimator-options.ts';
 import { type Referral, windowK_w_m2k } from '../trip/refer.ts';
 import { type UnmeasuredHeat, unmeasuredHeat } from '../trip/unmeasured-heat.ts';
+import { type FigureUncertainty, figureHalfWidth, figureUncertainty, widened } from './figure-uncertainty.ts';
 import type { VehicleModel } from './resolve.ts';
 
 /** What the vehicle stage learned from all the vehicle's trips, and the trips referred with it. */
@@ -50,11 +51,12 @@ export function learnVehicle(given: VehicleModel, trips: readonly TripResult[]):
     .sort((a, b) => a.ms - b.ms || (a.id < b.id ? -1 : a.id > b.id ? 1 : 0))
     .map((x) => x.i);
   const ambient = ambientPeriods(v, trips, order);
-  const correction = (t: TripResult) => {
+  const period = (t: TripResult) => {
     const ms = Date.parse(t.start);
     const p = ambient.findLast((a) => a.from_ms === null || a.from_ms <= ms);
-    return p?.applied ? p.value_k! : 0;
+    return p?.applied ? p : null;
   };
+  const correction = (t: TripResult) => period(t)?.value_k ?? 0;
   const withWindows = order.flatMap((i) => {
     const t = trips[i]!;
     return t.windows ? [{ windows: t.windows, ambient_correction_k: correction(t) }] : [];
@@ -84,11 +86,16 @@ export function learnVehicle(given: VehicleModel, trips: readonly TripResult[]):
     ambient_correction_k: correction(t),
   });
   const sigma = windowScatter(vehicle, trips, referral);
+  const uncertainty = (t: TripResult) => {
+    const ci = period(t)?.ci95;
+    return figureUncertainty(fit, unmeasured, ci ? (ci[1] - ci[0]) / 2 : 0);
+  };
   const out = trips.map((t) => {
     if (!t.windows) return t;
     const r = referral(t);
     const corr = r.ambient_correction_k;
-    const figures = refer(vehicle, t, r, sigma);
+    const u = uncertainty(t);
+    const figures = refer(vehicle, t, r, sigma, u);
     // A stored result's trip keeps its own margin aside (trip_margin_*, health/trip-margins.ts); the
     // margin made here replaces it, or a trip kept from before a late one would keep a stale figure.
     const {
@@ -100,7 +107,7 @@ export function learnVehicle(given: VehicleModel, trips: readonly TripResult[]):
       ...rest
     } = t;
     if (corr === 0) return { ...rest, ...figures };
-    const raw = refer(vehicle, t, { ...r, ambient_correction_k: 0 }, sigma);
+    const raw = refer(vehicle, t, { ...r, ambient_correction_k: 0 }, sigma, { ...u, ambient_half95_k: 0 });
     return {
       ...rest,
       ...figures,
@@ -139,13 +146,17 @@ function windowScatter(
   return dev.length >= 10 ? robustSigma(dev) : null;
 }
 
-/** A trip's k per band, margin and limiting ambient under a referral (its windows must be present). */
-function refer(v: VehicleModel, t: TripResult, r: Referral, sigma: number | null) {
+/**
+ * A trip's k per band, margin and limiting ambient under a referral (its windows must be present). The
+ * interval of k carries the windows' scatter and how far the figures referred with may be off.
+ */
+function refer(v: VehicleModel, t: TripResult, r: Referral, sigma: number | null, u: FigureUncertainty) {
   const k = {} as Record<Band, ReturnType<typeof medianK>>;
   for (const b of BAND_NAMES) {
-    const m = medianK(windowK_w_m2k(b, t.windows![b], v.radiator_area_m2, r), ESTIMATOR_DEFAULTS);
-    k[b] =
-      m && m.ci95 === null && sigma !== null ? { ...m, ci95: scatterCi95(m.k_w_m2k, m.windows, sigma) } : m;
+    const e = t.windows![b];
+    const m = medianK(windowK_w_m2k(b, e, v.radiator_area_m2, r), ESTIMATOR_DEFAULTS);
+    const ci = m?.ci95 ?? (m && sigma !== null ? scatterCi95(m.k_w_m2k, m.windows, sigma) : null);
+    k[b] = m && ci ? { ...m, ci95: widened(m.k_w_m2k, ci, figureHalfWidth(b, e, r, u)) } : m;
   }
   const m = designMargin(v, { ram: k.ram?.k_w_m2k ?? null, fan: k.fan?.k_w_m2k ?? null });
   const ci = (x: [number, number] | null | undefined) =>

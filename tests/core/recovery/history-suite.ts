@@ -27,6 +27,8 @@ export interface TripBandRecovery {
   eligible_samples: number;
   true_w_m2k: number | null;
   estimated_w_m2k: number | null;
+  /** The stated 95 % interval of the estimate. */
+  ci95: [number, number] | null;
   /** %: (estimated − true) / true · 100; NaN when either is missing. */
   error_pct: number;
   reason: string | null;
@@ -66,6 +68,7 @@ export function recoverHistory(h: History): HistoryRecovery {
     const r = byId.get(t.trip);
     for (const band of BAND_NAMES) {
       const est = r ? (band === 'ram' ? r.k_ram_w_m2k : r.k_fan_w_m2k) : null;
+      const ci95 = r ? (band === 'ram' ? r.k_ram_ci95 : r.k_fan_ci95) : null;
       const truth = t.truth[band].k_w_m2k;
       rows.push({
         history: h.label,
@@ -74,6 +77,7 @@ export function recoverHistory(h: History): HistoryRecovery {
         eligible_samples: t.eligible[band],
         true_w_m2k: truth,
         estimated_w_m2k: est,
+        ci95,
         error_pct: est !== null && truth !== null ? ((est - truth) / truth) * 100 : Number.NaN,
         reason: r ? (band === 'ram' ? r.k_ram_reason : r.k_fan_reason) : 'trip not found',
       });
@@ -99,6 +103,10 @@ export interface BandFigures {
   coverage: number;
   /** Entitled trips without a k, by reason (first words). */
   missed: Record<string, number>;
+  /** Share of trips with a k and an interval whose stated 95 % interval holds the true k. */
+  interval_coverage: number;
+  /** %: median half-width of those intervals relative to k. */
+  median_half_width_pct: number;
 }
 
 export function bandFigures(rows: readonly TripBandRecovery[], band: Band): BandFigures {
@@ -116,6 +124,11 @@ export function bandFigures(rows: readonly TripBandRecovery[], band: Band): Band
       .replace(/\d+/g, 'N');
     missed[why] = (missed[why] ?? 0) + 1;
   }
+  const stated = mine.filter((r) => r.ci95 !== null && r.true_w_m2k !== null && r.estimated_w_m2k !== null);
+  const holds = stated.filter((r) => r.ci95![0] <= r.true_w_m2k! && r.true_w_m2k! <= r.ci95![1]);
+  const widths = Float64Array.from(
+    stated.map((r) => ((r.ci95![1] - r.ci95![0]) / 2 / r.estimated_w_m2k!) * 100),
+  ).sort();
   return {
     band,
     trips_with_k: errs.length,
@@ -126,6 +139,8 @@ export function bandFigures(rows: readonly TripBandRecovery[], band: Band): Band
       ? entitled.filter((r) => r.estimated_w_m2k !== null).length / entitled.length
       : Number.NaN,
     missed,
+    interval_coverage: stated.length ? holds.length / stated.length : Number.NaN,
+    median_half_width_pct: widths.length ? quantileSorted(widths, 0.5) : Number.NaN,
   };
 }
 
@@ -143,6 +158,7 @@ export function formatFigures(f: BandFigures): string {
   return (
     `${f.band.padEnd(3)}  median |error| ${f.median_abs_error_pct.toFixed(2)} %  p90 ${f.p90_abs_error_pct.toFixed(2)} %` +
     `  coverage ${(f.coverage * 100).toFixed(1)} % of ${f.entitled} trips  (${f.trips_with_k} trips with k)` +
+    `\n     stated 95 % interval holds the true k on ${(f.interval_coverage * 100).toFixed(1)} % (median half-width ${f.median_half_width_pct.toFixed(2)} %)` +
     (missed ? `\n     missed: ${missed}` : '')
   );
 }

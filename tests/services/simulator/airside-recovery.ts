@@ -87,6 +87,7 @@ export function simulatorRecovery(seed: number, vehicles: number, days: number):
           eligible_samples: eligible,
           true_w_m2k: truth,
           estimated_w_m2k: est,
+          ci95: r ? (band === 'ram' ? r.k_ram_ci95 : r.k_fan_ci95) : null,
           error_pct: est !== null && truth !== null ? ((est - truth) / truth) * 100 : Number.NaN,
           reason: r ? (band === 'ram' ? r.k_ram_reason : r.k_fan_reason) : 'trip not found',
         });
