@@ -26,7 +26,7 @@ function Rows({ vehicle, trips }: { vehicle: string; trips: readonly TripResult[
             'Margin',
             'Derate',
           ]}
-          after={['Status']}
+          after={['Status after trip']}
         />
         <tbody>
           {trips.map((t) => (
