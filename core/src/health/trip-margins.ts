@@ -1,5 +1,6 @@
 import type { MarginSource, TripResult } from '@thermargin/shared';
 import type { Band } from '../trip/bands.ts';
+import { roundTo } from '../stats/round.ts';
 
 /** A trip's design-point margin: %, limiting ambient °C, the band whose k it comes from, and how. */
 export interface TripMargin {
@@ -15,8 +16,6 @@ export function ownMargin(t: TripResult): { pct: number | null; lat: number | nu
     ? { pct: t.trip_margin_pct, lat: t.trip_limiting_ambient_c ?? null, basis: t.trip_margin_basis ?? null }
     : { pct: t.margin_pct, lat: t.limiting_ambient_c, basis: t.margin_basis };
 }
-
-const round2 = (x: number) => Math.round(x * 100) / 100;
 
 /**
  * Each trip's margin from the band that governs the design point: the trip's own when it gave that
@@ -75,8 +74,8 @@ export class TripMargins {
 
   private setLevel(i: number, level: number): void {
     this.out[i] = {
-      margin_pct: round2(level),
-      limiting_ambient_c: round2(this.latOf(level)),
+      margin_pct: roundTo(level, 2),
+      limiting_ambient_c: roundTo(this.latOf(level), 2),
       margin_basis: this.basis,
       margin_source: 'band_level',
     };

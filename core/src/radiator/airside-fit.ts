@@ -10,6 +10,7 @@ import {
   S_EDGE,
   spread,
 } from './airside-window-model.ts';
+import { roundTo as round } from '../stats/round.ts';
 
 export type { FitTrip } from './airside-window-model.ts';
 
@@ -214,7 +215,6 @@ function assemble(
   const nRam = figure('n_ram', prior.basis.velocity_exponent);
   const nFan = at('n_fan') !== null ? figure('n_fan', prior.basis.velocity_exponent) : { ...nRam };
   const ratio = figure('rho2', prior.basis.ram_face_ratio, (x) => Math.sqrt(Math.max(0, x)) * vf);
-  const round = (x: number, d: number) => Math.round(x * 10 ** d) / 10 ** d;
   const r = (f: FittedFigure, d: number): FittedFigure => ({
     value: round(f.value, d),
     ci95: f.ci95 ? [round(f.ci95[0], d), round(f.ci95[1], d)] : null,

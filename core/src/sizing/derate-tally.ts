@@ -1,3 +1,4 @@
+import { roundTo } from '../stats/round.ts';
 /** Derate time, events and energy not delivered, in total and per UTC day driven. */
 export interface DerateDay {
   /** UTC date YYYY-MM-DD. */
@@ -78,7 +79,7 @@ export class DerateTally {
   }
 
   totals(): DerateTotals {
-    const r3 = (x: number) => Math.round(x * 1000) / 1000;
+    const r3 = (x: number) => roundTo(x, 3);
     return {
       events: this.events,
       hours: r3(this.seconds / 3600),

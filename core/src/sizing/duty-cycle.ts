@@ -1,4 +1,5 @@
 import { LogHistogram } from './log-histogram.ts';
+import { roundTo } from '../stats/round.ts';
 
 /** One operating band of the duty cycle (lower edge inclusive; null = open). */
 export interface BandSpan {
@@ -57,7 +58,7 @@ export interface DutyCycle {
   time_above: TimeAbove[];
 }
 
-const r3 = (x: number) => Math.round(x * 1000) / 1000;
+const r3 = (x: number) => roundTo(x, 3);
 
 /** `p95` for 0.95, `p99.9` for 0.999. */
 export function percentileKey(p: number): string {

@@ -5,6 +5,7 @@ import { type Band, BAND_NAMES } from '../trip/bands.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
 import type { BandFouling } from './fouling-rate.ts';
 import { tripK } from './trip-k.ts';
+import { roundTo as r } from '../stats/round.ts';
 
 /** Field k of one band of one vehicle against its bench k. */
 export interface BandFieldK {
@@ -23,8 +24,6 @@ export interface BandFieldK {
   /** –: clean field k ÷ bench k: what the bench rating is worth on the road with a clean core. */
   clean_ratio: number | null;
 }
-
-const r = (x: number, d: number) => Math.round(x * 10 ** d) / 10 ** d;
 
 /**
  * Field k per band against the bench: the median of the trips' k (each referred to the band's

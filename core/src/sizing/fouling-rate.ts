@@ -9,6 +9,7 @@ import { designKa_w_k } from '../trip/design-point.ts';
 import type { VehicleModel } from '../vehicle/resolve.ts';
 import type { SizingOptions } from './options.ts';
 import { tripK } from './trip-k.ts';
+import { roundTo as r } from '../stats/round.ts';
 
 /** days: mean Gregorian month, 365.2425 / 12. */
 export const MONTH_DAYS = 30.436875;
@@ -71,8 +72,6 @@ const TAKES_FROM: Record<Exclude<Cause, 'none' | 'fouling'>, readonly Band[]> = 
 };
 const takesFrom = (c: Cause | undefined, band: Band) =>
   c !== undefined && c !== 'none' && c !== 'fouling' && TAKES_FROM[c].includes(band);
-
-const r = (x: number, d: number) => Math.round(x * 10 ** d) / 10 ** d;
 
 interface Point {
   t_ms: number;

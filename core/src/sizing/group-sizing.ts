@@ -6,6 +6,7 @@ import type { SizingOptions } from './options.ts';
 import { type Spread, spreadOf } from './spread.ts';
 import type { VehicleSamples } from './vehicle-samples.ts';
 import { percentilesOf, timeAbove, type VehicleSizing } from './vehicle-sizing.ts';
+import { roundTo } from '../stats/round.ts';
 
 export interface GroupFieldK {
   band: Band;
@@ -44,7 +45,7 @@ export interface GroupSizing {
   what_if: GroupWhatIf[] | null;
 }
 
-const r3 = (x: number) => Math.round(x * 1000) / 1000;
+const r3 = (x: number) => roundTo(x, 3);
 
 /** Time above each level: hours summed over vehicles, each at its own design heat. */
 function groupTimeAbove(members: VehicleSizing[], samples: VehicleSamples[], o: SizingOptions): TimeAbove[] {

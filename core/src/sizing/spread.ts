@@ -1,4 +1,5 @@
 import { quantileSorted } from '../stats/quantile.ts';
+import { roundTo } from '../stats/round.ts';
 
 /** How one figure spreads across vehicles (type-7 quantiles, stats/quantile.ts). */
 export interface Spread {
@@ -10,7 +11,7 @@ export interface Spread {
   max: number;
 }
 
-const r4 = (x: number) => Math.round(x * 1e4) / 1e4;
+const r4 = (x: number) => roundTo(x, 4);
 
 /** Spread of the non-null values, or null when there are none. Example: [1, 2, 3, 4] → p25 1.75, median 2.5. */
 export function spreadOf(values: readonly (number | null)[]): Spread | null {

@@ -11,6 +11,7 @@ import { type BandFouling, foulingRates } from './fouling-rate.ts';
 import type { LogHistogram } from './log-histogram.ts';
 import type { SizingOptions } from './options.ts';
 import type { VehicleSamples } from './vehicle-samples.ts';
+import { roundTo } from '../stats/round.ts';
 
 /** Recorded derates (derate = 1) of a vehicle or group. */
 export interface DerateSummary extends DerateTotals {
@@ -79,7 +80,7 @@ export interface VehicleSizing {
   airside_fit: AirsideFit | null;
 }
 
-const r3 = (x: number) => Math.round(x * 1000) / 1000;
+const r3 = (x: number) => roundTo(x, 3);
 
 export function percentilesOf(h: LogHistogram, ps: readonly number[]): Record<string, number> | null {
   if (h.total <= 0) return null;
@@ -136,7 +137,7 @@ function designCheck(
   return {
     band,
     k_source,
-    k_design_w_m2k: Math.round(k * 10) / 10,
+    k_design_w_m2k: roundTo(k, 1),
     fouling_allowance: allowance,
     allowance_source: fitted === null ? 'default' : 'fouling_fit',
     allowance_note: fitted === null ? (fit?.fouling_allowance_note ?? null) : null,

@@ -1,5 +1,6 @@
 import { medianCi95Sorted } from '../stats/median-ci.ts';
 import { quantileSorted } from '../stats/quantile.ts';
+import { roundTo } from '../stats/round.ts';
 
 /** Rules for a confirmed ambient offset; defaults defined once here, each says why. */
 export const AMBIENT_OFFSET_DEFAULTS = {
@@ -43,10 +44,9 @@ export function ambientOffset(
   const sorted = Float64Array.from(checks_k).sort();
   const value = quantileSorted(sorted, 0.5);
   const ci = medianCi95Sorted(sorted);
-  const round = (x: number) => Math.round(x * 100) / 100;
   const out = {
-    value_k: round(value),
-    ci95: ci ? ([round(ci[0]), round(ci[1])] as [number, number]) : null,
+    value_k: roundTo(value, 2),
+    ci95: ci ? ([roundTo(ci[0], 2), roundTo(ci[1], 2)] as [number, number]) : null,
     checks: n,
   };
   const steady = checks_k.filter((x) => Math.abs(x - value) <= o.steady_within_k).length / n;

@@ -11,6 +11,7 @@ import { SENSOR_CHECK_DEFAULTS, soakOffset_k, stuckSignals } from './sensor-chec
 import { priorReferral, windowK_w_m2k } from './refer.ts';
 import type { TripSpan } from './split.ts';
 import { tripWindows } from './windows.ts';
+import { roundTo as round } from '../stats/round.ts';
 
 export interface TripContext {
   /** Epoch ms of the previous trip's last sample (null for the first trip seen). */
@@ -20,10 +21,6 @@ export interface TripContext {
 }
 
 const iso = (ms: number) => new Date(ms).toISOString().replace(/\.000Z$/, 'Z');
-const round = (x: number, digits: number) => {
-  const f = 10 ** digits;
-  return Math.round(x * f) / f;
-};
 
 /**
  * One trip's result: heat load statistics (heat generated into the coolant, drivetrain/heat.ts), derate time,

@@ -4,6 +4,7 @@ import { median, quantileSorted } from '../stats/quantile.ts';
 import { type Airside, bandFactor } from '../radiator/airside.ts';
 import { huberFit } from '../stats/huber.ts';
 import { BAND_NAMES } from './bands.ts';
+import { roundTo } from '../stats/round.ts';
 
 /** Rules of the unmeasured-heat estimate; defaults defined once here. */
 export const UNMEASURED_HEAT_DEFAULTS = {
@@ -56,7 +57,6 @@ export function unmeasuredHeat(
 ): UnmeasuredHeat {
   if (known_kw !== null)
     return { value_kw: known_kw, ci95: null, basis: 'fleet_file', trips: 0, reason: null };
-  const round = (x: number) => Math.round(x * 1000) / 1000;
   const none = (reason: string, n: number, ci95: [number, number] | null = null): UnmeasuredHeat => ({
     value_kw: 0,
     ci95,
@@ -65,10 +65,10 @@ export function unmeasuredHeat(
     reason,
   });
   const judged = (value: number, ci: [number, number], n: number): UnmeasuredHeat => {
-    const ci95 = [round(ci[0]), round(ci[1])] as [number, number];
+    const ci95 = [roundTo(ci[0], 3), roundTo(ci[1], 3)] as [number, number];
     return ci[0] > 0
-      ? { value_kw: round(value), ci95, basis: 'fitted', trips: n, reason: null }
-      : none(`${round(value)} kW, but its 95 % interval includes zero or less`, n, ci95);
+      ? { value_kw: roundTo(value, 3), ci95, basis: 'fitted', trips: n, reason: null }
+      : none(`${roundTo(value, 3)} kW, but its 95 % interval includes zero or less`, n, ci95);
   };
   const medians = meterMedians(trips, o);
   if (medians.length > 0) {

@@ -6,6 +6,7 @@ import type { VehicleModel } from '../vehicle/resolve.ts';
 import { type Band, bandOf } from './bands.ts';
 import type { EstimatorOptions } from './estimator-options.ts';
 import { FullOpenGate } from './full-open.ts';
+import { roundTo as round } from '../stats/round.ts';
 
 /** What the windows of one band gave on one trip. */
 export interface BandWindows {
@@ -42,11 +43,6 @@ function emptyBand(): BandWindows {
     rejected: { short: 0, low_heat: 0, not_steady: 0 },
   };
 }
-
-const round = (x: number, digits: number) => {
-  const f = 10 ** digits;
-  return Math.round(x * f) / f;
-};
 
 /** Running sums of one window; times in seconds from the window's first sample. */
 class WindowSums {

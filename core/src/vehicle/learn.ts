@@ -17,6 +17,7 @@ import { type Referral, windowK_w_m2k } from '../trip/refer.ts';
 import { type UnmeasuredHeat, unmeasuredHeat } from '../trip/unmeasured-heat.ts';
 import { type FigureUncertainty, figureHalfWidth, figureUncertainty, widened } from './figure-uncertainty.ts';
 import type { VehicleModel } from './resolve.ts';
+import { roundTo as round } from '../stats/round.ts';
 
 /** What the vehicle stage learned from all the vehicle's trips, and the trips referred with it. */
 export interface VehicleLearning {
@@ -32,7 +33,6 @@ export interface VehicleLearning {
 
 const NO_WINDOW = (b: Band) =>
   `${b} band: no window with positive heat and ITD after the vehicle's corrections`;
-const round = (x: number, d: number) => Math.round(x * 10 ** d) / 10 ** d;
 const opt = (x: number | null, d: number) => (x === null ? null : round(x, d));
 
 /**
