@@ -45,10 +45,14 @@ export function frameTopic(vehicle: string): string {
   return `${TOPIC_PREFIX}/${vehicle}/${FRAMES_SUFFIX}`;
 }
 
+/** What a vehicle's topic names: whose messages and which kind. */
+export interface VehicleTopic {
+  vehicle: string;
+  kind: 'samples' | 'frames';
+}
+
 /** The vehicle and kind of a vehicle's topic, or undefined when the topic is neither (or its id is not valid). */
-export function parseVehicleTopic(
-  topic: string,
-): { vehicle: string; kind: 'samples' | 'frames' } | undefined {
+export function parseVehicleTopic(topic: string): VehicleTopic | undefined {
   const head = `${TOPIC_PREFIX}/`;
   if (!topic.startsWith(head)) return undefined;
   const slash = topic.lastIndexOf('/');

@@ -1,4 +1,5 @@
 import { Worker } from 'node:worker_threads';
+import { parseVehicleTopic, type VehicleTopic } from '@thermargin/shared';
 import type { Logger } from '@thermargin/shared/log';
 import { type DecodeContext, type Decoded, safeDecode } from './decode.ts';
 import { type PackedSamples, unpackSamples } from './sample-pack.ts';
@@ -13,6 +14,8 @@ export interface DecodeWorkerData {
 export interface DecodeJob {
   id: number;
   topic: string;
+  /** the topic as the receiving thread read it */
+  parsed: VehicleTopic | undefined;
   payload: Uint8Array;
   now_ms: number;
 }
@@ -23,6 +26,7 @@ export interface DecodeResult extends Omit<Decoded, 'samples'> {
 
 interface Pending {
   topic: string;
+  parsed: VehicleTopic | undefined;
   payload: Buffer;
   now_ms: number;
   resolve: (d: Decoded) => void;
@@ -61,17 +65,23 @@ export class DecodePool {
     for (let i = 0; i < size; i++) this.slots.push(this.spawn());
   }
 
-  decode(topic: string, payload: Buffer, now_ms: number): Promise<Decoded> {
+  /** `parsed`: the topic read already, when the caller has read it. */
+  decode(
+    topic: string,
+    payload: Buffer,
+    now_ms: number,
+    parsed: VehicleTopic | undefined = parseVehicleTopic(topic),
+  ): Promise<Decoded> {
     const slot = this.slots.reduce<Slot | undefined>(
       (best, s) => (!best || s.jobs.size < best.jobs.size ? s : best),
       undefined,
     );
-    if (!slot) return Promise.resolve(this.inline({ topic, payload, now_ms }));
+    if (!slot) return Promise.resolve(this.inline({ topic, parsed, payload, now_ms }));
     const id = this.seq++;
     return new Promise((resolve) => {
-      slot.jobs.set(id, { topic, payload, now_ms, resolve });
+      slot.jobs.set(id, { topic, parsed, payload, now_ms, resolve });
       const bytes = new Uint8Array(payload); // only this message's bytes, not the socket buffer under it
-      const job: DecodeJob = { id, topic, payload: bytes, now_ms };
+      const job: DecodeJob = { id, topic, parsed, payload: bytes, now_ms };
       slot.worker.postMessage(job, [bytes.buffer]);
     });
   }
@@ -82,7 +92,7 @@ export class DecodePool {
   }
 
   private inline(job: Omit<Pending, 'resolve'>): Decoded {
-    return safeDecode(job.topic, job.payload, { ...this.ctx, now_ms: job.now_ms });
+    return safeDecode(job.topic, job.payload, { ...this.ctx, now_ms: job.now_ms }, job.parsed);
   }
 
   private spawn(): Slot {

@@ -12,12 +12,12 @@ const port = parentPort!;
 
 port.on('message', (job: DecodeJob) => {
   const payload = Buffer.from(job.payload.buffer, job.payload.byteOffset, job.payload.byteLength);
-  const d = safeDecode(job.topic, payload, {
-    known_vehicles: known,
-    now_ms: job.now_ms,
-    max_payload_bytes,
-    readings,
-  });
+  const d = safeDecode(
+    job.topic,
+    payload,
+    { known_vehicles: known, now_ms: job.now_ms, max_payload_bytes, readings },
+    job.parsed,
+  );
   const samples = packSamples(d.samples);
   const result: DecodeResult = {
     id: job.id,

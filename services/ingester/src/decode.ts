@@ -6,6 +6,7 @@ import {
   SIGNALS,
   type Sample,
   TIME_MIN_MS,
+  type VehicleTopic,
   type WireSample,
   formatPath,
   parseVehicleTopic,
@@ -47,10 +48,15 @@ export const NAMED_REFUSALS = 3;
 /**
  * One MQTT message → the samples to store and the dead letters, never a throw: a payload is refused
  * whole when its topic, vehicle, size or JSON is wrong, and sample by sample otherwise (the good ones
- * of a batch are kept). A frames message is decoded by decodeFrames.
+ * of a batch are kept). A frames message is decoded by decodeFrames. `parsed` is the topic read
+ * already, when the caller has read it.
  */
-export function decodeMessage(topic: string, payload: Buffer, ctx: DecodeContext): Decoded {
-  const parsed = parseVehicleTopic(topic);
+export function decodeMessage(
+  topic: string,
+  payload: Buffer,
+  ctx: DecodeContext,
+  parsed: VehicleTopic | undefined = parseVehicleTopic(topic),
+): Decoded {
   const vehicle = parsed?.vehicle;
   const letter = (
     reason: RejectReason,
@@ -141,13 +147,18 @@ export function decodeMessage(topic: string, payload: Buffer, ctx: DecodeContext
 }
 
 /** decodeMessage, with a last guard: an unforeseen throw dead-letters the message instead of stopping us. */
-export function safeDecode(topic: string, payload: Buffer, ctx: DecodeContext): Decoded {
+export function safeDecode(
+  topic: string,
+  payload: Buffer,
+  ctx: DecodeContext,
+  parsed: VehicleTopic | undefined = parseVehicleTopic(topic),
+): Decoded {
   try {
-    return decodeMessage(topic, payload, ctx);
+    return decodeMessage(topic, payload, ctx, parsed);
   } catch (e) {
     const letter = {
       received_ms: ctx.now_ms,
-      vehicle: parseVehicleTopic(topic)?.vehicle ?? '',
+      vehicle: parsed?.vehicle ?? '',
       reason: 'schema' as const,
       detail: `could not be decoded: ${(e as Error).message}`,
       topic: excerpt(topic, 256),

@@ -145,10 +145,11 @@ export function createIngester(config: IngesterConfig, deps: IngesterDeps): Inge
     client.handleMessage = (packet, done) => {
       if (stopping) return; // never acknowledged: the broker redelivers it to this session or the group
       const payload = Buffer.isBuffer(packet.payload) ? packet.payload : Buffer.from(packet.payload);
+      const parsed = parseVehicleTopic(packet.topic);
       const deliver = (decoded: Decoded) => {
         metrics.messages_received++;
         metrics.samples_received += decoded.samples.length;
-        const vehicle = parseVehicleTopic(packet.topic)?.vehicle ?? '';
+        const vehicle = parsed?.vehicle ?? '';
         for (const [reason, n] of Object.entries(decoded.refused))
           metrics.reject(vehicle, reason as RejectReason, n);
         for (const t of decoded.tallies) metrics.frameTally(t);
@@ -159,8 +160,9 @@ export function createIngester(config: IngesterConfig, deps: IngesterDeps): Inge
           ack: () => done(),
         });
       };
-      if (!pool) return deliver(safeDecode(packet.topic, payload, { ...decodeContext, now_ms: clock() }));
-      const decoding = pool.decode(packet.topic, payload, clock()).then(deliver);
+      if (!pool)
+        return deliver(safeDecode(packet.topic, payload, { ...decodeContext, now_ms: clock() }, parsed));
+      const decoding = pool.decode(packet.topic, payload, clock(), parsed).then(deliver);
       decodes.add(decoding);
       void decoding.finally(() => decodes.delete(decoding));
     };
