@@ -1,11 +1,9 @@
 import { type DataMap, SIGNAL_NAMES } from '@thermargin/shared';
-import { timeReader } from './table/time-forms.ts';
+import { EPOCH_MS, timeReader } from './table/time-forms.ts';
 import { mapValue, type ValueMap, valueMap } from './units.ts';
 
 /** Names of the wire format's own fields: a mapped record keeps them as they are. */
 const OWN_FIELDS = new Set<string>(['time', 'vehicle', 'trip', ...SIGNAL_NAMES]);
-
-const EPOCH_MS: Record<string, number> = { epoch_s: 1000, epoch_ms: 1, epoch_us: 0.001 };
 
 /**
  * Turns a logger's JSON record with its own field names and units into the wire format's (for the

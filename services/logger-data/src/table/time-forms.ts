@@ -21,6 +21,13 @@ function plainNumber(s: Uint8Array, a: number, b: number): number {
   return /^[+-]?\d+(\.\d+)?$/.test(t) ? Number(t) : Number.NaN;
 }
 
+/** ms per count of each epoch time form (seconds, milliseconds or microseconds since 1970). */
+export const EPOCH_MS: Readonly<Partial<Record<TimeMap['form'], number>>> = {
+  epoch_s: 1000,
+  epoch_ms: 1,
+  epoch_us: 0.001,
+};
+
 const epochReader =
   (ms_per_unit: number): TimeReader =>
   (s, a, b) =>
@@ -94,11 +101,9 @@ export function timeReader(map: TimeMap): TimeReader {
     case 'iso8601':
       return isoReader;
     case 'epoch_s':
-      return epochReader(1000);
     case 'epoch_ms':
-      return epochReader(1);
     case 'epoch_us':
-      return epochReader(0.001);
+      return epochReader(EPOCH_MS[map.form]!);
     case 'local':
       return localReader(map.zone!, map.date_order ?? 'ymd');
   }
