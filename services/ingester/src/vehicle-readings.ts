@@ -1,6 +1,6 @@
 import type { DataMap, FleetInput } from '@thermargin/shared';
 import { vehicleDataMaps } from '@thermargin/logger-data/io/data-maps';
-import { compileFrames, type DecoderConfig } from '@thermargin/logger-data/j1939/config';
+import { compileFrames, type DecoderConfig, frameTables } from '@thermargin/logger-data/j1939/config';
 import { recordMapper } from '@thermargin/logger-data/record';
 
 /** A vehicle's mapping and reference torque as the fleet file gives them (plain data: it crosses threads). */
@@ -36,19 +36,14 @@ export const STANDARD_READING: VehicleReading = { frames: compileFrames(undefine
  */
 export function vehicleReadings(specs: Iterable<[string, VehicleMapSpec]>): Map<string, VehicleReading> {
   const out = new Map<string, VehicleReading>();
-  const tables = new Map<string, DecoderConfig>();
+  const tables = frameTables();
   for (const [vehicle, spec] of specs) {
     if (!spec.map && spec.reference_torque_nm === null) continue;
-    const key = `${JSON.stringify(spec.map?.frames ?? null)}|${spec.reference_torque_nm}`;
-    let config = tables.get(key);
-    if (!config) {
-      const r = compileFrames(spec.map?.frames, spec.reference_torque_nm);
-      if (r.problems.length)
-        throw new Error(
-          `ingester: vehicle ${vehicle}'s data_map: ${r.problems.map((p) => `${p.where}: ${p.rule}`).join('; ')}`,
-        );
-      tables.set(key, (config = r.config));
-    }
+    const { config, problems } = tables(spec.map?.frames, spec.reference_torque_nm);
+    if (problems.length)
+      throw new Error(
+        `ingester: vehicle ${vehicle}'s data_map: ${problems.map((p) => `${p.where}: ${p.rule}`).join('; ')}`,
+      );
     const json = spec.map && (spec.map.fields || spec.map.time || spec.map.vehicle || spec.map.trip);
     out.set(vehicle, { frames: config, ...(json ? { record: recordMapper(spec.map!) } : {}) });
   }

@@ -3,7 +3,7 @@ import type { VehicleModel } from '@thermargin/core/vehicle/resolve';
 import { loadFleetFile } from '@thermargin/usecases/fleet-file';
 import { candumpSamples } from '@thermargin/logger-data/io/candump-samples';
 import { readDataMap, vehicleDataMaps } from '@thermargin/logger-data/io/data-maps';
-import { compileFrames, type DecoderConfig } from '@thermargin/logger-data/j1939/config';
+import { type DecoderConfig, frameTables } from '@thermargin/logger-data/j1939/config';
 import { emptyFrameCounts, type FrameCounts } from '@thermargin/logger-data/j1939/decoder';
 import { readCsvFile } from './csv-reader.ts';
 import { type DataFile, vehicleOfPath } from './data-files.ts';
@@ -77,7 +77,7 @@ export class DataReader {
   readonly filesOf = new Map<string, number[]>();
   rows = 0;
   private readonly ids: string[];
-  private readonly configs = new Map<DataMap | undefined, Map<number | null, DecoderConfig>>();
+  private readonly tables = frameTables();
 
   constructor(
     private readonly ctx: ReadContext,
@@ -191,19 +191,14 @@ export class DataReader {
   /** The decoder's tables for a mapping and the vehicle's reference torque, built once each. */
   private decoderConfig(map: DataMap | undefined, vehicle: string): DecoderConfig {
     const torque = this.ctx.fleet.vehicles.find((v) => v.id === vehicle)?.engine_reference_torque_nm ?? null;
-    let byTorque = this.configs.get(map);
-    if (!byTorque) this.configs.set(map, (byTorque = new Map()));
-    let config = byTorque.get(torque);
-    if (!config) {
+    const { config, problems } = this.tables(map?.frames, torque);
+    if (problems.length) {
       const source =
         map === this.ctx.globalMap && this.ctx.mapPath ? this.ctx.mapPath : `${vehicle}'s data_map`;
-      const r = compileFrames(map?.frames, torque);
-      if (r.problems.length)
-        throw new InputError(
-          r.problems.map((p) => ({ ...p, where: `${source}: ${p.where}` })),
-          `${source} is not valid`,
-        );
-      byTorque.set(torque, (config = r.config));
+      throw new InputError(
+        problems.map((p) => ({ ...p, where: `${source}: ${p.where}` })),
+        `${source} is not valid`,
+      );
     }
     return config;
   }

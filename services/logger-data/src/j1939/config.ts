@@ -218,3 +218,23 @@ export function compileFrames(
     problems,
   };
 }
+
+/**
+ * compileFrames remembered per frames section and reference torque: readers of many vehicles or files
+ * build each decoder table (½ MB) once and share it. A section with problems is not kept (its caller
+ * refuses it).
+ */
+export function frameTables(): (
+  frames: FramesMap | undefined,
+  reference_torque_nm: number | null,
+) => { config: DecoderConfig; problems: Problem[] } {
+  const tables = new Map<string, DecoderConfig>();
+  return (frames, reference_torque_nm) => {
+    const key = `${JSON.stringify(frames ?? null)}|${reference_torque_nm}`;
+    const config = tables.get(key);
+    if (config) return { config, problems: [] };
+    const r = compileFrames(frames, reference_torque_nm);
+    if (!r.problems.length) tables.set(key, r.config);
+    return r;
+  };
+}
