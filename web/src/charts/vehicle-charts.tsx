@@ -35,6 +35,10 @@ const line = (label: string, stroke: string, dash: number[], unit: string, scale
   ...(scale ? { scale } : {}),
 });
 
+/** The projected inspection date in words: due since it once the last trip has reached it. */
+const projectedInspection = (date: string | null, last_ms: number): string =>
+  `${date && Date.parse(date) <= last_ms ? 'inspection due since' : 'projected inspection'} ${when(date, false)}`;
+
 function maintenanceMarkers(entries: readonly MaintenanceView[]): Marker[] {
   return entries.map((m) => ({
     x: Date.parse(m.date.length === 10 ? `${m.date}T00:00:00Z` : m.date),
@@ -139,7 +143,7 @@ export function MarginChart({
     if (p.date)
       markers.push({
         x: Date.parse(p.date),
-        label: `${Date.parse(p.date) <= last ? 'inspection due since' : 'projected inspection'} ${when(p.date, false)}`,
+        label: projectedInspection(p.date, last),
         color: INK.violet,
         dash: DASH.dashed,
       });
@@ -214,7 +218,7 @@ export function MarginChart({
     <Chart
       id="vehicle-margin"
       title="Margin and limiting ambient temperature over time, with the projection"
-      summary={`inspect threshold ${num(s.margin.inspect_below_pct, '%', 0)}; ${p.date && Date.parse(p.date) <= (s.time_ms.at(-1) ?? 0) ? 'inspection due since' : 'projected inspection'} ${when(p.date, false)}${p.interval ? ` (interval ${when(p.interval[0], false)} to ${when(p.interval[1], false)})` : ''}`}
+      summary={`inspect threshold ${num(s.margin.inspect_below_pct, '%', 0)}; ${projectedInspection(p.date, s.time_ms.at(-1) ?? 0)}${p.interval ? ` (interval ${when(p.interval[0], false)} to ${when(p.interval[1], false)})` : ''}`}
       height={260}
       empty="No trip gave a margin at the design point yet: it needs a valid k in the design point's band."
       minSpan={{ y: MIN_SPAN['%'], degC: MIN_SPAN['°C'] }}
