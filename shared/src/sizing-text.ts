@@ -1,10 +1,10 @@
-import { CAUSE_WORD, type Cause } from './results.ts';
+import { CAUSE_WORD, type Cause, type FittedFigure } from './results.ts';
 import type { DrivetrainComparisonView, VehicleSizingView } from './sizing-api.ts';
 
 /**
  * The sizing figures' provenance in words, one wording for the HTML report and the dashboard: what
- * the fouling fit left out, where each figure of the drivetrain duty came from, and how a design
- * check's margins step from the analysed one.
+ * the fouling fit left out, where each figure of the drivetrain duty and the air side came from, and
+ * how a design check's margins step from the analysed one.
  */
 
 type BandFoulingView = VehicleSizingView['fouling'][number];
@@ -21,6 +21,13 @@ export function leftOutWords(f: BandFoulingView): string | null {
 }
 
 const DUTY_WORD = { given: 'given', fleet_data: 'fleet data', default: 'default' } as const;
+
+/** Where a learned air-side figure came from: fitted to the vehicle's trips, the fleet file or the default. */
+export const BASIS_WORD: Record<FittedFigure['basis'], string> = {
+  fitted: 'fitted',
+  fleet_file: 'fleet file',
+  default: 'default',
+};
 
 /** "12 570 kg (fleet data), CdA 0.6 m² (default), …" with where each figure came from. */
 export function dutyWords(d: DrivetrainComparisonView): string {

@@ -1,14 +1,9 @@
 import type { FittedFigure } from '@thermargin/shared';
 import type { SizingResultView } from '@thermargin/shared/sizing-api';
+import { BASIS_WORD } from '@thermargin/shared/sizing-text';
 import { BAND_WORD, num } from '../format.ts';
 import { href } from '../state/place.ts';
 import { TableHead } from './TableHead.tsx';
-
-const BASIS_WORD: Record<FittedFigure['basis'], string> = {
-  fitted: 'fitted',
-  fleet_file: 'fleet file',
-  default: 'default',
-};
 
 function Figure({ f, digits, unit = '' }: { f: FittedFigure | undefined; digits: number; unit?: string }) {
   if (!f) return <td class="num">—</td>;

@@ -1,5 +1,5 @@
 import { DESIGN_NOTE, type FittedFigure, safetyCaution } from '@thermargin/shared';
-import { dutyWords, leftOutWords, marginStepsWords } from '@thermargin/shared/sizing-text';
+import { BASIS_WORD, dutyWords, leftOutWords, marginStepsWords } from '@thermargin/shared/sizing-text';
 import type { SizingResult } from '@thermargin/core/sizing/fleet-sizing';
 import type { GroupSizing } from '@thermargin/core/sizing/group-sizing';
 import type { Spread } from '@thermargin/core/sizing/spread';
@@ -252,7 +252,7 @@ ${table(['vehicle', 'limit °C', 'design ambient °C', 'events', 'hours', 'kWh n
 function airside(r: SizingResult): string {
   const d = r.airside_defaults;
   const fig = (f: FittedFigure, digits: number) =>
-    `${f.value.toFixed(digits)}${f.ci95 ? ` (${f.ci95[0].toFixed(digits)}–${f.ci95[1].toFixed(digits)})` : ''} ${esc(f.basis.replace('_', ' '))}`;
+    `${f.value.toFixed(digits)}${f.ci95 ? ` (${f.ci95[0].toFixed(digits)}–${f.ci95[1].toFixed(digits)})` : ''} ${esc(BASIS_WORD[f.basis])}`;
   const rows = r.vehicles.map((v) => {
     const a = v.airside_fit;
     if (!a) return [esc(v.id), '–', '–', '–', '–', '–', '–'];
