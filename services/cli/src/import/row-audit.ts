@@ -4,9 +4,11 @@ import { rangeHint } from '@thermargin/logger-data/table/unit-hint';
 /** Rows shown with file:line on stderr; the rest are only counted. */
 export const BAD_ROWS_SHOWN = 10;
 
-const REQUIRED = NUMERIC_COLUMNS.map((c, k) => ({ name: c as SignalName, k })).filter(
-  (c) => c.k > 0 && SIGNALS[c.name]?.required,
-);
+/** The required signals' columns and plausible ranges, looked up once rather than on every row. */
+const REQUIRED = NUMERIC_COLUMNS.flatMap((c, k) => {
+  const spec = SIGNALS[c as SignalName];
+  return k > 0 && spec?.required ? [{ name: c as SignalName, k, min: spec.min, max: spec.max }] : [];
+});
 
 /** Refused values of one kind: how many, and their span. */
 export interface Span {
@@ -47,15 +49,14 @@ export class RowAudit {
    */
   row(file: string, at: number, vehicle: string, values: Float64Array, from_frames = false): void {
     this.fileRows++;
-    for (const { name, k } of REQUIRED) {
+    for (const { name, k, min, max } of REQUIRED) {
       const v = values[k]!;
-      const spec = SIGNALS[name];
-      if (v >= spec.min && v <= spec.max) continue;
+      if (v >= min && v <= max) continue;
       const reason = Number.isNaN(v) ? `${name}_missing` : `${name}_out_of_range`;
       if (this.file.bad++ < BAD_ROWS_SHOWN) {
         const where = from_frames ? `${file}: sample at ${new Date(at).toISOString()}` : `${file}:${at}`;
         this.file.lines.push(
-          `${where}: row refused: ${reason}${Number.isNaN(v) ? '' : ` (${v} outside ${spec.min}…${spec.max})`}`,
+          `${where}: row refused: ${reason}${Number.isNaN(v) ? '' : ` (${v} outside ${min}…${max})`}`,
         );
       }
       note(this.fileSpans, reason, v);
