@@ -10,10 +10,13 @@ type Query = (q: string) => Promise<InfluxSeries[][]>;
 /**
  * Late-sample marks in InfluxDB: a point per late write and vehicle, `late_samples,vehicle={id}
  * from_ms=…i,count=…i {ms}`, its time (unique per vehicle in this process) its handle for the delete.
- * "Late" is judged against the newest sample this process knows of per vehicle: the store's at the
- * first write (one query), then its own writes. A replica that has not written a vehicle lately may
- * judge a batch seconds behind another replica's newest as not late; anything older than what it has
- * written itself, or than the store held at its start, is marked.
+ * "Late" is judged twice. Before the write, against the newest sample this process knows of per
+ * vehicle (the store's at the first write, then its own writes). After it, against what other writers
+ * stored meanwhile: a sample of the vehicle newer than the whole batch means an analyzer may already have
+ * read past it (ingester replicas share a subscription, so a vehicle's batches land out of order), and
+ * the batch is marked from its earliest sample. Without the second look a replica that had not written
+ * a vehicle lately judged a batch behind another replica's newest as not late, and its samples were
+ * never analysed.
  */
 export function influxLateMarks(query: Query) {
   let newest: Promise<Map<string, number>> | undefined;
@@ -24,24 +27,53 @@ export function influxLateMarks(query: Query) {
     return new Map(series.map((s) => [s.tags?.vehicle ?? '', s.values[0]?.[0] as number]));
   };
 
+  /** Per vehicle, the samples of `samples` older than `newer(vehicle)`: their earliest time and count. */
+  const behind = (samples: readonly Sample[], newer: (vehicle: string) => number | undefined) => {
+    const late = new Map<string, { from_ms: number; count: number }>();
+    for (const s of samples) {
+      const t = storedTime(s.time_ms);
+      if (!(t < (newer(s.vehicle) ?? Number.NEGATIVE_INFINITY))) continue;
+      const m = late.get(s.vehicle);
+      if (m) {
+        m.from_ms = Math.min(m.from_ms, t);
+        m.count++;
+      } else late.set(s.vehicle, { from_ms: t, count: 1 });
+    }
+    return late;
+  };
+
   return {
-    /** The mark lines for `samples` (judged before they are written; none when nothing is late). */
-    async lines(samples: readonly Sample[], now_ms: number): Promise<string[]> {
+    /** Before `samples` are written: the vehicles they are late for by what this process knows. */
+    async before(samples: readonly Sample[]): Promise<Map<string, { from_ms: number; count: number }>> {
       newest ??= loadNewest().catch((e) => {
         newest = undefined;
         throw e;
       });
       const known = await newest;
-      const late = new Map<string, { from_ms: number; count: number }>();
+      return behind(samples, (v) => known.get(v));
+    },
+    /**
+     * After `samples` are written: the mark lines, adding the vehicles another writer stored a newer
+     * sample of than the whole batch (one query over the time after the batch).
+     */
+    async lines(
+      samples: readonly Sample[],
+      early: Map<string, { from_ms: number; count: number }>,
+      now_ms: number,
+    ): Promise<string[]> {
+      let last = Number.NEGATIVE_INFINITY;
+      const vehicles = new Set<string>();
       for (const s of samples) {
-        const t = storedTime(s.time_ms);
-        if (!(t < (known.get(s.vehicle) ?? Number.NEGATIVE_INFINITY))) continue;
-        const m = late.get(s.vehicle);
-        if (m) {
-          m.from_ms = Math.min(m.from_ms, t);
-          m.count++;
-        } else late.set(s.vehicle, { from_ms: t, count: 1 });
+        last = Math.max(last, storedTime(s.time_ms));
+        vehicles.add(s.vehicle);
       }
+      if (vehicles.size === 0) return [];
+      const which = [...vehicles].map((v) => `vehicle = ${idLiteral(v)}`).join(' OR ');
+      const [series = []] = await query(
+        `SELECT last(speed_kmh) FROM ${SAMPLES_MEASUREMENT} WHERE (${which}) AND time > ${timeLiteral(last)} GROUP BY vehicle`,
+      );
+      const elsewhere = new Map(series.map((s) => [s.tags?.vehicle ?? '', s.values[0]?.[0] as number]));
+      const late = new Map([...behind(samples, (v) => elsewhere.get(v)), ...early]);
       return [...late].map(([vehicle, m]) => {
         const at = Math.max(Math.round(now_ms), (lastMark.get(vehicle) ?? 0) + 1);
         lastMark.set(vehicle, at);

@@ -89,10 +89,10 @@ export function createInfluxStore(options: InfluxStoreOptions): SampleStore {
     kind: 'influx',
     async writeSamples(samples) {
       if (samples.length === 0) return;
-      const marks = await late.lines(samples, Date.now());
+      const early = await late.before(samples);
       await writeLines(samples.map(sampleLine), 'ms');
       // After the samples: a mark is never seen before what it marks is readable.
-      await writeLines(marks, 'ms');
+      await writeLines(await late.lines(samples, early, Date.now()), 'ms');
       await late.written(samples);
     },
     ...sampleQueries(query),
