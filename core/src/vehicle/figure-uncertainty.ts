@@ -1,5 +1,5 @@
 import type { BandWindowsEvidence, FittedFigure } from '@thermargin/shared';
-import { FAN_REFERENCE, RAM_REFERENCE } from '../radiator/airside.ts';
+import { type Airside, FAN_REFERENCE, faceVelocity_ms, RAM_REFERENCE } from '../radiator/airside.ts';
 import type { AirsideFigures } from '../radiator/airside-fit.ts';
 import type { Band } from '../trip/bands.ts';
 import type { Referral } from '../trip/refer.ts';
@@ -18,7 +18,7 @@ export interface FigureUncertainty {
   rho2_range: [number, number];
   /** kW: lowest and highest plausible unmeasured heat; null when the data cannot bound it. */
   aux_range_kw: [number, number] | null;
-  /** K: 95 % half-width of the ambient correction applied. */
+  /** K: 95 % half-width of the ambient correction applied (per sensor period: learn.ts sets it per trip). */
   ambient_half95_k: number;
 }
 
@@ -32,12 +32,8 @@ const DEFAULT_RANGE = {
 
 const half = (f: FittedFigure) => (f.ci95 ? (f.ci95[1] - f.ci95[0]) / 2 : 0);
 
-/** The uncertainty of what the vehicle stage learned or assumed (learn.ts), figure by figure. */
-export function figureUncertainty(
-  f: AirsideFigures,
-  unmeasured: UnmeasuredHeat,
-  ambient_half95_k: number,
-): FigureUncertainty {
+/** The uncertainty of what the vehicle stage learned or assumed (learn.ts), figure by figure; no ambient correction. */
+export function figureUncertainty(f: AirsideFigures, unmeasured: UnmeasuredHeat): FigureUncertainty {
   const exponent = (x: FittedFigure) =>
     x.basis === 'fitted' ? half(x) : x.basis === 'default' ? DEFAULT_RANGE.exponent_half95 : 0;
   // Unless fitted apart (a borrowed figure is reported as a copy of the ram band's), the fan band's
@@ -73,7 +69,7 @@ export function figureUncertainty(
     },
     rho2_range,
     aux_range_kw,
-    ambient_half95_k,
+    ambient_half95_k: 0,
   };
 }
 
@@ -81,41 +77,41 @@ export function figureUncertainty(
  * 95 % half-width in ln k of a band k from its windows: how far the figures' plausible values move
  * the mean of the windows' ln k_ref = ln Q − ln(ITD − correction) − n·L(ρ²), L = ½·ln((ρ²·S + D) /
  * (ρ²·S_ref + D_ref)) as in airside-window-model.ts; each figure's shift taken at its worse end, the
- * figures' shifts added in quadrature (independent). Windows with a flow meter do not carry the
- * unmeasured heat. Example: one fan window at 0 km/h and full fan, only the exponent uncertain → 0.
+ * figures' shifts added in quadrature (independent). Only the windows that gave a k count
+ * (`k_w_m2k`, refer.ts's per window); those with a flow meter do not carry the unmeasured heat.
+ * Example: one fan window at 0 km/h and full fan, only the exponent uncertain → 0.
  */
 export function figureHalfWidth(
   band: Band,
   e: BandWindowsEvidence,
+  k_w_m2k: ArrayLike<number>,
   r: Referral,
   u: FigureUncertainty,
 ): number {
   const a = r.airside;
   const n = band === 'fan' ? (a.fan_velocity_exponent ?? a.velocity_exponent) : a.velocity_exponent;
   const ref = band === 'fan' ? FAN_REFERENCE : RAM_REFERENCE;
-  const rho2 = (a.ram_face_ratio / a.fan_face_velocity_ms) ** 2;
-  const L = (i: number, p: number) => {
-    const v2 = (speed: number, duty: number) => p * (speed / 3.6) ** 2 + (duty / 100) ** 2;
-    return 0.5 * Math.log(v2(e.speed_kmh[i]!, e.fan_pct[i]!) / v2(ref.speed_kmh, ref.fan_pct));
-  };
-  // The windows that give a k (refer.ts).
+  /** The air side with ρ² = p: the ram ratio moved, the fan's face velocity kept. */
+  const withRho2 = (p: number): Airside => ({ ...a, ram_face_ratio: Math.sqrt(p) * a.fan_face_velocity_ms });
+  /** ln of a window's face velocity over the reference's (airside.ts). */
+  const L = (i: number, air: Airside) =>
+    Math.log(
+      faceVelocity_ms(e.speed_kmh[i]!, e.fan_pct[i]!, air) / faceVelocity_ms(ref.speed_kmh, ref.fan_pct, air),
+    );
   const at: number[] = [];
-  for (let i = 0; i < e.itd_k.length; i++) {
-    const q = e.meter_kw[i] ?? (e.balance_kw[i] ?? Number.NaN) + r.unmeasured_heat_kw;
-    if (q > 0 && e.itd_k[i]! - r.ambient_correction_k > 0) at.push(i);
-  }
+  for (let i = 0; i < e.itd_k.length; i++) if (Number.isFinite(k_w_m2k[i])) at.push(i);
   const m = at.length;
   let dN = 0;
   const dRho = [0, 0];
   const dAux = [0, 0];
   let dAmb = 0;
   for (const i of at) {
-    const l = L(i, rho2);
+    const l = L(i, a);
     dN += l;
     // In the ram band ρ cancels but for the little fan duty there; the fit's level takes that.
     if (band === 'fan')
       u.rho2_range.forEach((p, j) => {
-        dRho[j]! += n * (L(i, p) - l);
+        dRho[j]! += n * (L(i, withRho2(p)) - l);
       });
     dAmb += 1 / (e.itd_k[i]! - r.ambient_correction_k);
     const bal = e.meter_kw[i] === null ? e.balance_kw[i] : null;

@@ -86,9 +86,10 @@ export function learnVehicle(given: VehicleModel, trips: readonly TripResult[]):
     ambient_correction_k: correction(t),
   });
   const sigma = windowScatter(vehicle, trips, referral);
-  const uncertainty = (t: TripResult) => {
+  const figuresOff = figureUncertainty(fit, unmeasured);
+  const uncertainty = (t: TripResult): FigureUncertainty => {
     const ci = period(t)?.ci95;
-    return figureUncertainty(fit, unmeasured, ci ? (ci[1] - ci[0]) / 2 : 0);
+    return { ...figuresOff, ambient_half95_k: ci ? (ci[1] - ci[0]) / 2 : 0 };
   };
   const out = trips.map((t) => {
     if (!t.windows) return t;
@@ -154,9 +155,10 @@ function refer(v: VehicleModel, t: TripResult, r: Referral, sigma: number | null
   const k = {} as Record<Band, ReturnType<typeof medianK>>;
   for (const b of BAND_NAMES) {
     const e = t.windows![b];
-    const m = medianK(windowK_w_m2k(b, e, v.radiator_area_m2, r), ESTIMATOR_DEFAULTS);
+    const windows = windowK_w_m2k(b, e, v.radiator_area_m2, r);
+    const m = medianK(windows, ESTIMATOR_DEFAULTS);
     const ci = m?.ci95 ?? (m && sigma !== null ? scatterCi95(m.k_w_m2k, m.windows, sigma) : null);
-    k[b] = m && ci ? { ...m, ci95: widened(m.k_w_m2k, ci, figureHalfWidth(b, e, r, u)) } : m;
+    k[b] = m && ci ? { ...m, ci95: widened(m.k_w_m2k, ci, figureHalfWidth(b, e, windows, r, u)) } : m;
   }
   const m = designMargin(v, { ram: k.ram?.k_w_m2k ?? null, fan: k.fan?.k_w_m2k ?? null });
   const ci = (x: [number, number] | null | undefined) =>
