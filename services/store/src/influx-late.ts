@@ -7,6 +7,13 @@ export const LATE_MEASUREMENT = 'late_samples';
 
 type Query = (q: string) => Promise<InfluxSeries[][]>;
 
+/** A vehicle's late samples in one write: the earliest time and how many. */
+type LateSpan = { from_ms: number; count: number };
+
+/** Per vehicle, the time of its row in a `SELECT last(…) … GROUP BY vehicle` answer. */
+const lastByVehicle = (series: InfluxSeries[]) =>
+  new Map(series.map((s) => [s.tags?.vehicle ?? '', s.values[0]?.[0] as number]));
+
 /**
  * Late-sample marks in InfluxDB: a point per late write and vehicle, `late_samples,vehicle={id}
  * from_ms=…i,count=…i {ms}`, its time (unique per vehicle in this process) its handle for the delete.
@@ -24,12 +31,12 @@ export function influxLateMarks(query: Query) {
 
   const loadNewest = async () => {
     const [series = []] = await query(`SELECT last(speed_kmh) FROM ${SAMPLES_MEASUREMENT} GROUP BY vehicle`);
-    return new Map(series.map((s) => [s.tags?.vehicle ?? '', s.values[0]?.[0] as number]));
+    return lastByVehicle(series);
   };
 
   /** Per vehicle, the samples of `samples` older than `newer(vehicle)`: their earliest time and count. */
   const behind = (samples: readonly Sample[], newer: (vehicle: string) => number | undefined) => {
-    const late = new Map<string, { from_ms: number; count: number }>();
+    const late = new Map<string, LateSpan>();
     for (const s of samples) {
       const t = storedTime(s.time_ms);
       if (!(t < (newer(s.vehicle) ?? Number.NEGATIVE_INFINITY))) continue;
@@ -44,7 +51,7 @@ export function influxLateMarks(query: Query) {
 
   return {
     /** Before `samples` are written: the vehicles they are late for by what this process knows. */
-    async before(samples: readonly Sample[]): Promise<Map<string, { from_ms: number; count: number }>> {
+    async before(samples: readonly Sample[]): Promise<Map<string, LateSpan>> {
       newest ??= loadNewest().catch((e) => {
         newest = undefined;
         throw e;
@@ -56,11 +63,7 @@ export function influxLateMarks(query: Query) {
      * After `samples` are written: the mark lines, adding the vehicles another writer stored a newer
      * sample of than the whole batch (one query over the time after the batch).
      */
-    async lines(
-      samples: readonly Sample[],
-      early: Map<string, { from_ms: number; count: number }>,
-      now_ms: number,
-    ): Promise<string[]> {
+    async lines(samples: readonly Sample[], early: Map<string, LateSpan>, now_ms: number): Promise<string[]> {
       let last = Number.NEGATIVE_INFINITY;
       const vehicles = new Set<string>();
       for (const s of samples) {
@@ -72,7 +75,7 @@ export function influxLateMarks(query: Query) {
       const [series = []] = await query(
         `SELECT last(speed_kmh) FROM ${SAMPLES_MEASUREMENT} WHERE (${which}) AND time > ${timeLiteral(last)} GROUP BY vehicle`,
       );
-      const elsewhere = new Map(series.map((s) => [s.tags?.vehicle ?? '', s.values[0]?.[0] as number]));
+      const elsewhere = lastByVehicle(series);
       const late = new Map([...behind(samples, (v) => elsewhere.get(v)), ...early]);
       return [...late].map(([vehicle, m]) => {
         const at = Math.max(Math.round(now_ms), (lastMark.get(vehicle) ?? 0) + 1);
